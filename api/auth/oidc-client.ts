@@ -1,0 +1,31 @@
+import * as client from 'openid-client';
+import type { Config } from '../config.ts';
+import { ApiError } from '../http/errors.ts';
+
+export interface OidcClient {
+  /** Discovery is lazy and retried, so the app starts even while the identity provider is still coming up. */
+  configuration(): Promise<client.Configuration>;
+}
+
+export function createOidcClient(config: Config['oidc']): OidcClient {
+  let cached: Promise<client.Configuration> | null = null;
+  const insecure = config.issuer.startsWith('http://');
+  return {
+    configuration() {
+      cached ??= client
+        .discovery(new URL(config.issuer), config.clientId, config.clientSecret, undefined, {
+          // Plain http is allowed only for an issuer on loopback (the bundled development provider).
+          ...(insecure ? { execute: [client.allowInsecureRequests] } : {}),
+        })
+        .catch((err: unknown) => {
+          cached = null;
+          throw new ApiError('unavailable', 'The sign-in service is not reachable right now. Try again in a moment.', {
+            reason: err instanceof Error ? err.message : String(err),
+          });
+        });
+      return cached;
+    },
+  };
+}
+
+export { client };

@@ -1,0 +1,149 @@
+import type { Request, Response } from 'express';
+import { z } from 'zod';
+import { LogoutResultSchema } from '#shared/schemas/session.ts';
+import { writeAudit } from '../http/audit.ts';
+import { defineRoute } from '../http/route.ts';
+import { client } from './oidc-client.ts';
+import { upsertUserFromClaims } from './users.ts';
+
+const LoginQuerySchema = z.object({
+  returnTo: z
+    .string()
+    .regex(/^\/(?!\/)[^\s]*$/, 'Must be a path on this site')
+    .max(500)
+    .optional(),
+});
+
+function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+}
+
+/** A failed callback: 401, nothing created, and a way back to sign-in. */
+function signInFailed(res: Response, reason: string): void {
+  res
+    .status(401)
+    .type('html')
+    .set('Cache-Control', 'no-store')
+    .send(
+      `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1"><title>Sign-in not completed · Plinth</title>` +
+        `<style>body{font-family:system-ui,sans-serif;background:#faf6f0;color:#2b2420;display:grid;place-items:center;min-height:100vh;margin:0}main{max-width:32rem;padding:2rem}a{display:inline-block;margin-top:1rem;padding:.75rem 1.25rem;background:#7a3e2a;color:#fff;border-radius:.5rem;text-decoration:none;min-height:44px;box-sizing:border-box}</style></head>` +
+        `<body><main><h1>Sign-in was not completed</h1><p>${escapeHtml(reason)}</p><a href="/signin">Back to sign in</a></main></body></html>`,
+    );
+}
+
+function regenerate(req: Request): Promise<void> {
+  return new Promise((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
+}
+function save(req: Request): Promise<void> {
+  return new Promise((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
+}
+function destroy(req: Request): Promise<void> {
+  return new Promise((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
+}
+
+export const authRoutes = [
+  defineRoute({
+    method: 'get',
+    path: '/api/auth/login',
+    summary: 'Start sign-in: redirects to the identity provider (authorization code + PKCE)',
+    tag: 'auth',
+    auth: 'public',
+    query: LoginQuerySchema,
+    status: 302,
+    errors: [503],
+    async handler({ req, res, ctx, query }) {
+      const configuration = await ctx.oidc.configuration();
+      const codeVerifier = client.randomPKCECodeVerifier();
+      const state = client.randomState();
+      const nonce = client.randomNonce();
+      req.session.oidc = { codeVerifier, state, nonce, returnTo: query.returnTo ?? '/' };
+      await save(req);
+      const url = client.buildAuthorizationUrl(configuration, {
+        redirect_uri: ctx.config.oidc.redirectUri,
+        scope: ctx.config.oidc.scopes,
+        code_challenge: await client.calculatePKCECodeChallenge(codeVerifier),
+        code_challenge_method: 'S256',
+        state,
+        nonce,
+      });
+      res.set('Cache-Control', 'no-store').redirect(302, url.href);
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/auth/callback',
+    summary: 'Finish sign-in: exchanges the code, checks state and nonce, starts a session',
+    tag: 'auth',
+    auth: 'public',
+    query: z.object({}).catchall(z.string()),
+    status: 302,
+    produces: 'text/html',
+    errors: [503],
+    async handler({ req, res, ctx }) {
+      const pending = req.session.oidc;
+      if (!pending) return signInFailed(res, 'This sign-in attempt has expired or was started in another browser.');
+      if (typeof req.query.error === 'string') {
+        delete req.session.oidc;
+        return signInFailed(res, 'The identity provider did not sign you in.');
+      }
+      const configuration = await ctx.oidc.configuration();
+      let tokens: Awaited<ReturnType<typeof client.authorizationCodeGrant>>;
+      try {
+        tokens = await client.authorizationCodeGrant(configuration, new URL(req.originalUrl, ctx.config.appOrigin), {
+          pkceCodeVerifier: pending.codeVerifier,
+          expectedState: pending.state,
+          expectedNonce: pending.nonce,
+          idTokenExpected: true,
+        });
+      } catch (err) {
+        ctx.log(`sign-in callback refused: ${err instanceof Error ? err.message : String(err)}`);
+        delete req.session.oidc;
+        return signInFailed(res, 'The sign-in response could not be verified. Please start again.');
+      }
+      const claims = tokens.claims();
+      if (!claims) return signInFailed(res, 'The identity provider sent no identity.');
+      const user = await upsertUserFromClaims(ctx.db, {
+        issuer: String(claims.iss),
+        sub: claims.sub,
+        email: typeof claims.email === 'string' ? claims.email : null,
+        emailVerified: claims.email_verified === true,
+        name: typeof claims.name === 'string' ? claims.name : null,
+      });
+      const returnTo = pending.returnTo;
+      // A new session id at sign-in, so an id planted before sign-in is worthless after it.
+      await regenerate(req);
+      req.session.userId = user.id;
+      req.session.idToken = tokens.id_token;
+      await save(req);
+      await writeAudit(ctx.db, { actorUserId: user.id, action: 'auth.sign_in', entityType: 'user', entityId: user.id, req, details: { created: user.created } });
+      res.set('Cache-Control', 'no-store').redirect(302, returnTo);
+    },
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/auth/logout',
+    summary: 'Sign out: ends the Plinth session and returns the identity provider logout URL',
+    tag: 'auth',
+    auth: 'public',
+    response: LogoutResultSchema,
+    async handler({ req, ctx }) {
+      const idToken = req.session.idToken;
+      const userId = req.session.userId;
+      await destroy(req);
+      if (userId) await writeAudit(ctx.db, { actorUserId: userId, action: 'auth.sign_out', entityType: 'user', entityId: userId, req });
+      let redirectTo = '/signin';
+      try {
+        const configuration = await ctx.oidc.configuration();
+        if (configuration.serverMetadata().end_session_endpoint) {
+          redirectTo = client.buildEndSessionUrl(configuration, {
+            post_logout_redirect_uri: ctx.config.oidc.postLogoutRedirectUri,
+            ...(idToken ? { id_token_hint: idToken } : { client_id: ctx.config.oidc.clientId }),
+          }).href;
+        }
+      } catch {
+        // The app session is gone either way; the IdP session ends when the IdP is back.
+      }
+      return { redirectTo };
+    },
+  }),
+];

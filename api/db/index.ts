@@ -1,0 +1,35 @@
+import { Kysely, PostgresDialect } from 'kysely';
+import pg from 'pg';
+import type { Database } from './schema.ts';
+
+// DATE columns stay 'YYYY-MM-DD' strings: turning them into JS Dates shifts them by the time zone.
+pg.types.setTypeParser(1082, (v) => v);
+// bigint ids (audit log) as strings, never lossy numbers.
+pg.types.setTypeParser(20, (v) => v);
+
+export type Db = Kysely<Database>;
+
+export interface DbHandle {
+  db: Db;
+  pool: pg.Pool;
+  close(): Promise<void>;
+}
+
+/** One pool per process; idle-client errors (database restarted) are logged, not fatal. */
+export function createDb(databaseUrl: string, opts: { max?: number; log?: (msg: string) => void } = {}): DbHandle {
+  const pool = new pg.Pool({
+    connectionString: databaseUrl,
+    max: opts.max ?? 10,
+    connectionTimeoutMillis: 5000,
+    idleTimeoutMillis: 30_000,
+  });
+  pool.on('error', (err) => (opts.log ?? console.error)(`database connection lost: ${err.message}`));
+  const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
+  return {
+    db,
+    pool,
+    async close() {
+      await db.destroy();
+    },
+  };
+}

@@ -1,0 +1,24 @@
+import { sql } from 'kysely';
+import { HealthSchema } from '#shared/schemas/session.ts';
+import { defineRoute } from '../../http/route.ts';
+
+export const healthRoutes = [
+  defineRoute({
+    method: 'get',
+    path: '/api/health',
+    summary: 'Liveness and database reachability (503 when the database is away)',
+    tag: 'system',
+    auth: 'public',
+    response: HealthSchema,
+    errors: [503],
+    async handler({ ctx, res }) {
+      try {
+        await sql`select 1`.execute(ctx.db);
+        return { status: 'ok' as const, database: 'ok' as const };
+      } catch {
+        res.status(503).json({ status: 'degraded', database: 'unreachable' });
+        return;
+      }
+    },
+  }),
+];

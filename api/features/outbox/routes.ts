@@ -1,0 +1,69 @@
+import { promises as fs } from 'node:fs';
+import path from 'node:path';
+import { simpleParser, type AddressObject } from 'mailparser';
+import { OutboxPageSchema, OutboxParamsSchema, OutboxQuerySchema, type OutboxMessage } from '#shared/schemas/admin.ts';
+import { authorize } from '../../http/authorize.ts';
+import { notFound } from '../../http/errors.ts';
+import { defineRoute } from '../../http/route.ts';
+
+function addresses(a: AddressObject | AddressObject[] | undefined): string[] {
+  if (!a) return [];
+  return (Array.isArray(a) ? a : [a]).flatMap((o) => o.value.map((v) => (v.name ? `${v.name} <${v.address}>` : (v.address ?? ''))));
+}
+
+async function listMailFiles(dir: string): Promise<string[]> {
+  try {
+    return (await fs.readdir(dir)).filter((f) => f.endsWith('.eml')).sort().reverse();
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return [];
+    throw err;
+  }
+}
+
+export async function readMessage(dir: string, id: string): Promise<OutboxMessage> {
+  const parsed = await simpleParser(await fs.readFile(path.join(dir, id)));
+  return {
+    id,
+    subject: parsed.subject ?? '(no subject)',
+    from: addresses(parsed.from)[0] ?? '',
+    to: [...addresses(parsed.to), ...addresses(parsed.cc)],
+    date: parsed.date ? parsed.date.toISOString() : null,
+    attachments: parsed.attachments.map((a) => ({ filename: a.filename ?? '(unnamed)', contentType: a.contentType, size: a.size })),
+  };
+}
+
+export const outboxRoutes = [
+  defineRoute({
+    method: 'get',
+    path: '/api/outbox',
+    summary: 'Messages caught by the local mail catcher, newest first',
+    tag: 'admin',
+    auth: 'session',
+    query: OutboxQuerySchema,
+    response: OutboxPageSchema,
+    errors: [403],
+    async handler({ ctx, actor, query }) {
+      authorize(actor, 'outbox.read');
+      const files = await listMailFiles(ctx.config.mailDir);
+      const pageFiles = files.slice((query.page - 1) * query.pageSize, query.page * query.pageSize);
+      const items = await Promise.all(pageFiles.map((f) => readMessage(ctx.config.mailDir, f)));
+      return { items, total: files.length, page: query.page, pageSize: query.pageSize };
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/outbox/:id',
+    summary: 'Download one caught message as an .eml file',
+    tag: 'admin',
+    auth: 'session',
+    params: OutboxParamsSchema,
+    produces: 'message/rfc822',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, res }) {
+      authorize(actor, 'outbox.read');
+      const files = await listMailFiles(ctx.config.mailDir);
+      if (!files.includes(params.id)) throw notFound('That message');
+      res.type('message/rfc822').attachment(params.id).send(await fs.readFile(path.join(ctx.config.mailDir, params.id)));
+    },
+  }),
+];

@@ -1,0 +1,30 @@
+import { type Action, type Actor, type Resource, can } from '#shared/policy.ts';
+import { forbidden } from './errors.ts';
+
+const ACTION_WORDS: Record<Action, string> = {
+  'users.manage': 'manage users',
+  'productions.manage': 'manage productions',
+  'memberships.manage': 'manage who works on a production',
+  'lead.appoint': 'appoint the designated lead',
+  'audit.read': 'read the audit log',
+  'outbox.read': 'read the outbox',
+  'production.view': 'see this production',
+  'performers.view': 'see performers',
+  'performers.manage': 'manage performers',
+  'consents.manage': 'manage consent forms',
+  'consents.request': 'send signing requests',
+  'medical.read': 'see health details',
+  'medical.write': 'record health details',
+  'catalogue.manage': 'manage the product catalogue',
+  'patchtests.book': 'book patch tests',
+  'clearance.check': 'check clearances',
+  'applications.log': 'log applications',
+  'reactions.report': 'report reactions',
+  'casts.manage': 'manage life casts',
+  'performer.self': 'act for this performer',
+};
+
+/** Permission checked here: the only server wrapper around the policy. */
+export function authorize(actor: Actor, action: Action, resource?: Resource): void {
+  if (!can(actor, action, resource)) throw forbidden(ACTION_WORDS[action]);
+}

@@ -1,0 +1,75 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { ZodError } from 'zod';
+import { ERROR_STATUS, type ErrorBody, type ErrorCode, type FieldErrors, fieldErrorsFromIssues } from '#shared/errors.ts';
+
+/** The one error type handlers throw; the error middleware turns it into the one reply shape. */
+export class ApiError extends Error {
+  constructor(
+    public readonly code: ErrorCode,
+    message: string,
+    public readonly details?: Record<string, unknown> & { fields?: FieldErrors },
+  ) {
+    super(message);
+  }
+  get status(): number {
+    return ERROR_STATUS[this.code];
+  }
+}
+
+export const notFound = (what = 'That record') => new ApiError('not_found', `${what} was not found.`);
+export const forbidden = (action: string) => new ApiError('forbidden', `You do not have permission to ${action}.`);
+export const unauthenticated = () => new ApiError('unauthenticated', 'Sign in to continue.');
+export const conflict = (message: string, details?: Record<string, unknown>) => new ApiError('conflict', message, details);
+export const invalid = (fields: FieldErrors, message = 'Some fields need attention.') =>
+  new ApiError('validation_failed', message, { fields });
+
+// Connection-level failures mean the database is away, not that the request was wrong.
+const DB_DOWN_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08000', '08003', '08006', '08001', '08004']);
+
+function isDatabaseDown(err: unknown): boolean {
+  if (!err || typeof err !== 'object') return false;
+  const e = err as { code?: string; message?: string; errors?: unknown[] };
+  if (e.code && DB_DOWN_CODES.has(e.code)) return true;
+  if (Array.isArray(e.errors) && e.errors.some(isDatabaseDown)) return true;
+  const m = e.message ?? '';
+  return /Connection terminated|timeout exceeded when trying to connect|connect ECONNREFUSED|the database system is (starting up|shutting down)/.test(m);
+}
+
+/** Maps constraint violations that reach us to a useful reply rather than a 500. */
+function fromPostgres(err: unknown): ApiError | null {
+  if (!err || typeof err !== 'object') return null;
+  const e = err as { code?: string; constraint?: string };
+  if (e.code === '23505') return new ApiError('conflict', 'That would duplicate an existing record.', { constraint: e.constraint });
+  if (e.code === '23503') return new ApiError('conflict', 'That refers to a record that does not exist or is still in use.', { constraint: e.constraint });
+  if (e.code === '22P02' || e.code === '23514') return new ApiError('validation_failed', 'A value was not acceptable.', {});
+  return null;
+}
+
+export function toApiError(err: unknown): ApiError {
+  if (err instanceof ApiError) return err;
+  if (err instanceof ZodError) return invalid(fieldErrorsFromIssues(err.issues));
+  const e = err as { type?: string; status?: number; code?: string; name?: string } | null;
+  if (e?.type === 'entity.too.large' || e?.code === 'LIMIT_FILE_SIZE') return new ApiError('payload_too_large', 'That is larger than allowed.');
+  if (e?.type === 'entity.parse.failed') return new ApiError('validation_failed', 'The request body is not valid JSON.', { fields: {} });
+  if (isDatabaseDown(err)) return new ApiError('unavailable', 'The database is not reachable right now. Try again in a moment.');
+  const pgErr = fromPostgres(err);
+  if (pgErr) return pgErr;
+  return new ApiError('internal', 'Something went wrong on our side. It has been logged.');
+}
+
+export function errorBody(err: ApiError): ErrorBody {
+  return { error: { code: err.code, message: err.message, ...(err.details ? { details: err.details } : {}) } };
+}
+
+export function errorHandler(log: (msg: string, err?: unknown) => void): ErrorRequestHandler {
+  return (err, req, res, _next) => {
+    const apiErr = toApiError(err);
+    if (apiErr.code === 'internal') log(`${req.method} ${req.originalUrl} failed`, err);
+    if (res.headersSent) return;
+    res.status(apiErr.status).json(errorBody(apiErr));
+  };
+}
+
+export const apiNotFound: RequestHandler = (req, _res, next) => {
+  next(new ApiError('not_found', `No API route ${req.method} ${req.path}.`));
+};

@@ -1,0 +1,36 @@
+import { authRoutes } from './auth/routes.ts';
+import { auditRoutes } from './features/audit/routes.ts';
+import { healthRoutes } from './features/health/routes.ts';
+import { outboxRoutes } from './features/outbox/routes.ts';
+import { productionRoutes } from './features/productions/routes.ts';
+import { sessionRoutes } from './features/session/routes.ts';
+import { userRoutes } from './features/users/routes.ts';
+import { defineRoute, type AnyRoute, buildOpenApi } from './http/route.ts';
+
+const featureRoutes: AnyRoute[] = [
+  ...healthRoutes,
+  ...authRoutes,
+  ...sessionRoutes,
+  ...userRoutes,
+  ...productionRoutes,
+  ...outboxRoutes,
+  ...auditRoutes,
+];
+
+const openApiRoute = defineRoute({
+  method: 'get',
+  path: '/api/openapi.json',
+  summary: 'This document: OpenAPI 3.1, generated from the same zod schemas the server validates with',
+  tag: 'system',
+  auth: 'public',
+  handler: async () => openApiDocument(),
+});
+
+/** Every API route, in mount order; the OpenAPI document is built from this same list. */
+export const allRoutes: AnyRoute[] = [...featureRoutes, openApiRoute];
+
+let cachedDoc: unknown = null;
+export function openApiDocument(): unknown {
+  cachedDoc ??= buildOpenApi(allRoutes, { title: 'Plinth API', version: '0.1.0' });
+  return cachedDoc;
+}

@@ -1,0 +1,37 @@
+import type { ActingRole, Actor } from '../policy.ts';
+
+export interface Seat {
+  productionId: string | null;
+  productionName: string | null;
+  role: ActingRole;
+}
+
+const ROLE_ORDER: ActingRole[] = ['lead', 'head', 'artist', 'archivist', 'performer'];
+
+/** Every way a person can act: studio admin first, then per production, the lead seat before the others. */
+export function seatsFor(actor: Actor, productionNames: ReadonlyMap<string, string>): Seat[] {
+  const seats: Seat[] = [];
+  if (actor.isAdmin) seats.push({ productionId: null, productionName: null, role: 'admin' });
+  const byProduction = new Map<string, Set<ActingRole>>();
+  for (const m of actor.memberships) (byProduction.get(m.productionId) ?? byProduction.set(m.productionId, new Set()).get(m.productionId)!).add(m.role);
+  for (const p of actor.leadOf) (byProduction.get(p) ?? byProduction.set(p, new Set()).get(p)!).add('lead');
+  const productions = [...byProduction.keys()].sort((a, b) =>
+    (productionNames.get(a) ?? a).localeCompare(productionNames.get(b) ?? b),
+  );
+  for (const productionId of productions) {
+    const roles = byProduction.get(productionId)!;
+    for (const role of ROLE_ORDER) {
+      if (roles.has(role)) seats.push({ productionId, productionName: productionNames.get(productionId) ?? null, role });
+    }
+  }
+  return seats;
+}
+
+/** The seat to act in: the one asked for if the person still holds it, otherwise the first they hold. */
+export function chooseSeat(seats: readonly Seat[], wanted: { productionId: string | null; role: string } | undefined): Seat | null {
+  if (wanted) {
+    const hit = seats.find((s) => s.productionId === wanted.productionId && s.role === wanted.role);
+    if (hit) return hit;
+  }
+  return seats[0] ?? null;
+}
