@@ -2,11 +2,12 @@ import { OpenAPIRegistry, OpenApiGeneratorV31 } from '@asteasolutions/zod-to-ope
 import express, { type NextFunction, type Request, type Response, type Router } from 'express';
 import { z } from 'zod';
 import { ErrorBodySchema } from '#shared/errors.ts';
-import type { Actor } from '#shared/policy.ts';
+import type { Action, Actor } from '#shared/policy.ts';
 import type { AppContext } from '../context.ts';
 import { ApiError, invalid, unauthenticated } from './errors.ts';
 import { fieldErrorsFromIssues } from '#shared/errors.ts';
 import { loadActor } from './actor.ts';
+import { authorize } from './authorize.ts';
 
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 
@@ -27,6 +28,12 @@ export interface RouteSpec<P = unknown, Q = unknown, B = unknown, R = unknown, A
   summary: string;
   tag: string;
   auth: Auth;
+  /**
+   * A studio-wide permission checked before any input is read, so a person without it learns
+   * nothing from validation messages. Production-scoped checks happen in the handler, once the
+   * record (and so its production) is loaded.
+   */
+  requires?: Action;
   params?: z.ZodType<P>;
   query?: z.ZodType<Q>;
   body?: z.ZodType<B>;
@@ -72,6 +79,7 @@ export function mountRoutes(router: Router, routes: readonly AnyRoute[], ctx: Ap
         let actor: Actor | null = null;
         if (req.session?.userId) actor = await loadActor(ctx.db, req.session.userId);
         if (route.auth === 'session' && !actor) throw unauthenticated();
+        if (route.requires) authorize(actor as Actor, route.requires);
         const params = parseOr400(route.params, req.params, 'path');
         const query = parseOr400(route.query, req.query, 'query');
         const body = parseOr400(route.body, req.body, 'body');
@@ -126,6 +134,7 @@ export function buildOpenApi(routes: readonly AnyRoute[], info: { title: string;
       summary: route.summary,
       tags: [route.tag],
       ...(route.auth === 'session' ? { security: [{ session: [] }] } : {}),
+      ...(route.requires ? { 'x-permission': route.requires } : {}),
       request: {
         ...(route.params ? { params: route.params as z.ZodObject } : {}),
         ...(route.query ? { query: route.query as z.ZodObject } : {}),

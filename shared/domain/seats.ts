@@ -27,11 +27,20 @@ export function seatsFor(actor: Actor, productionNames: ReadonlyMap<string, stri
   return seats;
 }
 
-/** The seat to act in: the one asked for if the person still holds it, otherwise the first they hold. */
+const DEFAULT_RANK: ActingRole[] = ['admin', 'lead', 'head', 'artist', 'archivist', 'performer'];
+
+/**
+ * The seat to act in: the one asked for if the person still holds it, otherwise their most
+ * responsible one (admin, then lead, head, artist, archivist, performer), so nobody starts in a lesser role by accident.
+ */
 export function chooseSeat(seats: readonly Seat[], wanted: { productionId: string | null; role: string } | undefined): Seat | null {
   if (wanted) {
     const hit = seats.find((s) => s.productionId === wanted.productionId && s.role === wanted.role);
     if (hit) return hit;
   }
-  return seats[0] ?? null;
+  for (const role of DEFAULT_RANK) {
+    const hit = seats.find((s) => s.role === role);
+    if (hit) return hit;
+  }
+  return null;
 }

@@ -1,6 +1,5 @@
 import { sql } from 'kysely';
 import { AuditPageSchema, AuditQuerySchema } from '#shared/schemas/admin.ts';
-import { authorize } from '../../http/authorize.ts';
 import { defineRoute } from '../../http/route.ts';
 
 export const auditRoutes = [
@@ -10,11 +9,11 @@ export const auditRoutes = [
     summary: 'The audit log (newest first by default), filterable by action',
     tag: 'admin',
     auth: 'session',
+    requires: 'audit.read',
     query: AuditQuerySchema,
     response: AuditPageSchema,
     errors: [403],
     async handler({ ctx, actor, query }) {
-      authorize(actor, 'audit.read');
       let q = ctx.db.selectFrom('audit_log as a').leftJoin('users as u', 'u.id', 'a.actor_user_id');
       if (query.action) q = q.where('a.action', 'like', `${query.action.replace(/[\\%_]/g, (c) => `\\${c}`)}%`);
       if (query.q) q = q.where((eb) => eb.or([eb('u.display_name', 'ilike', `%${query.q}%`), eb('a.entity_id', '=', query.q!)]));

@@ -2,7 +2,6 @@ import { promises as fs } from 'node:fs';
 import path from 'node:path';
 import { simpleParser, type AddressObject } from 'mailparser';
 import { OutboxPageSchema, OutboxParamsSchema, OutboxQuerySchema, type OutboxMessage } from '#shared/schemas/admin.ts';
-import { authorize } from '../../http/authorize.ts';
 import { notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
 
@@ -39,11 +38,11 @@ export const outboxRoutes = [
     summary: 'Messages caught by the local mail catcher, newest first',
     tag: 'admin',
     auth: 'session',
+    requires: 'outbox.read',
     query: OutboxQuerySchema,
     response: OutboxPageSchema,
     errors: [403],
     async handler({ ctx, actor, query }) {
-      authorize(actor, 'outbox.read');
       const files = await listMailFiles(ctx.config.mailDir);
       const pageFiles = files.slice((query.page - 1) * query.pageSize, query.page * query.pageSize);
       const items = await Promise.all(pageFiles.map((f) => readMessage(ctx.config.mailDir, f)));
@@ -56,11 +55,11 @@ export const outboxRoutes = [
     summary: 'Download one caught message as an .eml file',
     tag: 'admin',
     auth: 'session',
+    requires: 'outbox.read',
     params: OutboxParamsSchema,
     produces: 'message/rfc822',
     errors: [403, 404],
     async handler({ ctx, actor, params, res }) {
-      authorize(actor, 'outbox.read');
       const files = await listMailFiles(ctx.config.mailDir);
       if (!files.includes(params.id)) throw notFound('That message');
       res.type('message/rfc822').attachment(params.id).send(await fs.readFile(path.join(ctx.config.mailDir, params.id)));

@@ -12,7 +12,6 @@ import {
 import { IdParamsSchema, VersionSchema } from '#shared/schemas/common.ts';
 import type { AppContext } from '../../context.ts';
 import { writeAudit } from '../../http/audit.ts';
-import { authorize } from '../../http/authorize.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
 import { sendRoleNotice } from './notices.ts';
@@ -37,11 +36,11 @@ export const productionRoutes = [
     summary: 'List productions (search, sort, page)',
     tag: 'admin',
     auth: 'session',
+    requires: 'productions.manage',
     query: ProductionListQuerySchema,
     response: ProductionPageSchema,
     errors: [403],
     async handler({ ctx, actor, query }) {
-      authorize(actor, 'productions.manage');
       const { items, total } = await listProductions(ctx.db, query);
       return { items, total, page: query.page, pageSize: query.pageSize };
     },
@@ -52,11 +51,11 @@ export const productionRoutes = [
     summary: 'One production with its memberships and the designated-lead history',
     tag: 'admin',
     auth: 'session',
+    requires: 'productions.manage',
     params: IdParamsSchema,
     response: ProductionDetailSchema,
     errors: [403, 404],
     async handler({ ctx, actor, params }) {
-      authorize(actor, 'productions.manage');
       return detail(ctx, params.id);
     },
   }),
@@ -66,12 +65,12 @@ export const productionRoutes = [
     summary: 'Create a production',
     tag: 'admin',
     auth: 'session',
+    requires: 'productions.manage',
     body: CreateProductionInputSchema,
     response: ProductionDetailSchema,
     status: 201,
     errors: [403, 409],
     async handler({ ctx, actor, body, req }) {
-      authorize(actor, 'productions.manage');
       const taken = await ctx.db.selectFrom('productions').select('id').where(sql`lower(name)`, '=', body.name.toLowerCase()).executeTakeFirst();
       if (taken) throw invalid({ name: ['A production with this name already exists.'] });
       const id = await ctx.db.transaction().execute(async (trx) => {
@@ -92,12 +91,12 @@ export const productionRoutes = [
     summary: 'Edit a production (optimistic lock on version)',
     tag: 'admin',
     auth: 'session',
+    requires: 'productions.manage',
     params: IdParamsSchema,
     body: UpdateProductionInputSchema,
     response: ProductionDetailSchema,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, body, req }) {
-      authorize(actor, 'productions.manage');
       await ctx.db.transaction().execute(async (trx) => {
         const current = await lockProduction(trx, params.id);
         if (!current) throw notFound('That production');
@@ -120,13 +119,13 @@ export const productionRoutes = [
     summary: 'Give a user a role on a production (e-mails them a notice)',
     tag: 'admin',
     auth: 'session',
+    requires: 'memberships.manage',
     params: IdParamsSchema,
     body: AddMembershipInputSchema,
     response: ProductionDetailSchema,
     status: 201,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, body, req }) {
-      authorize(actor, 'memberships.manage');
       const { user, productionName } = await ctx.db.transaction().execute(async (trx) => {
         const production = await lockProduction(trx, params.id);
         if (!production) throw notFound('That production');
@@ -155,11 +154,11 @@ export const productionRoutes = [
     summary: 'Take a role on a production away from a user',
     tag: 'admin',
     auth: 'session',
+    requires: 'memberships.manage',
     params: MembershipParamsSchema,
     response: ProductionDetailSchema,
     errors: [403, 404],
     async handler({ ctx, actor, params, req }) {
-      authorize(actor, 'memberships.manage');
       await ctx.db.transaction().execute(async (trx) => {
         const production = await lockProduction(trx, params.id);
         if (!production) throw notFound('That production');
@@ -182,13 +181,13 @@ export const productionRoutes = [
     summary: 'Appoint the designated lead; the previous appointment ends now (history kept)',
     tag: 'admin',
     auth: 'session',
+    requires: 'lead.appoint',
     params: IdParamsSchema,
     body: AppointLeadInputSchema,
     response: ProductionDetailSchema,
     status: 201,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, body, req }) {
-      authorize(actor, 'lead.appoint');
       const { user, productionName } = await ctx.db.transaction().execute(async (trx) => {
         const production = await lockProduction(trx, params.id);
         if (!production) throw notFound('That production');
@@ -217,12 +216,12 @@ export const productionRoutes = [
     summary: 'End the current designated-lead appointment without naming a successor',
     tag: 'admin',
     auth: 'session',
+    requires: 'lead.appoint',
     params: IdParamsSchema,
     query: z.object({ version: z.coerce.number().pipe(VersionSchema) }),
     response: ProductionDetailSchema,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, query, req }) {
-      authorize(actor, 'lead.appoint');
       await ctx.db.transaction().execute(async (trx) => {
         const production = await lockProduction(trx, params.id);
         if (!production) throw notFound('That production');

@@ -2,7 +2,6 @@ import { sql } from 'kysely';
 import { IdParamsSchema } from '#shared/schemas/common.ts';
 import { CreateUserInputSchema, UpdateUserInputSchema, UserListQuerySchema, UserPageSchema, UserSchema } from '#shared/schemas/admin.ts';
 import { writeAudit } from '../../http/audit.ts';
-import { authorize } from '../../http/authorize.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
 import { countAdmins, findUserById, insertUser, listUsers, updateUserAtVersion } from './repo.ts';
@@ -14,11 +13,11 @@ export const userRoutes = [
     summary: 'List users (search, filter, sort, page)',
     tag: 'admin',
     auth: 'session',
+    requires: 'users.manage',
     query: UserListQuerySchema,
     response: UserPageSchema,
     errors: [403],
     async handler({ ctx, actor, query }) {
-      authorize(actor, 'users.manage');
       const { items, total } = await listUsers(ctx.db, query);
       return { items, total, page: query.page, pageSize: query.pageSize };
     },
@@ -29,11 +28,11 @@ export const userRoutes = [
     summary: 'One user',
     tag: 'admin',
     auth: 'session',
+    requires: 'users.manage',
     params: IdParamsSchema,
     response: UserSchema,
     errors: [403, 404],
     async handler({ ctx, actor, params }) {
-      authorize(actor, 'users.manage');
       const user = await findUserById(ctx.db, params.id);
       if (!user) throw notFound('That user');
       return user;
@@ -45,12 +44,12 @@ export const userRoutes = [
     summary: 'Register a user by e-mail before their first sign-in',
     tag: 'admin',
     auth: 'session',
+    requires: 'users.manage',
     body: CreateUserInputSchema,
     response: UserSchema,
     status: 201,
     errors: [403, 409],
     async handler({ ctx, actor, body, req }) {
-      authorize(actor, 'users.manage');
       const exists = await ctx.db.selectFrom('users').select('id').where(sql`lower(email)`, '=', body.email).executeTakeFirst();
       if (exists) throw invalid({ email: ['A user with this e-mail already exists.'] });
       const id = await ctx.db.transaction().execute(async (trx) => {
@@ -67,12 +66,12 @@ export const userRoutes = [
     summary: 'Rename a user or change the studio-admin flag (optimistic lock on version)',
     tag: 'admin',
     auth: 'session',
+    requires: 'users.manage',
     params: IdParamsSchema,
     body: UpdateUserInputSchema,
     response: UserSchema,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, body, req }) {
-      authorize(actor, 'users.manage');
       await ctx.db.transaction().execute(async (trx) => {
         const current = await trx.selectFrom('users').select(['id', 'is_admin', 'version']).where('id', '=', params.id).forUpdate().executeTakeFirst();
         if (!current) throw notFound('That user');
