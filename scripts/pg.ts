@@ -158,7 +158,7 @@ async function runServerCommand(file: string, args: readonly string[]): Promise<
     const e = err as NodeJS.ErrnoException & { code?: unknown; stdout?: string; stderr?: string; signal?: string | null };
     if (typeof e.code === 'number') return { code: e.code, stdout: e.stdout ?? '', stderr: e.stderr ?? '' };
     if (e.signal) return { code: 128, stdout: e.stdout ?? '', stderr: `${e.stderr ?? ''}\n(killed by ${e.signal})` };
-    throw new Error(`Could not run ${command}: ${e.message}`);
+    throw new Error(`Could not run ${command}: ${e.message}`, { cause: err });
   }
 }
 
@@ -284,10 +284,11 @@ async function waitForConnection(url: string, dataDir: string, user: string, por
         throw new Error(
           `The PostgreSQL cluster in ${dataDir} rejected the login for "${user}": it was created with a different user or password. ` +
             `Use the original credentials, or delete ${dataDir} to recreate it.`,
+          { cause: err },
         );
       }
       if (Date.now() >= deadline) {
-        throw new Error(`PostgreSQL on port ${port} did not accept connections within 30 s: ${(err as Error).message}`);
+        throw new Error(`PostgreSQL on port ${port} did not accept connections within 30 s: ${(err as Error).message}`, { cause: err });
       }
       await new Promise((r) => setTimeout(r, 100));
     }

@@ -27,7 +27,7 @@ async function shutdown(code: number): Promise<never> {
     stopping = true;
     const force = setTimeout(() => process.exit(code || 1), 15_000);
     force.unref();
-    for (const close of closers.reverse()) {
+    for (const close of closers.toReversed()) {
       try {
         await close();
       } catch (err) {

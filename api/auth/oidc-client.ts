@@ -12,11 +12,10 @@ export function createOidcClient(config: Config['oidc']): OidcClient {
   const insecure = config.issuer.startsWith('http://');
   return {
     configuration() {
+      // Plain http is allowed only for an issuer on loopback (the bundled development provider).
+      const options = insecure ? { execute: [client.allowInsecureRequests] } : undefined;
       cached ??= client
-        .discovery(new URL(config.issuer), config.clientId, config.clientSecret, undefined, {
-          // Plain http is allowed only for an issuer on loopback (the bundled development provider).
-          ...(insecure ? { execute: [client.allowInsecureRequests] } : {}),
-        })
+        .discovery(new URL(config.issuer), config.clientId, config.clientSecret, undefined, options)
         .catch((err: unknown) => {
           cached = null;
           throw new ApiError('unavailable', 'The sign-in service is not reachable right now. Try again in a moment.', {

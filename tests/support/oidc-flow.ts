@@ -23,7 +23,7 @@ export class CookieJar {
 /** Follows redirects on the identity provider until one leaves it; returns that Location. */
 export async function followUntilLeaving(jar: CookieJar, start: string, issuer: string, init?: RequestInit): Promise<{ location: string; last: Response }> {
   let url = start;
-  let res = await fetch(url, { ...init, redirect: 'manual', headers: { ...(init?.headers ?? {}), cookie: jar.header(url) } });
+  let res = await fetch(url, { ...init, redirect: 'manual', headers: { ...init?.headers, cookie: jar.header(url) } });
   jar.store(url, res);
   for (let i = 0; i < 10; i++) {
     const loc = res.headers.get('location');

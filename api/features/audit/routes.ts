@@ -13,7 +13,7 @@ export const auditRoutes = [
     query: AuditQuerySchema,
     response: AuditPageSchema,
     errors: [403],
-    async handler({ ctx, actor, query }) {
+    async handler({ ctx, query }) {
       let q = ctx.db.selectFrom('audit_log as a').leftJoin('users as u', 'u.id', 'a.actor_user_id');
       if (query.action) q = q.where('a.action', 'like', `${query.action.replace(/[\\%_]/g, (c) => `\\${c}`)}%`);
       if (query.q) q = q.where((eb) => eb.or([eb('u.display_name', 'ilike', `%${query.q}%`), eb('a.entity_id', '=', query.q!)]));

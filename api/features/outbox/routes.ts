@@ -12,7 +12,7 @@ function addresses(a: AddressObject | AddressObject[] | undefined): string[] {
 
 async function listMailFiles(dir: string): Promise<string[]> {
   try {
-    return (await fs.readdir(dir)).filter((f) => f.endsWith('.eml')).sort().reverse();
+    return (await fs.readdir(dir)).filter((f) => f.endsWith('.eml')).sort().toReversed();
   } catch (err) {
     if ((err as NodeJS.ErrnoException).code === 'ENOENT') return [];
     throw err;
@@ -42,7 +42,7 @@ export const outboxRoutes = [
     query: OutboxQuerySchema,
     response: OutboxPageSchema,
     errors: [403],
-    async handler({ ctx, actor, query }) {
+    async handler({ ctx, query }) {
       const files = await listMailFiles(ctx.config.mailDir);
       const pageFiles = files.slice((query.page - 1) * query.pageSize, query.page * query.pageSize);
       const items = await Promise.all(pageFiles.map((f) => readMessage(ctx.config.mailDir, f)));
@@ -59,7 +59,7 @@ export const outboxRoutes = [
     params: OutboxParamsSchema,
     produces: 'message/rfc822',
     errors: [403, 404],
-    async handler({ ctx, actor, params, res }) {
+    async handler({ ctx, params, res }) {
       const files = await listMailFiles(ctx.config.mailDir);
       if (!files.includes(params.id)) throw notFound('That message');
       res.type('message/rfc822').attachment(params.id).send(await fs.readFile(path.join(ctx.config.mailDir, params.id)));

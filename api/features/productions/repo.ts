@@ -9,7 +9,7 @@ function baseQuery(db: Db) {
     .selectFrom('productions')
     .leftJoin('lead_appointments as la', (j) => j.onRef('la.production_id', '=', 'productions.id').on('la.ends_at', 'is', null))
     .leftJoin('users as lu', 'lu.id', 'la.user_id')
-    .select((eb) => [
+    .select([
       'productions.id',
       'productions.name',
       'productions.kind',

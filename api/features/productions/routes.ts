@@ -40,7 +40,7 @@ export const productionRoutes = [
     query: ProductionListQuerySchema,
     response: ProductionPageSchema,
     errors: [403],
-    async handler({ ctx, actor, query }) {
+    async handler({ ctx, query }) {
       const { items, total } = await listProductions(ctx.db, query);
       return { items, total, page: query.page, pageSize: query.pageSize };
     },
@@ -55,7 +55,7 @@ export const productionRoutes = [
     params: IdParamsSchema,
     response: ProductionDetailSchema,
     errors: [403, 404],
-    async handler({ ctx, actor, params }) {
+    async handler({ ctx, params }) {
       return detail(ctx, params.id);
     },
   }),

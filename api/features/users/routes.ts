@@ -17,7 +17,7 @@ export const userRoutes = [
     query: UserListQuerySchema,
     response: UserPageSchema,
     errors: [403],
-    async handler({ ctx, actor, query }) {
+    async handler({ ctx, query }) {
       const { items, total } = await listUsers(ctx.db, query);
       return { items, total, page: query.page, pageSize: query.pageSize };
     },
@@ -32,7 +32,7 @@ export const userRoutes = [
     params: IdParamsSchema,
     response: UserSchema,
     errors: [403, 404],
-    async handler({ ctx, actor, params }) {
+    async handler({ ctx, params }) {
       const user = await findUserById(ctx.db, params.id);
       if (!user) throw notFound('That user');
       return user;

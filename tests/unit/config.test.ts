@@ -1,0 +1,37 @@
+import { describe, expect, it } from 'vitest';
+import { ConfigError, parseConfig } from '../../api/config.ts';
+
+describe('parseConfig', () => {
+  it('has working defaults for a local start', () => {
+    const c = parseConfig({});
+    expect(c.port).toBe(3000);
+    expect(c.appOrigin).toBe('http://127.0.0.1:3000');
+    expect(c.oidc.issuer).toBe('http://127.0.0.1:3001');
+    expect(c.oidc.redirectUri).toBe('http://127.0.0.1:3000/api/auth/callback');
+    expect(c.smtpUrl).toBe('smtp://127.0.0.1:2525');
+    expect(c.dbPort).toBe(54329);
+  });
+  it('derives the origin from PORT and the callback from the origin', () => {
+    const c = parseConfig({ PORT: '4100' });
+    expect(c.appOrigin).toBe('http://127.0.0.1:4100');
+    expect(parseConfig({ APP_ORIGIN: 'https://plinth.example.test/' }).oidc.redirectUri).toBe('https://plinth.example.test/api/auth/callback');
+  });
+  it('names every bad variable in one error', () => {
+    try {
+      parseConfig({ PORT: 'abc', OIDC_ISSUER: 'not a url', SESSION_SECRET: 'short' });
+      expect.unreachable();
+    } catch (err) {
+      expect(err).toBeInstanceOf(ConfigError);
+      const msg = (err as Error).message;
+      expect(msg).toContain('PORT');
+      expect(msg).toContain('OIDC_ISSUER');
+      expect(msg).toContain('SESSION_SECRET');
+    }
+  });
+  it('refuses the development session secret in production without the local fakes', () => {
+    expect(() => parseConfig({ NODE_ENV: 'production', START_FAKES: 'false' })).toThrow(/SESSION_SECRET/);
+  });
+  it('treats empty variables as unset', () => {
+    expect(parseConfig({ PORT: '' }).port).toBe(3000);
+  });
+});
