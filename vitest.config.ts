@@ -23,7 +23,7 @@ export default defineConfig({
         test: {
           name: 'browser',
           include: ['tests/browser/**/*.test.ts'],
-          globalSetup: ['tests/support/global-setup.ts'],
+          globalSetup: ['tests/support/global-setup.ts', 'tests/support/browser-stack.ts'],
           testTimeout: 60_000,
           hookTimeout: 120_000,
           fileParallelism: false,

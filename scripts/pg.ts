@@ -405,3 +405,30 @@ export async function ensureDatabase(cluster: Cluster, name: string): Promise<bo
     await client.end();
   }
 }
+
+/**
+ * A cluster that lives in a fresh temporary folder on a free port, for tests and benchmarks;
+ * `dispose()` stops it and deletes the folder, and is safe to call after a half-finished start.
+ */
+export async function createThrowawayCluster(): Promise<{ cluster: Cluster; dispose(): Promise<void> }> {
+  const { mkdtemp, chmod, rm } = await import('node:fs/promises');
+  const { tmpdir } = await import('node:os');
+  const { join } = await import('node:path');
+  const { randomBytes } = await import('node:crypto');
+  const { freePort } = await import('./ports.ts');
+  const tempDir = await mkdtemp(join(tmpdir(), 'plinth-test-'));
+  const dataDir = join(tempDir, 'pg');
+  const dispose = async () => {
+    await stopCluster(dataDir).catch((err: unknown) => console.error(`Could not stop the throwaway cluster: ${(err as Error).message}`));
+    await rm(tempDir, { recursive: true, force: true }).catch((err: unknown) => console.error(`Could not remove ${tempDir}: ${(err as Error).message}`));
+  };
+  try {
+    // mkdtemp makes it 0700; the server runs as postgres when we are root.
+    await chmod(tempDir, 0o755);
+    const cluster = await startCluster({ dataDir, port: await freePort(), password: randomBytes(18).toString('base64url'), quiet: true });
+    return { cluster, dispose };
+  } catch (err) {
+    await dispose();
+    throw err;
+  }
+}

@@ -1,14 +1,11 @@
 // `npm test`: runs vitest against a throwaway PostgreSQL cluster that lives
 // only as long as this process, so tests can never touch the dev data in .data/.
 import { spawn, type ChildProcess } from 'node:child_process';
-import { randomBytes } from 'node:crypto';
 import { existsSync } from 'node:fs';
-import { chmod, mkdtemp, rm } from 'node:fs/promises';
-import { constants as osConstants, tmpdir } from 'node:os';
+import { constants as osConstants } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { aptInstall, startCluster, stopCluster, type Cluster } from './pg.ts';
-import { freePort } from './ports.ts';
+import { aptInstall, createThrowawayCluster } from './pg.ts';
 
 const repoRoot = fileURLToPath(new URL('..', import.meta.url));
 const vitestBin = join(repoRoot, 'node_modules', '.bin', 'vitest');
@@ -93,32 +90,15 @@ async function main(): Promise<number> {
   // Before the cluster exists: an install can take minutes and needs no database.
   if (browserProjectWillRun(args)) ensureChromium();
 
-  const tempDir = await mkdtemp(join(tmpdir(), 'plinth-test-'));
-  const dataDir = join(tempDir, 'pg');
-  let cluster: Cluster | undefined;
+  const { cluster, dispose } = await createThrowawayCluster();
   try {
-    // mkdtemp makes it 0700; the server runs as postgres when we are root.
-    await chmod(tempDir, 0o755);
-    cluster = await startCluster({
-      dataDir,
-      port: await freePort(),
-      password: randomBytes(18).toString('base64url'),
-      quiet: true,
-    });
     if (interruptedBy) return signalExitCode(interruptedBy);
-
     // Tests create their own databases from this one, so parallel files do not collide.
     process.env.TEST_DATABASE_URL = cluster.url('postgres');
     process.env.NODE_ENV = 'test';
     return await runVitest(args);
   } finally {
-    // If start was interrupted half-way there is no Cluster object, but a server may be up.
-    await (cluster ? cluster.stop() : stopCluster(dataDir)).catch((err: unknown) => {
-      console.error(`Could not stop the test cluster: ${(err as Error).message}`);
-    });
-    await rm(tempDir, { recursive: true, force: true }).catch((err: unknown) => {
-      console.error(`Could not remove ${tempDir}: ${(err as Error).message}`);
-    });
+    await dispose();
   }
 }
 

@@ -1,0 +1,89 @@
+/**
+ * `npm run bench`: measures the API on a throwaway database with a studio-sized data set and
+ * prints figures. Nothing here asserts a time; tests stay deterministic.
+ */
+import type { AddressInfo } from 'node:net';
+import { createHmac, randomBytes } from 'node:crypto';
+import { createApp } from '../api/app.ts';
+import { createOidcClient } from '../api/auth/oidc-client.ts';
+import { parseConfig } from '../api/config.ts';
+import { createDb } from '../api/db/index.ts';
+import { migrateToLatest } from '../api/db/migrate.ts';
+import { seedDemo } from '../api/db/seed.ts';
+import { SESSION_COOKIE } from '../api/http/session.ts';
+import { createThrowawayCluster, ensureDatabase } from './pg.ts';
+
+const USERS = Number(process.env.BENCH_USERS ?? 5000);
+const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 400);
+const CONCURRENCY = Number(process.env.BENCH_CONCURRENCY ?? 8);
+
+function percentile(sorted: number[], p: number): number {
+  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!;
+}
+
+async function measure(label: string, url: string, cookie: string): Promise<void> {
+  const times: number[] = [];
+  let next = 0;
+  const started = performance.now();
+  await Promise.all(
+    Array.from({ length: CONCURRENCY }, async () => {
+      while (next < REQUESTS) {
+        next++;
+        const t0 = performance.now();
+        const res = await fetch(url, { headers: { cookie } });
+        await res.arrayBuffer();
+        if (!res.ok) throw new Error(`${label}: HTTP ${res.status}`);
+        times.push(performance.now() - t0);
+      }
+    }),
+  );
+  const wall = (performance.now() - started) / 1000;
+  times.sort((a, b) => a - b);
+  console.log(
+    `${label.padEnd(44)} n=${times.length}  p50=${percentile(times, 50).toFixed(1)} ms  p95=${percentile(times, 95).toFixed(1)} ms  max=${times.at(-1)!.toFixed(1)} ms  ${(times.length / wall).toFixed(0)} req/s`,
+  );
+}
+
+const { cluster, dispose } = await createThrowawayCluster();
+try {
+  await ensureDatabase(cluster, 'bench');
+  const handle = createDb(cluster.url('bench'), { log: () => {} });
+  await migrateToLatest(handle.db);
+  await seedDemo(handle.db);
+  const t0 = performance.now();
+  for (let i = 0; i < USERS; i += 1000) {
+    const rows = Array.from({ length: Math.min(1000, USERS - i) }, (_, k) => ({ email: `bench${i + k}@example.test`, display_name: `Bench Person ${i + k}` }));
+    await handle.db.insertInto('users').values(rows).execute();
+  }
+  console.log(`Loaded ${USERS} extra users in ${((performance.now() - t0) / 1000).toFixed(2)} s`);
+
+  const secret = 'bench-session-secret-0123456789abcdef-xyz';
+  const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench') });
+  const app = createApp({
+    ctx: { config, db: handle.db, mailer: { send: async () => ({ messageId: 'bench' }), close() {} }, oidc: createOidcClient(config.oidc), log: () => {} },
+    pool: handle.pool,
+  });
+  const server = app.listen(0, '127.0.0.1');
+  await new Promise((r) => server.once('listening', r));
+  const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+
+  const admin = await handle.db.selectFrom('users').select('id').where('email', '=', 'admin@plinth.test').executeTakeFirstOrThrow();
+  const sid = randomBytes(24).toString('base64url');
+  const expires = new Date(Date.now() + 3600_000);
+  await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie: { expires: expires.toISOString(), httpOnly: true, path: '/' }, userId: admin.id }), expire: expires }).execute();
+  const cookie = `${SESSION_COOKIE}=${encodeURIComponent(`s:${sid}.${createHmac('sha256', secret).update(sid).digest('base64').replace(/=+$/, '')}`)}`;
+
+  console.log(`\n${REQUESTS} requests each, ${CONCURRENCY} at a time, on ${base}:`);
+  await measure('GET /api/health', `${base}/api/health`, cookie);
+  await measure('GET /api/session', `${base}/api/session`, cookie);
+  await measure('GET /api/home (admin)', `${base}/api/home`, cookie);
+  await measure(`GET /api/users page 1 of ${USERS + 7}`, `${base}/api/users?pageSize=25`, cookie);
+  await measure('GET /api/users search "person 42"', `${base}/api/users?q=person%2042&pageSize=25`, cookie);
+  await measure('GET /api/users sorted by e-mail, page 150', `${base}/api/users?sort=email&page=150&pageSize=25`, cookie);
+
+  server.closeAllConnections();
+  server.close();
+  await handle.close();
+} finally {
+  await dispose();
+}

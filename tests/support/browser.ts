@@ -1,0 +1,53 @@
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { type Browser, type BrowserContext, chromium, type Page } from 'playwright-core';
+import { expect } from 'vitest';
+
+const CHROMIUM = '/usr/bin/chromium';
+const require = createRequire(import.meta.url);
+const AXE_SOURCE = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
+
+export const TABLET_LANDSCAPE = { width: 1024, height: 768 };
+export const TABLET_PORTRAIT = { width: 768, height: 1024 };
+
+/** Debian's Chromium, never a downloaded browser; flags keep it off the network and quiet. */
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: CHROMIUM,
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+  });
+}
+
+export async function tabletContext(browser: Browser, viewport = TABLET_LANDSCAPE): Promise<BrowserContext> {
+  return browser.newContext({ viewport, hasTouch: true, isMobile: false, deviceScaleFactor: 1, locale: 'en-GB', timezoneId: 'Europe/London' });
+}
+
+export interface AxeViolation {
+  id: string;
+  impact: string | null;
+  help: string;
+  nodes: { target: string[] }[];
+}
+
+/** Runs axe-core in the page; fails on any serious or critical violation, naming each. */
+export async function expectAccessible(page: Page, label: string): Promise<void> {
+  await page.addScriptTag({ content: AXE_SOURCE });
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: AxeViolation[] }> } }).axe;
+    const result = await axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa'] } });
+    return result.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n) => ({ target: n.target })) }));
+  });
+  const bad = violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+  expect(bad.map((v) => `${label}: ${v.id} (${v.impact}) ${v.help} at ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`)).toEqual([]);
+}
+
+/** Signs in through the real identity provider pages, as a person would. */
+export async function signInThroughIdp(page: Page, appUrl: string, email: string, password: string): Promise<void> {
+  await page.goto(`${appUrl}/`);
+  await page.getByRole('link', { name: 'Sign in' }).or(page.getByRole('button', { name: 'Sign in' })).first().click();
+  await page.getByLabel('Email').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((url) => url.href.startsWith(appUrl) && !url.pathname.startsWith('/api/'));
+}
