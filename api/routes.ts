@@ -2,6 +2,7 @@ import { authRoutes } from './auth/routes.ts';
 import { auditRoutes } from './features/audit/routes.ts';
 import { healthRoutes } from './features/health/routes.ts';
 import { outboxRoutes } from './features/outbox/routes.ts';
+import { performerRoutes } from './features/performers/routes.ts';
 import { productionRoutes } from './features/productions/routes.ts';
 import { sessionRoutes } from './features/session/routes.ts';
 import { userRoutes } from './features/users/routes.ts';
@@ -14,6 +15,7 @@ const featureRoutes: AnyRoute[] = [
   ...userRoutes,
   ...productionRoutes,
   ...outboxRoutes,
+  ...performerRoutes,
   ...auditRoutes,
 ];
 

@@ -48,7 +48,8 @@ export type Action =
   | 'applications.log'
   | 'reactions.report'
   | 'casts.manage'
-  | 'performer.self';
+  | 'performer.self'
+  | 'templates.manage';
 
 export interface Resource {
   productionId?: string | null;
@@ -128,6 +129,8 @@ function productionsOf(resource: Resource): string[] {
  */
 export function can(actor: Actor, action: Action, resource: Resource = {}): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
+  // Consent templates are studio-wide: kept by administrators and by any head or lead.
+  if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
 
   const isSelf = resource.performerId != null && actor.performerIds.includes(resource.performerId);
   if (action === 'performer.self') return isSelf;
@@ -140,6 +143,7 @@ export function can(actor: Actor, action: Action, resource: Resource = {}): bool
 /** Does any of this actor's roles grant the action somewhere? Only for showing navigation, never for data. */
 export function canSomewhere(actor: Actor, action: Action): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
+  if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
   if (action === 'performer.self' || action === 'medical.read') {
     if (actor.performerIds.length > 0) return true;
   }

@@ -53,6 +53,15 @@ export interface PerformersTable {
   preferred_name: string | null;
   email: string | null;
   user_id: string | null;
+  pronouns: string | null;
+  phone: string | null;
+  emergency_contact_name: string | null;
+  emergency_contact_phone: string | null;
+  agent_name: string | null;
+  agent_contact: string | null;
+  notes: string | null;
+  portrait_file_id: string | null;
+  portrait_thumb_file_id: string | null;
   created_at: Timestamp;
   updated_at: Timestamp;
   version: Generated<number>;
@@ -86,7 +95,121 @@ export interface AuditLogTable {
   ip: string | null;
 }
 
+export interface FilesTable {
+  id: Generated<string>;
+  purpose: string;
+  content_type: string;
+  byte_size: number;
+  sha256: string;
+  storage_path: string;
+  width: number | null;
+  height: number | null;
+  created_by: string | null;
+  created_at: Timestamp;
+}
+
+export type ConsentKindCol = 'life_casting' | 'patch_testing' | 'application' | 'cast_storage' | 'health_data';
+
+export interface ConsentTemplatesTable {
+  id: Generated<string>;
+  kind: ConsentKindCol;
+  current_version: Generated<number>;
+  archived: Generated<boolean>;
+  created_at: Timestamp;
+}
+
+export interface ConsentTemplateVersionsTable {
+  id: Generated<string>;
+  template_id: string;
+  version: number;
+  title: string;
+  body: string;
+  questions: ColumnType<unknown, string, string>;
+  validity_days: number | null;
+  created_by: string | null;
+  created_at: Timestamp;
+}
+
+export interface SigningRequestsTable {
+  id: Generated<string>;
+  performer_id: string;
+  production_id: string | null;
+  template_id: string;
+  mode: 'tablet' | 'link';
+  token_hash: string | null;
+  expires_at: Timestamp;
+  status: ColumnType<'open' | 'signed' | 'cancelled', 'open' | 'signed' | 'cancelled' | undefined>;
+  created_by: string | null;
+  created_at: Timestamp;
+  opened_at: Date | null;
+  signed_at: Date | null;
+}
+
+export interface ConsentsTable {
+  id: Generated<string>;
+  performer_id: string;
+  production_id: string | null;
+  template_version_id: string;
+  kind: ConsentKindCol;
+  request_id: string | null;
+  idempotency_key: string;
+  signer_name: string;
+  signed_at: Timestamp;
+  expires_at: Date | null;
+  signing_method: 'tablet' | 'link';
+  ip: string | null;
+  user_agent: string | null;
+  staff_user_id: string | null;
+  signature_file_id: string;
+  pdf_file_id: string;
+  pdf_sha256: string;
+  content_sha256: string;
+  withdrawn_at: Date | null;
+  withdrawn_by_user_id: string | null;
+  withdrawn_via: 'performer' | 'lead' | 'link' | null;
+  withdrawal_reason: string | null;
+  version: Generated<number>;
+}
+
+export interface ConsentAnswersTable {
+  id: Generated<string>;
+  consent_id: string;
+  question_id: string;
+  question_label: string;
+  medical: boolean;
+  answer: ColumnType<unknown, string, string>;
+}
+
+export interface WithdrawalLinksTable {
+  id: Generated<string>;
+  performer_id: string;
+  token_hash: string;
+  expires_at: Timestamp;
+  used_at: Date | null;
+  created_at: Timestamp;
+}
+
+export interface BookingsTable {
+  id: Generated<string>;
+  performer_id: string;
+  production_id: string;
+  purpose: 'patch_test' | 'life_cast' | 'application';
+  starts_at: Timestamp;
+  location: string | null;
+  status: ColumnType<'booked' | 'cancelled' | 'done', 'booked' | 'cancelled' | 'done' | undefined>;
+  created_by: string | null;
+  created_at: Timestamp;
+}
+
 export interface Database {
+  files: FilesTable;
+  consent_templates: ConsentTemplatesTable;
+  consent_template_versions: ConsentTemplateVersionsTable;
+  signing_requests: SigningRequestsTable;
+  consents: ConsentsTable;
+  consent_answers: ConsentAnswersTable;
+  withdrawal_links: WithdrawalLinksTable;
+  bookings: BookingsTable;
   users: UsersTable;
   productions: ProductionsTable;
   memberships: MembershipsTable;

@@ -22,6 +22,7 @@ const ACTION_WORDS: Record<Action, string> = {
   'reactions.report': 'report reactions',
   'casts.manage': 'manage life casts',
   'performer.self': 'act for this performer',
+  'templates.manage': 'edit consent templates',
 };
 
 /** Permission checked here: the only server wrapper around the policy. */

@@ -1,0 +1,3 @@
+import type { AnyRoute } from '../../http/route.ts';
+
+export const performerRoutes: AnyRoute[] = [];

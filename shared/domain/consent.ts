@@ -1,0 +1,102 @@
+/** Consent kinds Plinth knows, and the rules for when a signed consent counts. */
+
+export const CONSENT_KINDS = ['life_casting', 'patch_testing', 'application', 'cast_storage', 'health_data'] as const;
+export type ConsentKind = (typeof CONSENT_KINDS)[number];
+
+export const CONSENT_KIND_LABELS: Record<ConsentKind, string> = {
+  life_casting: 'Life casting',
+  patch_testing: 'Patch testing',
+  application: 'Application',
+  cast_storage: 'Cast storage and likeness',
+  health_data: 'Health data',
+};
+
+export type ConsentState = 'active' | 'expired' | 'withdrawn';
+
+export const CONSENT_STATE_LABELS: Record<ConsentState, string> = {
+  active: 'Active',
+  expired: 'Expired',
+  withdrawn: 'Withdrawn',
+};
+
+export interface ConsentTimes {
+  signedAt: Date;
+  expiresAt: Date | null;
+  withdrawnAt: Date | null;
+}
+
+const DAY_MS = 86_400_000;
+
+/** A consent runs from signing for the template's validity in days; no validity means until withdrawn. */
+export function expiryFor(signedAt: Date, validityDays: number | null): Date | null {
+  return validityDays == null ? null : new Date(signedAt.getTime() + validityDays * DAY_MS);
+}
+
+/** Withdrawn beats expired: a withdrawal is the performer's act and is shown as such. */
+export function consentState(c: ConsentTimes, at: Date): ConsentState {
+  if (c.withdrawnAt && c.withdrawnAt.getTime() <= at.getTime()) return 'withdrawn';
+  if (c.expiresAt && c.expiresAt.getTime() <= at.getTime()) return 'expired';
+  return 'active';
+}
+
+/** Does a consent cover a moment: signed before it, neither withdrawn nor expired by then? */
+export function coversMoment(c: ConsentTimes, at: Date): boolean {
+  return c.signedAt.getTime() <= at.getTime() && consentState(c, at) === 'active';
+}
+
+/** Whether a consent of this kind that is active now (and so could be withdrawn) exists. */
+export function hasActiveConsent(consents: readonly (ConsentTimes & { kind: ConsentKind })[], kind: ConsentKind, now: Date): boolean {
+  return consents.some((c) => c.kind === kind && coversMoment(c, now));
+}
+
+/** Active consents whose expiry falls within the next `days` days. */
+export function expiringWithin<T extends ConsentTimes>(consents: readonly T[], now: Date, days: number): T[] {
+  const limit = now.getTime() + days * DAY_MS;
+  return consents.filter((c) => consentState(c, now) === 'active' && c.expiresAt != null && c.expiresAt.getTime() <= limit);
+}
+
+export const BOOKING_PURPOSES = ['patch_test', 'life_cast', 'application'] as const;
+export type BookingPurpose = (typeof BOOKING_PURPOSES)[number];
+export const BOOKING_PURPOSE_LABELS: Record<BookingPurpose, string> = {
+  patch_test: 'Patch test',
+  life_cast: 'Life cast',
+  application: 'Application',
+};
+
+/** The gate each kind of session has: no patch test, life cast or logged application without its consent. */
+export function consentKindNeeded(purpose: BookingPurpose): ConsentKind {
+  switch (purpose) {
+    case 'patch_test':
+      return 'patch_testing';
+    case 'life_cast':
+      return 'life_casting';
+    case 'application':
+      return 'application';
+  }
+}
+
+export interface BookingForGate {
+  id: string;
+  performerId: string;
+  purpose: BookingPurpose;
+  startsAt: Date;
+}
+
+/**
+ * Upcoming bookings whose consent will not be in force when they start: none signed, withdrawn,
+ * or expiring before the session. One entry per booking, naming the missing kind.
+ */
+export function bookingsMissingConsent(
+  bookings: readonly BookingForGate[],
+  consentsByPerformer: ReadonlyMap<string, readonly (ConsentTimes & { kind: ConsentKind })[]>,
+): { booking: BookingForGate; kind: ConsentKind }[] {
+  const out: { booking: BookingForGate; kind: ConsentKind }[] = [];
+  for (const b of bookings) {
+    const kind = consentKindNeeded(b.purpose);
+    const consents = consentsByPerformer.get(b.performerId) ?? [];
+    // Signed later than now but before the session still counts: the performer may sign on the day.
+    const ok = consents.some((c) => c.kind === kind && consentState(c, b.startsAt) === 'active');
+    if (!ok) out.push({ booking: b, kind });
+  }
+  return out;
+}
