@@ -3,6 +3,10 @@ import { auditRoutes } from './features/audit/routes.ts';
 import { healthRoutes } from './features/health/routes.ts';
 import { outboxRoutes } from './features/outbox/routes.ts';
 import { performerRoutes } from './features/performers/routes.ts';
+import { bookingRoutes } from './features/bookings/routes.ts';
+import { consentRoutes } from './features/consents/consent-routes.ts';
+import { signingRoutes } from './features/consents/signing-routes.ts';
+import { templateRoutes } from './features/consents/template-routes.ts';
 import { productionRoutes } from './features/productions/routes.ts';
 import { sessionRoutes } from './features/session/routes.ts';
 import { userRoutes } from './features/users/routes.ts';
@@ -16,6 +20,10 @@ const featureRoutes: AnyRoute[] = [
   ...productionRoutes,
   ...outboxRoutes,
   ...performerRoutes,
+  ...templateRoutes,
+  ...signingRoutes,
+  ...consentRoutes,
+  ...bookingRoutes,
   ...auditRoutes,
 ];
 

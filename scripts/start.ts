@@ -91,7 +91,7 @@ async function main(): Promise<void> {
   try {
     const applied = await migrateToLatest(handle.db);
     if (applied.length) console.log(`Migrations applied: ${applied.join(', ')}`);
-    if (await seedDemo(handle.db)) console.log('Loaded the demo scenario (The Lantern Keeper).');
+    if (await seedDemo(handle.db, { storageDir: config.storageDir })) console.log('Loaded the demo scenario (The Lantern Keeper).');
   } finally {
     await handle.close();
   }

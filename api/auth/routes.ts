@@ -12,6 +12,7 @@ const LoginQuerySchema = z.object({
     .regex(/^\/(?!\/)[^\s]*$/, 'Must be a path on this site')
     .max(500)
     .optional(),
+  reauth: z.enum(['true', 'false']).optional(),
 });
 
 function escapeHtml(s: string): string {
@@ -56,6 +57,8 @@ export const authRoutes = [
       const codeVerifier = client.randomPKCECodeVerifier();
       const state = client.randomState();
       const nonce = client.randomNonce();
+      // Leaving the tablet's hand-back screen needs the staff member's own credentials, not a remembered sign-in.
+      const forceLogin = Boolean(req.session.tablet) || query.reauth === 'true';
       req.session.oidc = { codeVerifier, state, nonce, returnTo: query.returnTo ?? '/' };
       await save(req);
       const url = client.buildAuthorizationUrl(configuration, {
@@ -65,6 +68,7 @@ export const authRoutes = [
         code_challenge_method: 'S256',
         state,
         nonce,
+        ...(forceLogin ? { prompt: 'login', max_age: '0' } : {}),
       });
       res.set('Cache-Control', 'no-store').redirect(302, url.href);
     },

@@ -78,7 +78,12 @@ export function mountRoutes(router: Router, routes: readonly AnyRoute[], ctx: Ap
       try {
         let actor: Actor | null = null;
         if (req.session?.userId) actor = await loadActor(ctx.db, req.session.userId);
-        if (route.auth === 'session' && !actor) throw unauthenticated();
+        if (route.auth === 'session' && !actor) {
+          if (req.session?.tablet) {
+            throw new ApiError('unauthenticated', 'This tablet is lent to a performer for signing. Staff must sign in again.', { tablet: req.session.tablet.phase });
+          }
+          throw unauthenticated();
+        }
         if (route.requires) authorize(actor as Actor, route.requires);
         const params = parseOr400(route.params, req.params, 'path');
         const query = parseOr400(route.query, req.query, 'query');

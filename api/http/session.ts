@@ -9,6 +9,8 @@ declare module 'express-session' {
     idToken?: string;
     oidc?: { codeVerifier: string; state: string; nonce: string; returnTo: string };
     current?: { productionId: string | null; role: string };
+    /** Set while the department's tablet is handed to a performer: the session can do nothing else. */
+    tablet?: { requestId: string; staffUserId: string; phase: 'signing' | 'handback'; idempotencyKey: string };
   }
 }
 

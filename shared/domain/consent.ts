@@ -100,3 +100,24 @@ export function bookingsMissingConsent(
   }
   return out;
 }
+
+/** What withdrawing a consent of this kind sets in motion, in the words shown before confirming. */
+export function withdrawalConsequences(kind: ConsentKind): string[] {
+  const common = 'Withdrawing does not undo what was done while the consent was in force.';
+  switch (kind) {
+    case 'cast_storage':
+      return [
+        'Every stored life cast, mold and positive of you becomes due at once for return to you or destruction, with a witness.',
+        'Photos of the casts will no longer be used.',
+        common,
+      ];
+    case 'life_casting':
+      return ['No new life cast can be taken of you until you sign a new consent.', common];
+    case 'patch_testing':
+      return ['No patch test can be applied to you until you sign a new consent. Tests already on your skin should be removed.', common];
+    case 'application':
+      return ['No make-up or prosthetic application can be logged for you until you sign a new consent.', common];
+    case 'health_data':
+      return ['Plinth stops using the health details you gave under this consent; the designated lead is told.', common];
+  }
+}

@@ -19,10 +19,9 @@ afterAll(async () => {
 });
 
 describe('studio-wide routes (users, productions, memberships, lead, outbox, audit)', () => {
-  const adminRoutes = allRoutes.filter((r) => r.requires);
-  it('are all guarded by a declared permission', () => {
-    const adminTagged = allRoutes.filter((r) => r.tag === 'admin');
-    expect(adminRoutes.map((r) => `${r.method} ${r.path}`)).toEqual(adminTagged.map((r) => `${r.method} ${r.path}`));
+  const adminRoutes = allRoutes.filter((r) => r.tag === 'admin');
+  it('are all guarded by a declared admin-only permission', () => {
+    expect(adminRoutes.every((r) => r.requires && ['users.manage', 'productions.manage', 'memberships.manage', 'lead.appoint', 'outbox.read', 'audit.read'].includes(r.requires))).toBe(true);
     expect(adminRoutes.length).toBeGreaterThanOrEqual(15);
   });
   for (const route of adminRoutes) {
@@ -37,6 +36,29 @@ describe('studio-wide routes (users, productions, memberships, lead, outbox, aud
       const res = await request(t.app)[route.method](concretePath(route)).set('Cookie', cookies.get('admin@plinth.test')!).send({});
       expect([200, 201, 400, 404]).toContain(res.status);
     });
+  }
+});
+
+describe('consent template editing (studio-wide: administrators, heads and leads)', () => {
+  const templateWrites = allRoutes.filter((r) => r.requires === 'templates.manage');
+  it('covers create, publish and archive', () => {
+    expect(templateWrites.map((r) => `${r.method} ${r.path}`).sort()).toEqual(['post /api/consent-templates', 'put /api/consent-templates/:id', 'put /api/consent-templates/:id/archived']);
+  });
+  const refused = ['artist@plinth.test', 'archivist@plinth.test', 'performer@plinth.test', 'norole@plinth.test'];
+  const allowed = ['admin@plinth.test', 'head@plinth.test', 'lead@plinth.test', 'artist2@plinth.test'];
+  for (const route of templateWrites) {
+    for (const email of refused) {
+      it(`${route.method.toUpperCase()} ${route.path} answers 403 to ${email}`, async () => {
+        const res = await request(t.app)[route.method](concretePath(route)).set('Cookie', cookies.get(email)!).send({ junk: true });
+        expect(res.status).toBe(403);
+      });
+    }
+    for (const email of allowed) {
+      it(`${route.method.toUpperCase()} ${route.path} lets ${email} past the permission check`, async () => {
+        const res = await request(t.app)[route.method](concretePath(route)).set('Cookie', cookies.get(email)!).send({});
+        expect([400, 404]).toContain(res.status);
+      });
+    }
   }
 });
 

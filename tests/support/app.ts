@@ -30,8 +30,8 @@ export const TEST_SESSION_SECRET = 'test-session-secret-0123456789abcdef-xyz';
 /** The real app on a fresh database with the demo data, a real SMTP catcher, and config from an object. */
 export async function createTestApp(overrides: Record<string, string> = {}, opts: { seed?: boolean } = {}): Promise<TestApp> {
   const db = await createTestDb();
-  if (opts.seed !== false) await seedDemo(db.db);
   const storage = await mkdtemp(path.join(os.tmpdir(), 'plinth-storage-'));
+  if (opts.seed !== false) await seedDemo(db.db, { storageDir: storage });
   const mail = await startMailCatcher({ port: 0, dir: path.join(storage, 'mail') });
   const config = parseConfig({
     NODE_ENV: 'test',

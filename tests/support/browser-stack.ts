@@ -29,8 +29,8 @@ export default async function setup(project: TestProject) {
   await build({ root, logLevel: 'warn', configFile: path.join(root, 'vite.config.ts') });
 
   const db = await createTestDb();
-  await seedDemo(db.db);
   const storage = await mkdtemp(path.join(os.tmpdir(), 'plinth-browser-'));
+  await seedDemo(db.db, { storageDir: storage });
   const mail = await startMailCatcher({ port: 0, dir: path.join(storage, 'mail') });
   const appPort = await freePort();
   const origin = `http://127.0.0.1:${appPort}`;

@@ -3,6 +3,56 @@ import type { Seat } from '#shared/domain/seats.ts';
 import type { Actor } from '#shared/policy.ts';
 import type { Home } from '#shared/schemas/session.ts';
 import type { AppContext } from '../../context.ts';
+import { listBookings } from '../bookings/routes.ts';
+
+const DAY = 86_400_000;
+
+async function consentTasks(ctx: AppContext, productionId: string): Promise<Task[]> {
+  const now = new Date();
+  const expiring = await ctx.db
+    .selectFrom('consents as c')
+    .innerJoin('engagements as e', (j) => j.onRef('e.performer_id', '=', 'c.performer_id').on('e.production_id', '=', productionId))
+    .select((eb) => eb.fn.count<string>('c.id').distinct().as('n'))
+    .where('c.withdrawn_at', 'is', null)
+    .where('c.expires_at', '>', now)
+    .where('c.expires_at', '<=', new Date(now.getTime() + 30 * DAY))
+    .executeTakeFirstOrThrow();
+  const upcoming = await listBookings(ctx.db, { productionId, from: now, to: new Date(now.getTime() + 30 * DAY) });
+  const missing = upcoming.filter((b) => b.status === 'booked' && b.consentMissing);
+  const waiting = await ctx.db
+    .selectFrom('signing_requests')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('production_id', '=', productionId)
+    .where('status', '=', 'open')
+    .where('mode', '=', 'link')
+    .where('expires_at', '>', now)
+    .executeTakeFirstOrThrow();
+  return [
+    {
+      id: 'consents-expiring',
+      title: 'Consents expiring within 30 days',
+      detail: 'Ask these performers to sign again before their consent runs out.',
+      count: Number(expiring.n),
+      href: '/performers?consent=expiring',
+    },
+    {
+      id: 'bookings-missing-consent',
+      title: 'Upcoming sessions missing a consent',
+      detail: missing.length
+        ? missing.slice(0, 3).map((b) => `${b.performerName} (${new Date(b.startsAt).toISOString().slice(0, 10)})`).join(', ') + (missing.length > 3 ? '…' : '')
+        : 'Every booked session in the next 30 days has the consent it needs.',
+      count: missing.length,
+      href: '/bookings',
+    },
+    {
+      id: 'signing-links-open',
+      title: 'Signing links not yet signed',
+      detail: 'Forms sent to performers by e-mail that are still open.',
+      count: Number(waiting.n),
+      href: null,
+    },
+  ];
+}
 
 type Task = Home['tasks'][number];
 
@@ -49,6 +99,7 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
   }
   if (!seat.productionId) return tasks;
   if (seat.role === 'head' || seat.role === 'lead') {
+    tasks.push(...(await consentTasks(ctx, seat.productionId)));
     const engaged = await ctx.db
       .selectFrom('engagements')
       .select((eb) => eb.fn.countAll<string>().as('n'))

@@ -1,0 +1,297 @@
+import { randomBytes } from 'node:crypto';
+import type { Request } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import multer from 'multer';
+import { sql } from 'kysely';
+import { z } from 'zod';
+import { CONSENT_KIND_LABELS, consentState, withdrawalConsequences } from '#shared/domain/consent.ts';
+import { type Actor, can, canSomewhere } from '#shared/policy.ts';
+import { IdParamsSchema } from '#shared/schemas/common.ts';
+import {
+  ConsentDetailSchema,
+  ConsentListQuerySchema,
+  ConsentListSchema,
+  RequestWithdrawalLinkInputSchema,
+  VerifyResultSchema,
+  WithdrawalLinkViewSchema,
+  WithdrawInputSchema,
+} from '#shared/schemas/consents.ts';
+import type { AppContext } from '../../context.ts';
+import { readStoredFile, sha256Hex } from '../../files/store.ts';
+import { writeAudit } from '../../http/audit.ts';
+import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
+import { defineRoute } from '../../http/route.ts';
+import { consentSummaryQuery, performerScope, toConsentSummary } from './repo.ts';
+import { hashToken } from './signing-routes.ts';
+
+const WITHDRAWAL_LINK_HOURS = 24;
+
+type Scope = NonNullable<Awaited<ReturnType<typeof performerScope>>>;
+
+function resourceOf(scope: Scope) {
+  return { performerId: scope.id, performerProductionIds: scope.productionIds };
+}
+
+function canView(actor: Actor, scope: Scope): boolean {
+  return can(actor, 'performers.view', resourceOf(scope)) || can(actor, 'performer.self', resourceOf(scope));
+}
+
+/** The performer themself, or the designated lead of a production they are engaged on. */
+function canWithdraw(actor: Actor, scope: Scope): boolean {
+  return can(actor, 'performer.self', resourceOf(scope)) || scope.productionIds.some((p) => actor.leadOf.includes(p));
+}
+
+async function loadConsent(ctx: AppContext, id: string) {
+  const row = await consentSummaryQuery(ctx.db)
+    .select(['v.body', 'c.withdrawal_reason', 'c.withdrawn_via', 'c.pdf_sha256', 'c.content_sha256', 'c.pdf_file_id'])
+    .where('c.id', '=', id)
+    .executeTakeFirst();
+  if (!row) throw notFound('That consent');
+  const scope = (await performerScope(ctx.db, row.performer_id))!;
+  return { row, scope };
+}
+
+async function withdraw(ctx: AppContext, req: Request, consentId: string, opts: { reason?: string; version?: number; by: string | null; via: 'performer' | 'lead' | 'link' }) {
+  return ctx.db.transaction().execute(async (trx) => {
+    const c = await trx.selectFrom('consents').select(['id', 'performer_id', 'production_id', 'kind', 'version', 'withdrawn_at', 'signed_at', 'expires_at']).where('id', '=', consentId).forUpdate().executeTakeFirst();
+    if (!c) throw notFound('That consent');
+    if (c.withdrawn_at) throw conflict('This consent has already been withdrawn.');
+    if (opts.version !== undefined && c.version !== opts.version) throw conflict('This consent changed since you opened it. Reload to see it.');
+    if (consentState({ signedAt: new Date(c.signed_at), expiresAt: c.expires_at, withdrawnAt: null }, new Date()) === 'expired') {
+      throw conflict('This consent has already expired; there is nothing to withdraw.');
+    }
+    await trx
+      .updateTable('consents')
+      .set({ withdrawn_at: new Date(), withdrawn_by_user_id: opts.by, withdrawn_via: opts.via, withdrawal_reason: opts.reason || null, version: sql`version + 1` })
+      .where('id', '=', consentId)
+      .execute();
+    await writeAudit(trx, { actorUserId: opts.by, action: 'consent.withdraw', entityType: 'consent', entityId: consentId, productionId: c.production_id, req, details: { via: opts.via, kind: c.kind } });
+    return c;
+  });
+}
+
+async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, kind: keyof typeof CONSENT_KIND_LABELS): Promise<void> {
+  const p = await ctx.db.selectFrom('performers').select(['email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where('id', '=', performerId).executeTakeFirst();
+  if (!p?.email) return;
+  try {
+    await ctx.mailer.send({
+      to: p.email,
+      subject: `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent has been withdrawn`,
+      text: [`Hello ${p.name},`, '', `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent is withdrawn as of ${new Date().toUTCString()}.`, ...withdrawalConsequences(kind), '', 'If you did not ask for this, contact the make-up department.'].join('\n'),
+    });
+  } catch (err) {
+    ctx.log('withdrawal confirmation not sent', err);
+  }
+}
+
+const verifyUpload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 20 * 1024 * 1024, files: 1 } }).single('file');
+
+const linkLimiter = rateLimit({
+  windowMs: 60_000,
+  limit: (req: Request) => (req.app.get('env') === 'test' ? 10_000 : 10),
+  standardHeaders: 'draft-8',
+  legacyHeaders: false,
+  handler: (_req, _res, next) => next(new ApiError('rate_limited', 'Too many attempts. Wait a minute and try again.')),
+});
+
+async function linkByToken(ctx: AppContext, token: string) {
+  const link = await ctx.db.selectFrom('withdrawal_links').selectAll().where('token_hash', '=', hashToken(token)).executeTakeFirst();
+  if (!link) throw notFound('This withdrawal link');
+  if (new Date(link.expires_at).getTime() <= Date.now()) throw conflict('This withdrawal link has expired. Request a new one.');
+  return link;
+}
+
+const TokenParams = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{40,60}$/, 'Not a withdrawal link') });
+
+export const consentRoutes = [
+  defineRoute({
+    method: 'get',
+    path: '/api/consents',
+    summary: "A performer's signed consents (summaries: no answers)",
+    tag: 'consents',
+    auth: 'session',
+    query: ConsentListQuerySchema,
+    response: ConsentListSchema,
+    errors: [403],
+    async handler({ ctx, actor, query }) {
+      if (!query.performerId) throw invalid({ performerId: ['Choose a performer'] });
+      const scope = await performerScope(ctx.db, query.performerId);
+      if (!scope || !canView(actor, scope)) throw forbidden("see this performer's consents");
+      const rows = await consentSummaryQuery(ctx.db).where('c.performer_id', '=', query.performerId).orderBy('c.signed_at', 'desc').execute();
+      const items = rows.map((r) => toConsentSummary(r)).filter((c) => !query.state || c.state === query.state);
+      return { items };
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/consents/:id',
+    summary: 'One consent: text, answers (health answers only to the designated lead and the performer, audited)',
+    tag: 'consents',
+    auth: 'session',
+    params: IdParamsSchema,
+    response: ConsentDetailSchema,
+    errors: [403, 404],
+    async handler({ ctx, actor, params, req }) {
+      const { row, scope } = await loadConsent(ctx, params.id);
+      if (!canView(actor, scope)) throw forbidden('see this consent');
+      const medicalOk = can(actor, 'medical.read', resourceOf(scope));
+      const answers = await ctx.db.selectFrom('consent_answers').select(['question_id', 'question_label', 'medical', 'answer']).where('consent_id', '=', params.id).orderBy('id').execute();
+      const hasMedical = answers.some((a) => a.medical);
+      const shown = answers.filter((a) => !a.medical || medicalOk);
+      if (medicalOk && hasMedical) {
+        await writeAudit(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'consent', entityId: params.id, productionId: row.production_id, req, details: { performerId: scope.id, fields: answers.filter((a) => a.medical).map((a) => a.question_id) } });
+      }
+      const summary = toConsentSummary(row);
+      return {
+        ...summary,
+        body: row.body,
+        answers: shown.map((a) => ({ questionId: a.question_id, label: a.question_label, medical: a.medical, answer: a.answer as boolean | string | null })),
+        medicalWithheld: hasMedical && !medicalOk,
+        withdrawalReason: medicalOk ? row.withdrawal_reason : null,
+        withdrawnVia: row.withdrawn_via,
+        pdfSha256: row.pdf_sha256,
+        contentSha256: row.content_sha256,
+        canDownloadPdf: medicalOk || !hasMedical,
+        canWithdraw: summary.state === 'active' && canWithdraw(actor, scope),
+        consequences: withdrawalConsequences(row.kind),
+      };
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/consents/:id/pdf',
+    summary: 'The signed PDF (it carries the answers, so health answers restrict it like the fields themselves)',
+    tag: 'consents',
+    auth: 'session',
+    params: IdParamsSchema,
+    produces: 'application/pdf',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, req, res }) {
+      const { row, scope } = await loadConsent(ctx, params.id);
+      if (!canView(actor, scope)) throw forbidden('see this consent');
+      const medical = await ctx.db.selectFrom('consent_answers').select('id').where('consent_id', '=', params.id).where('medical', '=', true).executeTakeFirst();
+      if (medical) {
+        if (!can(actor, 'medical.read', resourceOf(scope))) throw forbidden('see health details');
+        await writeAudit(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'consent_pdf', entityId: params.id, productionId: row.production_id, req, details: { performerId: scope.id } });
+      }
+      const file = await readStoredFile(ctx.db, ctx.config.storageDir, row.pdf_file_id);
+      if (!file) throw notFound('The PDF');
+      res.type('application/pdf').set('Content-Disposition', `inline; filename="consent-${params.id}.pdf"`).send(file.bytes);
+    },
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/consents/:id/withdraw',
+    summary: 'Withdraw a consent (the performer, or the designated lead); not retroactive',
+    tag: 'consents',
+    auth: 'session',
+    params: IdParamsSchema,
+    body: WithdrawInputSchema,
+    response: ConsentDetailSchema.pick({ id: true, state: true, withdrawnAt: true, version: true }),
+    errors: [403, 404, 409],
+    async handler({ ctx, actor, params, body, req }) {
+      const { scope } = await loadConsent(ctx, params.id);
+      if (!canWithdraw(actor, scope)) throw forbidden('withdraw this consent');
+      const via = can(actor, 'performer.self', resourceOf(scope)) ? 'performer' : 'lead';
+      const c = await withdraw(ctx, req, params.id, { reason: body.reason, version: body.version, by: actor.userId, via });
+      await sendWithdrawalConfirmation(ctx, c.performer_id, c.kind);
+      const after = await consentSummaryQuery(ctx.db).where('c.id', '=', params.id).executeTakeFirstOrThrow();
+      const s = toConsentSummary(after);
+      return { id: s.id, state: s.state, withdrawnAt: s.withdrawnAt, version: s.version };
+    },
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/consents/verify',
+    summary: 'Check a PDF against the consents Plinth issued, by its SHA-256',
+    tag: 'consents',
+    auth: 'session',
+    multipart: true,
+    before: [verifyUpload],
+    response: VerifyResultSchema,
+    errors: [403, 413],
+    async handler({ ctx, actor, req }) {
+      if (!actor.isAdmin && !canSomewhere(actor, 'performers.view')) throw forbidden('verify consent documents');
+      const file = req.file;
+      if (!file) throw invalid({ file: ['Choose a PDF to check'] });
+      const sha256 = sha256Hex(file.buffer);
+      const row = await consentSummaryQuery(ctx.db).where('c.pdf_sha256', '=', sha256).executeTakeFirst();
+      await writeAudit(ctx.db, { actorUserId: actor.userId, action: 'consent.verify', entityType: 'consent', entityId: row?.id ?? null, req, details: { sha256, match: Boolean(row) } });
+      if (!row) return { sha256, match: false, consent: null };
+      const s = toConsentSummary(row);
+      return { sha256, match: true, consent: { id: s.id, performerName: s.performerName, kind: s.kind, title: s.title, templateVersion: s.templateVersion, signedAt: s.signedAt, state: s.state } };
+    },
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/withdrawal-links',
+    summary: 'A performer without a sign-in asks for a link to withdraw consents; always answers the same',
+    tag: 'signing',
+    auth: 'public',
+    body: RequestWithdrawalLinkInputSchema,
+    response: z.object({ ok: z.literal(true), message: z.string() }),
+    status: 202,
+    before: [linkLimiter],
+    errors: [429],
+    async handler({ ctx, body, req }) {
+      const message = 'If Plinth has consents for that address, a link to withdraw them is on its way. It works for 24 hours.';
+      const p = await ctx.db.selectFrom('performers').select(['id', 'email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where(sql`lower(email)`, '=', body.email).executeTakeFirst();
+      if (!p?.email) return { ok: true as const, message };
+      const token = randomBytes(32).toString('base64url');
+      await ctx.db.insertInto('withdrawal_links').values({ performer_id: p.id, token_hash: hashToken(token), expires_at: new Date(Date.now() + WITHDRAWAL_LINK_HOURS * 3_600_000) }).execute();
+      await writeAudit(ctx.db, { actorUserId: null, action: 'withdrawal_link.create', entityType: 'performer', entityId: p.id, req });
+      try {
+        await ctx.mailer.send({
+          to: p.email,
+          subject: 'Your link to withdraw consents',
+          text: [`Hello ${p.name},`, '', 'You asked for a link to see and withdraw the consents you gave the make-up department:', '', `${ctx.config.appOrigin}/withdraw/${token}`, '', 'It works for 24 hours. If you did not ask for it, you can ignore this e-mail.'].join('\n'),
+        });
+      } catch (err) {
+        ctx.log('withdrawal link not sent', err);
+      }
+      return { ok: true as const, message };
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/withdrawal-links/:token',
+    summary: "The performer's consents a withdrawal link shows, with what withdrawing each would mean",
+    tag: 'signing',
+    auth: 'public',
+    params: TokenParams,
+    response: WithdrawalLinkViewSchema,
+    before: [linkLimiter],
+    errors: [404, 409, 429],
+    async handler({ ctx, params }) {
+      const link = await linkByToken(ctx, params.token);
+      const scope = (await performerScope(ctx.db, link.performer_id))!;
+      const rows = await consentSummaryQuery(ctx.db).where('c.performer_id', '=', link.performer_id).orderBy('c.signed_at', 'desc').execute();
+      return {
+        performerName: scope.name,
+        expiresAt: new Date(link.expires_at).toISOString(),
+        consents: rows.map((r) => ({ ...toConsentSummary(r), consequences: withdrawalConsequences(r.kind) })),
+      };
+    },
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/withdrawal-links/:token/withdraw',
+    summary: 'Withdraw one consent through a withdrawal link',
+    tag: 'signing',
+    auth: 'public',
+    params: TokenParams,
+    body: z.object({ consentId: z.uuid(), reason: z.string().trim().max(1000).optional() }),
+    response: z.object({ ok: z.literal(true) }),
+    before: [linkLimiter],
+    errors: [404, 409, 429],
+    async handler({ ctx, params, body, req }) {
+      const link = await linkByToken(ctx, params.token);
+      const c = await ctx.db.selectFrom('consents').select(['performer_id']).where('id', '=', body.consentId).executeTakeFirst();
+      if (!c || c.performer_id !== link.performer_id) throw notFound('That consent');
+      const done = await withdraw(ctx, req, body.consentId, { reason: body.reason, by: null, via: 'link' });
+      await ctx.db.updateTable('withdrawal_links').set({ used_at: sql`coalesce(used_at, now())` }).where('id', '=', link.id).execute();
+      await sendWithdrawalConfirmation(ctx, done.performer_id, done.kind);
+      return { ok: true as const };
+    },
+  }),
+];

@@ -1,0 +1,252 @@
+import { randomUUID } from 'node:crypto';
+import { sql } from 'kysely';
+import { CONSENT_KIND_LABELS, expiryFor } from '#shared/domain/consent.ts';
+import { answersSchemaFor, formatAnswer, type Question } from '#shared/domain/questionnaire.ts';
+import { fieldErrorsFromIssues } from '#shared/errors.ts';
+import type { SubmitSignatureInput } from '#shared/schemas/consents.ts';
+import type { AppContext } from '../../context.ts';
+import type { Db } from '../../db/index.ts';
+import { discardFiles, sha256Hex, storeFile, type StoredFile } from '../../files/store.ts';
+import { writeAudit } from '../../http/audit.ts';
+import { conflict, invalid, notFound } from '../../http/errors.ts';
+import { renderConsentPdf } from './pdf.ts';
+import { contentSha256, type SignedContent } from './record.ts';
+import { findTemplateVersion, type TemplateVersionRow } from './repo.ts';
+import { acceptSignature } from './signature.ts';
+
+export interface SignedConsentParams {
+  performerId: string;
+  productionId: string | null;
+  requestId: string | null;
+  template: TemplateVersionRow;
+  answers: Record<string, boolean | string | undefined>;
+  signerName: string;
+  signaturePng: Buffer;
+  signedAt: Date;
+  signingMethod: 'tablet' | 'link';
+  ip: string | null;
+  userAgent: string | null;
+  staffUserId: string | null;
+  idempotencyKey: string;
+}
+
+/**
+ * Freezes one signing: renders the PDF, stores signature and PDF, and writes the consent and its
+ * answers in one transaction. Files written before a failed transaction are removed again.
+ */
+export async function writeSignedConsent(db: Db, storageDir: string, p: SignedConsentParams): Promise<{ consentId: string; pdf: Buffer; pdfSha256: string }> {
+  const performer = await db
+    .selectFrom('performers')
+    .select([sql<string>`coalesce(preferred_name, legal_name)`.as('name')])
+    .where('id', '=', p.performerId)
+    .executeTakeFirstOrThrow();
+  const production = p.productionId
+    ? await db.selectFrom('productions').select('name').where('id', '=', p.productionId).executeTakeFirst()
+    : undefined;
+  const consentId = randomUUID();
+  const answers = p.template.questions.map((q: Question) => ({
+    questionId: q.id,
+    label: q.label,
+    medical: q.medical,
+    answer: p.answers[q.id] ?? null,
+  }));
+  const content: SignedContent = {
+    consentId,
+    performerId: p.performerId,
+    performerName: performer.name,
+    templateVersionId: p.template.versionId,
+    templateVersion: p.template.version,
+    kind: p.template.kind,
+    title: p.template.title,
+    body: p.template.body,
+    answers,
+    signerName: p.signerName,
+    signedAt: p.signedAt.toISOString(),
+    signingMethod: p.signingMethod,
+    ip: p.ip,
+    userAgent: p.userAgent,
+    signatureSha256: sha256Hex(p.signaturePng),
+  };
+  const hash = contentSha256(content);
+  const pdf = await renderConsentPdf({
+    consentId,
+    kind: p.template.kind,
+    title: p.template.title,
+    templateVersion: p.template.version,
+    body: p.template.body,
+    performerName: performer.name,
+    productionName: production?.name ?? null,
+    answers: p.template.questions.map((q) => ({ label: q.label, answer: formatAnswer(q, p.answers[q.id]), medical: q.medical })),
+    signerName: p.signerName,
+    signedAt: p.signedAt,
+    signingMethod: p.signingMethod,
+    ip: p.ip,
+    userAgent: p.userAgent,
+    signaturePng: p.signaturePng,
+    contentSha256: hash,
+  });
+
+  const written: StoredFile[] = [];
+  try {
+    await db.transaction().execute(async (trx) => {
+      if (p.requestId) {
+        // The request row lock serialises submissions for one form: a double tap cannot sign twice.
+        const req = await trx.selectFrom('signing_requests').select('status').where('id', '=', p.requestId).forUpdate().executeTakeFirstOrThrow();
+        if (req.status !== 'open') throw new RequestNotOpen();
+      }
+      const sig = await storeFile(trx, storageDir, { purpose: 'signature', contentType: 'image/png', ext: 'png', bytes: p.signaturePng, createdBy: p.staffUserId });
+      written.push(sig);
+      const file = await storeFile(trx, storageDir, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId });
+      written.push(file);
+      await trx
+        .insertInto('consents')
+        .values({
+          id: consentId,
+          performer_id: p.performerId,
+          production_id: p.productionId,
+          template_version_id: p.template.versionId,
+          kind: p.template.kind,
+          request_id: p.requestId,
+          idempotency_key: p.idempotencyKey,
+          signer_name: p.signerName,
+          signed_at: p.signedAt,
+          expires_at: expiryFor(p.signedAt, p.template.validityDays),
+          signing_method: p.signingMethod,
+          ip: p.ip,
+          user_agent: p.userAgent,
+          staff_user_id: p.staffUserId,
+          signature_file_id: sig.id,
+          pdf_file_id: file.id,
+          pdf_sha256: file.sha256,
+          content_sha256: hash,
+        })
+        .execute();
+      if (answers.length) {
+        await trx
+          .insertInto('consent_answers')
+          .values(answers.map((a) => ({ consent_id: consentId, question_id: a.questionId, question_label: a.label, medical: a.medical, answer: JSON.stringify(a.answer) })))
+          .execute();
+      }
+      if (p.requestId) {
+        await trx.updateTable('signing_requests').set({ status: 'signed', signed_at: p.signedAt }).where('id', '=', p.requestId).execute();
+      }
+      await writeAudit(trx, {
+        actorUserId: p.staffUserId,
+        action: 'consent.sign',
+        entityType: 'consent',
+        entityId: consentId,
+        productionId: p.productionId,
+        details: { performerId: p.performerId, kind: p.template.kind, templateVersion: p.template.version, method: p.signingMethod },
+      });
+    });
+  } catch (err) {
+    await discardFiles(storageDir, written);
+    throw err;
+  }
+  return { consentId, pdf, pdfSha256: written[1]!.sha256 };
+}
+
+export class RequestNotOpen extends Error {
+  constructor() {
+    super('signing request is no longer open');
+  }
+}
+
+export interface OpenRequest {
+  id: string;
+  performerId: string;
+  productionId: string | null;
+  templateId: string;
+  status: 'open' | 'signed' | 'cancelled';
+  expiresAt: Date;
+}
+
+async function existingByKey(db: Db, key: string) {
+  return db.selectFrom('consents').select(['id', 'signed_at', 'request_id']).where('idempotency_key', '=', key).executeTakeFirst();
+}
+
+/**
+ * A signing submitted from the tablet or a link. The same idempotency key answers with the
+ * consent already made (a double tap or a retry), never a second one.
+ */
+export async function submitSignature(
+  ctx: AppContext,
+  request: OpenRequest,
+  input: SubmitSignatureInput,
+  meta: { ip: string | null; userAgent: string | null; method: 'tablet' | 'link'; staffUserId: string | null },
+): Promise<{ consentId: string; signedAt: string; emailedTo: string | null; duplicate: boolean }> {
+  const earlier = await existingByKey(ctx.db, input.idempotencyKey);
+  if (earlier) {
+    if (earlier.request_id !== request.id) throw conflict('This submission key was already used for another form.');
+    return { consentId: earlier.id, signedAt: new Date(earlier.signed_at).toISOString(), emailedTo: null, duplicate: true };
+  }
+  if (request.status === 'signed') throw conflict('This form has already been signed.');
+  if (request.status === 'cancelled') throw notFound('This signing request was cancelled; it');
+  if (request.expiresAt.getTime() <= Date.now()) throw conflict('This signing request has expired. Ask the department for a new one.');
+
+  const template = await findTemplateVersion(ctx.db, input.templateVersionId);
+  // The performer signs the version they were shown, even if the template was edited meanwhile.
+  if (!template || template.templateId !== request.templateId) throw invalid({ templateVersionId: ['This is not a version of the requested form.'] });
+  const parsed = answersSchemaFor(template.questions).safeParse(input.answers);
+  if (!parsed.success) {
+    const fields = fieldErrorsFromIssues(parsed.error.issues);
+    throw invalid(Object.fromEntries(Object.entries(fields).map(([k, v]) => [k ? `answers.${k}` : 'answers', v])), 'Some answers need attention.');
+  }
+  const signature = await acceptSignature(input.signaturePng);
+
+  const signedAt = new Date();
+  let result: { consentId: string; pdf: Buffer };
+  try {
+    result = await writeSignedConsent(ctx.db, ctx.config.storageDir, {
+      performerId: request.performerId,
+      productionId: request.productionId,
+      requestId: request.id,
+      template,
+      answers: parsed.data as Record<string, boolean | string | undefined>,
+      signerName: input.signerName,
+      signaturePng: signature.png,
+      signedAt,
+      signingMethod: meta.method,
+      ip: meta.ip,
+      userAgent: meta.userAgent,
+      staffUserId: meta.staffUserId,
+      idempotencyKey: input.idempotencyKey,
+    });
+  } catch (err) {
+    // Two identical submissions racing: the loser finds the winner's consent.
+    if (err instanceof RequestNotOpen || (err as { code?: string }).code === '23505') {
+      const winner = await existingByKey(ctx.db, input.idempotencyKey);
+      if (winner) return { consentId: winner.id, signedAt: new Date(winner.signed_at).toISOString(), emailedTo: null, duplicate: true };
+      throw conflict('This form has already been signed.');
+    }
+    throw err;
+  }
+  const emailedTo = await sendConsentCopy(ctx, request.performerId, template, result.pdf, result.consentId);
+  return { consentId: result.consentId, signedAt: signedAt.toISOString(), emailedTo, duplicate: false };
+}
+
+/** E-mails the performer their signed copy; a failed send is logged and does not undo the signing. */
+export async function sendConsentCopy(ctx: AppContext, performerId: string, template: Pick<TemplateVersionRow, 'title' | 'kind'>, pdf: Buffer, consentId: string): Promise<string | null> {
+  const performer = await ctx.db.selectFrom('performers').select(['email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where('id', '=', performerId).executeTakeFirst();
+  if (!performer?.email) return null;
+  try {
+    await ctx.mailer.send({
+      to: performer.email,
+      subject: `Your signed consent: ${template.title}`,
+      text: [
+        `Hello ${performer.name},`,
+        '',
+        `Attached is your copy of the ${CONSENT_KIND_LABELS[template.kind].toLowerCase()} consent you signed with the make-up department.`,
+        'You can withdraw it at any time, as easily as you gave it: ask the department, or sign in to Plinth, or request a withdrawal link at',
+        `${ctx.config.appOrigin}/withdraw`,
+        '',
+        'Keep this e-mail: the PDF carries a fingerprint (SHA-256) that the department can check against its records.',
+      ].join('\n'),
+      attachments: [{ filename: `consent-${consentId}.pdf`, content: pdf, contentType: 'application/pdf' }],
+    });
+    return performer.email;
+  } catch (err) {
+    ctx.log(`consent copy to ${performer.email} not sent`, err);
+    return null;
+  }
+}
