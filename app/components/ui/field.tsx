@@ -1,0 +1,31 @@
+import type { ReactNode } from 'react';
+
+/** The hint and error lines under a control, wired to it through aria-describedby. */
+export function FieldMessages({ hintId, errorId, hint, error }: { hintId: string; errorId: string; hint?: ReactNode; error?: string }) {
+  return (
+    <>
+      {hint ? (
+        <p id={hintId} className="text-sm text-ink-600">
+          {hint}
+        </p>
+      ) : null}
+      {error ? (
+        <p id={errorId} className="flex items-start gap-1 text-sm font-semibold text-brick-700">
+          <span aria-hidden="true">!</span>
+          {error}
+        </p>
+      ) : null}
+    </>
+  );
+}
+
+export function describedBy(hintId: string, errorId: string, hint: unknown, error: unknown): string | undefined {
+  const ids = [hint ? hintId : null, error ? errorId : null].filter(Boolean);
+  return ids.length ? ids.join(' ') : undefined;
+}
+
+export const controlClasses =
+  'block min-h-11 w-full rounded-lg border border-ink-500 bg-white px-3 py-2 text-base text-ink-900 ' +
+  'aria-invalid:border-brick-700 aria-invalid:border-2 disabled:bg-sand-100 disabled:text-ink-600';
+
+export const labelClasses = 'block text-sm font-semibold text-ink-900';

@@ -1,0 +1,88 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useQueryClient } from '@tanstack/react-query';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { UpdateUserInputSchema, type User } from '#shared/schemas/admin.ts';
+import { Button } from '../../../components/ui/button.tsx';
+import { CheckboxField } from '../../../components/ui/checkbox-field.tsx';
+import { Dialog } from '../../../components/ui/dialog.tsx';
+import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
+import { TextField } from '../../../components/ui/text-field.tsx';
+import { ApiError, errorMessage, isApiError } from '../../../lib/api-client.ts';
+import { applyServerErrors } from '../../../lib/form-errors.ts';
+import { useUpdateUser, userQueryOptions } from '../api.ts';
+import { ConflictNotice } from './conflict-notice.tsx';
+import { FormError } from './form-error.tsx';
+
+export function EditUserDialog({ user, onClose }: { user: User | null; onClose: () => void }) {
+  return (
+    <Dialog open={user !== null} onClose={onClose} title={user ? `Edit ${user.displayName}` : 'Edit user'} testId="edit-user-dialog">
+      {/* Keyed by id, so opening another person starts from their saved values. */}
+      {user ? <EditUserForm key={user.id} user={user} onDone={onClose} /> : null}
+    </Dialog>
+  );
+}
+
+function EditUserForm({ user, onDone }: { user: User; onDone: () => void }) {
+  const queryClient = useQueryClient();
+  const update = useUpdateUser();
+  const [conflict, setConflict] = useState<unknown>(null);
+  const [reloading, setReloading] = useState(false);
+  const [reloadError, setReloadError] = useState<unknown>(null);
+  const [formError, setFormError] = useState<string[] | null>(null);
+  // The version travels with the form: it is the version this person saw, not whatever is newest.
+  const form = useForm({
+    resolver: zodResolver(UpdateUserInputSchema),
+    defaultValues: { displayName: user.displayName, isAdmin: user.isAdmin, version: user.version },
+  });
+  const { errors } = form.formState;
+
+  const onSubmit = form.handleSubmit(async (values) => {
+    setFormError(null);
+    setConflict(null);
+    try {
+      await update.mutateAsync({ id: user.id, input: values });
+      onDone();
+    } catch (err) {
+      if (isApiError(err, 409)) return setConflict(err);
+      const leftover = applyServerErrors(err, form.setError, ['displayName', 'isAdmin']);
+      const hadFields = err instanceof ApiError && Object.keys(err.fields).length > leftover.length;
+      setFormError(leftover.length ? leftover : hadFields ? null : [errorMessage(err)]);
+    }
+  });
+
+  async function reload() {
+    setReloading(true);
+    setReloadError(null);
+    try {
+      const fresh = await queryClient.fetchQuery({ ...userQueryOptions(user.id), staleTime: 0 });
+      form.reset({ displayName: fresh.displayName, isAdmin: fresh.isAdmin, version: fresh.version });
+      setConflict(null);
+    } catch (err) {
+      setReloadError(err);
+    } finally {
+      setReloading(false);
+    }
+  }
+
+  return (
+    <form noValidate onSubmit={onSubmit} className="flex flex-col gap-4">
+      <p className="text-ink-700">
+        E-mail: <span className="font-semibold break-all text-ink-900">{user.email}</span>
+      </p>
+      <TextField label="Name" autoComplete="off" error={errors.displayName?.message} {...form.register('displayName')} />
+      <CheckboxField label="Studio administrator" error={errors.isAdmin?.message} {...form.register('isAdmin')} />
+      {conflict ? <ConflictNotice error={conflict} onReload={() => void reload()} reloading={reloading} /> : null}
+      {reloadError ? <ErrorBanner error={reloadError} /> : null}
+      <FormError messages={formError} />
+      <div className="flex flex-wrap justify-end gap-3">
+        <Button variant="secondary" onClick={onDone}>
+          Cancel
+        </Button>
+        <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={conflict !== null}>
+          Save
+        </Button>
+      </div>
+    </form>
+  );
+}

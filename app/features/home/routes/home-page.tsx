@@ -1,0 +1,53 @@
+import { useQuery } from '@tanstack/react-query';
+import { ROLE_LABELS, type ActingRole } from '#shared/policy.ts';
+import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { PageHeading } from '../../../components/ui/page-heading.tsx';
+import { QueryView } from '../../../components/ui/query-view.tsx';
+import { prefetchFor } from '../../../lib/prefetch.ts';
+import { useSession } from '../../session/session-context.tsx';
+import { homeQueryOptions } from '../api.ts';
+import { TaskCard } from '../components/task-card.tsx';
+
+/** One line on what this seat is for, so a person switching seats knows which hat they wear. */
+const ROLE_INTROS: Record<ActingRole, string> = {
+  admin: 'You decide who can use Plinth, on which production, and who is each production’s designated lead.',
+  head: 'You run the department on this production: performers, consents, patch-test bookings and clearances.',
+  lead: 'You are the designated lead: you alone read and record health details for this production.',
+  artist: 'Check a performer’s clearance before you apply anything, and log what you used and any reaction.',
+  archivist: 'You look after this production’s stored life casts and where they are kept.',
+  performer: 'Here you can see what the department holds about you and what you have agreed to.',
+};
+
+export async function homeLoader() {
+  await prefetchFor(null, homeQueryOptions());
+  return null;
+}
+
+export function HomePage() {
+  const session = useSession();
+  const home = useQuery(homeQueryOptions());
+  const role: ActingRole = home.data?.role ?? session.current?.role ?? 'performer';
+
+  return (
+    <>
+      <PageHeading title="Today" testId="home-heading" lead={ROLE_INTROS[role]}>
+        Today <span className="text-2xl font-semibold text-ink-600">· {ROLE_LABELS[role]}</span>
+      </PageHeading>
+      <QueryView query={home} loadingLabel="Loading today’s tasks…">
+        {(data) =>
+          data.tasks.length === 0 ? (
+            <EmptyState title="Nothing needs doing today." />
+          ) : (
+            <ul aria-label="Today’s tasks" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+              {data.tasks.map((task) => (
+                <li key={task.id}>
+                  <TaskCard task={task} />
+                </li>
+              ))}
+            </ul>
+          )
+        }
+      </QueryView>
+    </>
+  );
+}

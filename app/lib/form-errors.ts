@@ -1,0 +1,22 @@
+import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
+import { ApiError } from './api-client.ts';
+
+/**
+ * Puts the server's field messages under the matching fields (the first one gets focus) and
+ * returns what is left over, for a banner: form-level messages or fields this form does not show.
+ */
+export function applyServerErrors<T extends FieldValues>(err: unknown, setError: UseFormSetError<T>, fieldNames: readonly Path<T>[]): string[] {
+  if (!(err instanceof ApiError)) return [];
+  const leftover: string[] = [];
+  let focused = false;
+  for (const [key, messages] of Object.entries(err.fields)) {
+    const name = fieldNames.find((f) => f === key);
+    if (name && messages.length) {
+      setError(name, { type: 'server', message: messages.join(' ') }, { shouldFocus: !focused });
+      focused = true;
+    } else {
+      leftover.push(...messages);
+    }
+  }
+  return leftover;
+}
