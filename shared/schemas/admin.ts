@@ -135,6 +135,8 @@ export const OutboxQuerySchema = z.object({
   pageSize: z.coerce.number().int().min(1).max(100).default(25),
 });
 export const OutboxPageSchema = pagedSchema(OutboxMessageSchema);
+export const OutboxMessageDetailSchema = OutboxMessageSchema.extend({ text: z.string() });
+export type OutboxMessageDetail = z.infer<typeof OutboxMessageDetailSchema>;
 export const OutboxParamsSchema = z.object({ id: z.string().regex(/^[A-Za-z0-9._-]+\.eml$/, 'Not a message id') });
 
 // ---- audit

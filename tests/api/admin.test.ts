@@ -112,9 +112,9 @@ describe('productions, memberships and the designated lead', () => {
     expect(outbox.body.total).toBe(1);
     expect(outbox.body.items[0].subject).toBe(mail.subject);
     expect(outbox.body.items[0].to[0]).toContain('pip@plinth.test');
-    const raw = await request(t.app).get(`/api/outbox/${outbox.body.items[0].id}`).set('Cookie', admin);
-    expect(raw.status).toBe(200);
-    expect(raw.headers['content-type']).toMatch(/message\/rfc822/);
+    const one = await request(t.app).get(`/api/outbox/${outbox.body.items[0].id}`).set('Cookie', admin);
+    expect(one.status).toBe(200);
+    expect(one.body.text).toContain('You now have the role "Archivist" on The Lantern Keeper');
 
     const pipSession = SessionSchema.parse((await request(t.app).get('/api/session').set('Cookie', await t.sessionFor('pip@plinth.test'))).body);
     expect(pipSession.seats).toEqual([{ productionId: p.id, productionName: 'The Lantern Keeper', role: 'archivist' }]);

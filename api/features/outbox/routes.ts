@@ -1,7 +1,7 @@
 import { promises as fs } from 'node:fs';
 import path from 'node:path';
 import { simpleParser, type AddressObject } from 'mailparser';
-import { OutboxPageSchema, OutboxParamsSchema, OutboxQuerySchema, type OutboxMessage } from '#shared/schemas/admin.ts';
+import { OutboxMessageDetailSchema, OutboxPageSchema, OutboxParamsSchema, OutboxQuerySchema, type OutboxMessage } from '#shared/schemas/admin.ts';
 import { notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
 
@@ -19,9 +19,10 @@ async function listMailFiles(dir: string): Promise<string[]> {
   }
 }
 
-export async function readMessage(dir: string, id: string): Promise<OutboxMessage> {
+export async function readMessage(dir: string, id: string): Promise<OutboxMessage & { text: string }> {
   const parsed = await simpleParser(await fs.readFile(path.join(dir, id)));
   return {
+    text: parsed.text ?? '',
     id,
     subject: parsed.subject ?? '(no subject)',
     from: addresses(parsed.from)[0] ?? '',
@@ -45,24 +46,27 @@ export const outboxRoutes = [
     async handler({ ctx, query }) {
       const files = await listMailFiles(ctx.config.mailDir);
       const pageFiles = files.slice((query.page - 1) * query.pageSize, query.page * query.pageSize);
-      const items = await Promise.all(pageFiles.map((f) => readMessage(ctx.config.mailDir, f)));
+      const items = await Promise.all(pageFiles.map(async (f) => {
+        const { text: _text, ...meta } = await readMessage(ctx.config.mailDir, f);
+        return meta;
+      }));
       return { items, total: files.length, page: query.page, pageSize: query.pageSize };
     },
   }),
   defineRoute({
     method: 'get',
     path: '/api/outbox/:id',
-    summary: 'Download one caught message as an .eml file',
+    summary: 'One caught message: headers, text and attachment names. Attachment contents are never served (a signed consent PDF carries health answers).',
     tag: 'admin',
     auth: 'session',
     requires: 'outbox.read',
     params: OutboxParamsSchema,
-    produces: 'message/rfc822',
+    response: OutboxMessageDetailSchema,
     errors: [403, 404],
-    async handler({ ctx, params, res }) {
+    async handler({ ctx, params }) {
       const files = await listMailFiles(ctx.config.mailDir);
       if (!files.includes(params.id)) throw notFound('That message');
-      res.type('message/rfc822').attachment(params.id).send(await fs.readFile(path.join(ctx.config.mailDir, params.id)));
+      return readMessage(ctx.config.mailDir, params.id);
     },
   }),
 ];

@@ -1,3 +1,582 @@
-import type { AnyRoute } from '../../http/route.ts';
+import type { Request, Response } from 'express';
+import { randomUUID } from 'node:crypto';
+import { z } from 'zod';
+import { type Actor, can } from '#shared/policy.ts';
+import { IdParamsSchema } from '#shared/schemas/common.ts';
+import {
+  CreatePerformerInputSchema,
+  CsvImportQuerySchema,
+  CsvImportResultSchema,
+  type CsvImportResult,
+  LinkAccountInputSchema,
+  PerformerDetailSchema,
+  type PerformerDetail,
+  PerformerListQuerySchema,
+  PerformerPageSchema,
+  UpdatePerformerInputSchema,
+} from '#shared/schemas/performers.ts';
+import type { AppContext } from '../../context.ts';
+import type { Db } from '../../db/index.ts';
+import { discardFiles, readStoredFile, storeFile, type StoredFile } from '../../files/store.ts';
+import { writeAudit } from '../../http/audit.ts';
+import { authorize } from '../../http/authorize.ts';
+import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
+import { type AnyRoute, defineRoute } from '../../http/route.ts';
+import { performerAccess, productionsWhere } from './access.ts';
+import { IMPORT_MAX_BYTES, checkImportRows, performersCsv, readImportFile } from './csv.ts';
+import { PORTRAIT_MAX_BYTES, processPortrait } from './portrait.ts';
+import { receiveFile } from './upload.ts';
+import {
+  type EngagementValues,
+  type PerformerFields,
+  addPerformerMemberships,
+  deleteEngagements,
+  deleteFileRows,
+  findPerformer,
+  findPerformerIdByEmail,
+  findPerformerLinkedTo,
+  findPerformersByEmails,
+  findUser,
+  insertEngagements,
+  insertPerformer,
+  insertPerformers,
+  listConsentSummaries,
+  listEngagements,
+  listPerformers,
+  listPerformersForExport,
+  listUpcomingBookings,
+  lockPerformer,
+  portraitUrl,
+  removePerformerMemberships,
+  setPerformerUserAtVersion,
+  setPortraitFiles,
+  thumbnailUrl,
+  updateEngagement,
+  updatePerformerAtVersion,
+} from './repo.ts';
 
-export const performerRoutes: AnyRoute[] = [];
+const TAG = 'performers';
+const FIELD_KEYS: readonly (keyof PerformerFields)[] = [
+  'legalName',
+  'preferredName',
+  'pronouns',
+  'email',
+  'phone',
+  'emergencyContactName',
+  'emergencyContactPhone',
+  'agentName',
+  'agentContact',
+  'notes',
+];
+
+function fieldsOf(body: PerformerFields): PerformerFields {
+  return Object.fromEntries(FIELD_KEYS.map((k) => [k, body[k]])) as unknown as PerformerFields;
+}
+
+const emailTaken = () => invalid({ email: ['Another performer already has this e-mail address.'] });
+const staleEdit = (version: number) => conflict('Someone else changed this performer since you opened it. Reload to see their change.', { currentVersion: version });
+
+/** Duplicate-key races that get past the checks: the same reply the check would have given. */
+function duplicateToField(err: unknown): never {
+  const e = err as { code?: string; constraint?: string };
+  if (e?.code === '23505' && e.constraint === 'performers_email_key') throw emailTaken();
+  if (e?.code === '23505' && e.constraint === 'performers_user_id_key') throw invalid({ userId: ['This sign-in is already linked to another performer.'] });
+  throw err;
+}
+
+/** The performer as this actor may see them: contact, linked sign-in, consents and bookings only where allowed. */
+async function buildDetail(db: Db, actor: Actor, id: string): Promise<PerformerDetail> {
+  const p = await findPerformer(db, id);
+  if (!p) throw notFound('That performer');
+  const engagements = (await listEngagements(db, [id])).get(id) ?? [];
+  const access = performerAccess(actor, id, engagements.map((e) => e.productionId));
+  const named = { id, name: p.preferredName ?? p.legalName };
+  const now = new Date();
+  const consents = access.canView ? await listConsentSummaries(db, named, now) : { summaries: [], times: [] };
+  const bookings = access.canView ? await listUpcomingBookings(db, named, consents.times, access.showsProduction) : [];
+  const linkedUser = p.userId && access.canSeeLinkedUser ? ((await findUser(db, p.userId)) ?? null) : null;
+  return {
+    id,
+    legalName: p.legalName,
+    preferredName: p.preferredName,
+    pronouns: p.pronouns,
+    contact: access.canSeeContact
+      ? {
+          email: p.email,
+          phone: p.phone,
+          emergencyContactName: p.emergencyContactName,
+          emergencyContactPhone: p.emergencyContactPhone,
+          agentName: p.agentName,
+          agentContact: p.agentContact,
+          notes: p.notes,
+        }
+      : null,
+    linkedUser,
+    engagements: engagements.filter((e) => access.showsProduction(e.productionId)).map(({ performerId: _p, ...e }) => e),
+    portraitUrl: portraitUrl(id, p.portraitFileId),
+    thumbnailUrl: thumbnailUrl(id, p.portraitThumbFileId),
+    consents: consents.summaries,
+    bookings,
+    version: p.version,
+    canEdit: access.canManage,
+    canSeeMedical: access.canSeeMedical,
+  };
+}
+
+/** Loads a performer and what the actor may do with them; 404 before 403. */
+async function loadForActor(db: Db, actor: Actor, id: string) {
+  const performer = await findPerformer(db, id);
+  if (!performer) throw notFound('That performer');
+  const engagements = (await listEngagements(db, [id])).get(id) ?? [];
+  const productionIds = engagements.map((e) => e.productionId);
+  return { performer, productionIds, access: performerAccess(actor, id, productionIds) };
+}
+
+/** Scope of the list and the export: productions where the actor may view performers (permission checked here). */
+function listScope(actor: Actor, productionId: string | undefined): { productionIds: string[]; viewable: Set<string> } {
+  const viewable = productionsWhere(actor, 'performers.view');
+  if (productionId) {
+    authorize(actor, 'performers.view', { productionId });
+    return { productionIds: [productionId], viewable: new Set(viewable) };
+  }
+  if (viewable.length === 0) throw forbidden('see the performer registry');
+  return { productionIds: viewable, viewable: new Set(viewable) };
+}
+
+function changedFields(before: PerformerFields, after: PerformerFields): string[] {
+  return FIELD_KEYS.filter((k) => before[k] !== after[k]);
+}
+
+function duplicateProductions(engagements: readonly { productionId: string }[]): Record<string, string[]> {
+  const seen = new Set<string>();
+  const fields: Record<string, string[]> = {};
+  engagements.forEach((e, i) => {
+    if (seen.has(e.productionId)) fields[`engagements.${i}.productionId`] = ['This production is listed twice.'];
+    seen.add(e.productionId);
+  });
+  return fields;
+}
+
+async function auditMemberships(db: Db, req: Request, actor: Actor, userId: string, added: readonly string[], removed: readonly string[], performerId: string) {
+  for (const productionId of added) {
+    await writeAudit(db, { actorUserId: actor.userId, action: 'membership.add', entityType: 'user', entityId: userId, productionId, req, details: { role: 'performer', performerId } });
+  }
+  for (const productionId of removed) {
+    await writeAudit(db, { actorUserId: actor.userId, action: 'membership.remove', entityType: 'user', entityId: userId, productionId, req, details: { role: 'performer', performerId } });
+  }
+}
+
+async function receiveFileOr400(req: Request, res: Response, field: string, maxBytes: number, missing: string) {
+  const file = await receiveFile(req, res, { field, maxBytes });
+  if (!file) throw invalid({ [field]: [missing] });
+  return file;
+}
+
+const PortraitQuerySchema = z.object({ v: z.string().max(100).optional() });
+
+async function sendPortrait(ctx: AppContext, actor: Actor, id: string, which: 'portrait' | 'thumbnail', v: string | undefined, res: Response) {
+  const { performer, access } = await loadForActor(ctx.db, actor, id);
+  if (!access.canView) throw forbidden('see this performer');
+  const fileId = which === 'portrait' ? performer.portraitFileId : performer.portraitThumbFileId;
+  if (!fileId) throw notFound(which === 'portrait' ? 'A portrait' : 'A thumbnail');
+  const file = await readStoredFile(ctx.db, ctx.config.storageDir, fileId);
+  if (!file) throw notFound(which === 'portrait' ? 'A portrait' : 'A thumbnail');
+  // The URL carries the file id, so a matching ?v= names bytes that never change; private: it is a person's face.
+  res.set('Cache-Control', v === fileId ? 'private, max-age=86400, immutable' : 'private, no-cache');
+  res.set('ETag', `"${file.sha256}"`);
+  res.type(file.contentType).send(file.bytes);
+}
+
+/** Import: everything the preview shows, computed the same way for the commit. */
+async function planImport(db: Db, buf: Buffer, productionId: string) {
+  const parsed = readImportFile(buf);
+  if (parsed.fileErrors.length) return { fileErrors: parsed.fileErrors, rows: [], plans: [] };
+  const emails = parsed.lines.map((l) => l.values.email?.trim().toLowerCase()).filter((e): e is string => !!e);
+  const existing = await findPerformersByEmails(db, [...new Set(emails)]);
+  return { fileErrors: [] as string[], ...checkImportRows(parsed.lines, productionId, existing) };
+}
+
+function importResult(plan: Awaited<ReturnType<typeof planImport>>, committed: boolean): CsvImportResult {
+  const rowsWithErrors = plan.rows.filter((r) => Object.keys(r.errors).length > 0).length;
+  return {
+    committed,
+    rows: plan.rows,
+    // Rows with at least one problem, plus problems with the file as a whole.
+    errorCount: rowsWithErrors + plan.fileErrors.length,
+    fileErrors: plan.fileErrors,
+    created: plan.plans.filter((p) => p.action === 'create').length,
+    engaged: plan.plans.filter((p) => p.action === 'engage_existing').length,
+  };
+}
+
+function importRefused(result: CsvImportResult, message: string): ApiError {
+  // details.fields names the one input, the file; details.result is the full report, row by row.
+  const problems = [...result.fileErrors];
+  for (const r of result.rows) {
+    for (const [column, messages] of Object.entries(r.errors)) problems.push(...messages.map((m) => `Line ${r.line}, ${column}: ${m}`));
+  }
+  return new ApiError('validation_failed', message, { fields: { file: problems }, result });
+}
+
+export const performerRoutes: AnyRoute[] = [
+  defineRoute({
+    method: 'get',
+    path: '/api/performers',
+    summary: 'The performer registry: performers engaged on productions where you may view performers (search, consent filter, sort, page)',
+    tag: TAG,
+    auth: 'session',
+    query: PerformerListQuerySchema,
+    response: PerformerPageSchema,
+    errors: [403],
+    async handler({ ctx, actor, query }) {
+      const scope = listScope(actor, query.productionId);
+      const { items, total } = await listPerformers(ctx.db, query, { productionIds: scope.productionIds, showsProduction: (p) => scope.viewable.has(p) });
+      return { items, total, page: query.page, pageSize: query.pageSize };
+    },
+  }),
+  // Before /api/performers/:id, so "export.csv" is never taken for an id.
+  defineRoute({
+    method: 'get',
+    path: '/api/performers/export.csv',
+    summary:
+      'The registry as filtered, as CSV (no paging). Contact columns are left out unless you manage performers on every production the export covers',
+    tag: TAG,
+    auth: 'session',
+    query: PerformerListQuerySchema.omit({ page: true, pageSize: true }),
+    produces: 'text/csv',
+    errors: [403],
+    async handler({ ctx, actor, query, req, res }) {
+      const scope = listScope(actor, query.productionId);
+      const includeContact = scope.productionIds.every((productionId) => can(actor, 'performers.manage', { productionId }));
+      const rows = await listPerformersForExport(ctx.db, query, { productionIds: scope.productionIds });
+      const csv = performersCsv(rows, { includeContact, productionId: query.productionId, showsProduction: (p) => scope.viewable.has(p) });
+      await writeAudit(ctx.db, {
+        actorUserId: actor.userId,
+        action: 'performer.export',
+        entityType: 'performer',
+        productionId: query.productionId ?? null,
+        req,
+        details: { rows: rows.length, contact: includeContact, q: query.q ?? null, consent: query.consent },
+      });
+      res.set('Content-Type', 'text/csv; charset=utf-8');
+      res.set('Content-Disposition', 'attachment; filename="performers.csv"');
+      res.send(csv);
+    },
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/performers/import',
+    summary:
+      'Import performers from CSV (multipart field "file", UTF-8, at most 2 MB and 2,000 rows) onto a production you manage. ' +
+      'commit=false previews: 200 with every row checked and nothing written, problems included. ' +
+      'commit=true checks again and writes everything in one transaction, or, if anything is wrong, nothing: a 400 whose details.result holds the same report',
+    tag: TAG,
+    auth: 'session',
+    multipart: true,
+    query: CsvImportQuerySchema,
+    response: CsvImportResultSchema,
+    errors: [403, 413],
+    async handler({ ctx, actor, query, req, res }) {
+      // Permission checked here, before a byte of the upload is read.
+      authorize(actor, 'performers.manage', { productionId: query.productionId });
+      const file = await receiveFileOr400(req, res, 'file', IMPORT_MAX_BYTES, 'Choose a CSV file to import.');
+      const preview = await planImport(ctx.db, file.buffer, query.productionId);
+      if (!query.commit) return importResult(preview, false);
+      const before = importResult(preview, false);
+      if (before.errorCount > 0) throw importRefused(before, 'Nothing was imported: fix the rows listed and try again.');
+
+      try {
+        const result = await ctx.db.transaction().execute(async (trx) => {
+          // Checked again inside the transaction: someone may have added one of these e-mails since the preview.
+          const plan = await planImport(trx, file.buffer, query.productionId);
+          const checked = importResult(plan, false);
+          if (checked.errorCount > 0) throw importRefused(checked, 'Nothing was imported: the registry changed since the check. Review the rows listed.');
+          const creates = plan.plans.flatMap((p) => (p.action === 'create' ? [{ ...p, id: randomUUID() }] : []));
+          const engages = plan.plans.flatMap((p) => (p.action === 'engage_existing' ? [p] : []));
+          await insertPerformers(trx, creates.map((c) => ({ id: c.id, ...c.fields })));
+          await insertEngagements(trx, [
+            ...creates.map((c) => ({ performerId: c.id, productionId: query.productionId, characterName: c.characterName, startsOn: null, endsOn: null })),
+            ...engages.map((e) => ({ performerId: e.performerId, productionId: query.productionId, characterName: e.characterName, startsOn: null, endsOn: null })),
+          ]);
+          for (const c of creates) {
+            await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.create', entityType: 'performer', entityId: c.id, productionId: query.productionId, req, details: { via: 'import', line: c.line } });
+          }
+          for (const e of engages) {
+            await writeAudit(trx, { actorUserId: actor.userId, action: 'engagement.add', entityType: 'performer', entityId: e.performerId, productionId: query.productionId, req, details: { via: 'import', line: e.line } });
+            const linked = await trx.selectFrom('performers').select('user_id').where('id', '=', e.performerId).executeTakeFirstOrThrow();
+            if (linked.user_id) {
+              const added = await addPerformerMemberships(trx, linked.user_id, [query.productionId], actor.userId);
+              await auditMemberships(trx, req, actor, linked.user_id, added, [], e.performerId);
+            }
+          }
+          await writeAudit(trx, {
+            actorUserId: actor.userId,
+            action: 'performer.import',
+            entityType: 'production',
+            entityId: query.productionId,
+            productionId: query.productionId,
+            req,
+            details: { created: creates.length, engaged: engages.length, alreadyEngaged: plan.plans.length - creates.length - engages.length },
+          });
+          return importResult(plan, true);
+        });
+        return result;
+      } catch (err) {
+        const e = err as { code?: string };
+        if (e?.code === '23505') {
+          throw importRefused({ ...before, fileErrors: ['Another change to the registry collided with this import. Nothing was imported; check the file again.'], errorCount: before.errorCount + 1 }, 'Nothing was imported.');
+        }
+        throw err;
+      }
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/performers/:id',
+    summary: 'One performer: contact details only for those who manage them and for the performer; never any health details',
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    response: PerformerDetailSchema,
+    errors: [403, 404],
+    async handler({ ctx, actor, params }) {
+      const { access } = await loadForActor(ctx.db, actor, params.id);
+      if (!access.canView) throw forbidden('see this performer');
+      return buildDetail(ctx.db, actor, params.id);
+    },
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/performers',
+    summary: 'Register a performer, engaged on one or more productions; you must manage performers on every one of them',
+    tag: TAG,
+    auth: 'session',
+    body: CreatePerformerInputSchema,
+    response: PerformerDetailSchema,
+    status: 201,
+    errors: [403],
+    async handler({ ctx, actor, body, req }) {
+      for (const e of body.engagements) authorize(actor, 'performers.manage', { productionId: e.productionId });
+      const dupes = duplicateProductions(body.engagements);
+      if (Object.keys(dupes).length) throw invalid(dupes);
+      const fields = fieldsOf(body);
+      if (fields.email && (await findPerformerIdByEmail(ctx.db, fields.email))) throw emailTaken();
+      const id = await ctx.db
+        .transaction()
+        .execute(async (trx) => {
+          const newId = await insertPerformer(trx, fields);
+          await insertEngagements(trx, body.engagements.map((e) => ({ ...e, performerId: newId })));
+          await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.create', entityType: 'performer', entityId: newId, productionId: body.engagements[0]!.productionId, req, details: { fields: FIELD_KEYS.filter((k) => fields[k] !== null) } });
+          for (const e of body.engagements) {
+            await writeAudit(trx, { actorUserId: actor.userId, action: 'engagement.add', entityType: 'performer', entityId: newId, productionId: e.productionId, req, details: { characterName: e.characterName } });
+          }
+          return newId;
+        })
+        .catch(duplicateToField);
+      return buildDetail(ctx.db, actor, id);
+    },
+  }),
+  defineRoute({
+    method: 'patch',
+    path: '/api/performers/:id',
+    summary:
+      "Edit a performer (optimistic lock on version). Engagements in the body replace the performer's engagements on productions you manage; those on other productions are kept as they are",
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    body: UpdatePerformerInputSchema,
+    response: PerformerDetailSchema,
+    errors: [403, 404, 409],
+    async handler({ ctx, actor, params, body, req }) {
+      await ctx.db
+        .transaction()
+        .execute(async (trx) => {
+          const current = await lockPerformer(trx, params.id);
+          if (!current) throw notFound('That performer');
+          const engagedOn = (await listEngagements(trx, [params.id])).get(params.id) ?? [];
+          const access = performerAccess(actor, params.id, engagedOn.map((e) => e.productionId));
+          if (!access.canManage) throw forbidden('edit this performer');
+          if (current.version !== body.version) throw staleEdit(current.version);
+          const dupes = duplicateProductions(body.engagements);
+          if (Object.keys(dupes).length) throw invalid(dupes);
+          const fields = fieldsOf(body);
+          if (fields.email && (await findPerformerIdByEmail(trx, fields.email, params.id))) throw emailTaken();
+
+          const managed = new Set(access.managedProductionIds);
+          const existing = new Map(engagedOn.map((e) => [e.productionId, e]));
+          const wanted = new Map(body.engagements.map((e) => [e.productionId, e]));
+          const toAdd: EngagementValues[] = [];
+          const toUpdate: EngagementValues[] = [];
+          for (const e of body.engagements) {
+            if (existing.has(e.productionId)) {
+              // An engagement on a production the actor does not manage is left exactly as it is.
+              if (managed.has(e.productionId)) toUpdate.push(e);
+            } else {
+              authorize(actor, 'performers.manage', { productionId: e.productionId });
+              toAdd.push(e);
+            }
+          }
+          const toRemove = [...managed].filter((p) => !wanted.has(p));
+
+          if (!(await updatePerformerAtVersion(trx, params.id, fields, body.version))) throw staleEdit(current.version);
+          for (const e of toUpdate) await updateEngagement(trx, params.id, e);
+          await deleteEngagements(trx, params.id, toRemove);
+          await insertEngagements(trx, toAdd.map((e) => ({ ...e, performerId: params.id })));
+
+          await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.update', entityType: 'performer', entityId: params.id, req, details: { fields: changedFields(current, fields) } });
+          for (const e of toAdd) {
+            await writeAudit(trx, { actorUserId: actor.userId, action: 'engagement.add', entityType: 'performer', entityId: params.id, productionId: e.productionId, req, details: { characterName: e.characterName } });
+          }
+          for (const productionId of toRemove) {
+            await writeAudit(trx, { actorUserId: actor.userId, action: 'engagement.remove', entityType: 'performer', entityId: params.id, productionId, req });
+          }
+          // A linked sign-in follows the engagements: the performer role where engaged, and no longer where not.
+          if (current.userId) {
+            const added = await addPerformerMemberships(trx, current.userId, toAdd.map((e) => e.productionId), actor.userId);
+            const removed = await removePerformerMemberships(trx, current.userId, toRemove);
+            await auditMemberships(trx, req, actor, current.userId, added, removed, params.id);
+          }
+        })
+        .catch(duplicateToField);
+      return buildDetail(ctx.db, actor, params.id);
+    },
+  }),
+  defineRoute({
+    method: 'put',
+    path: '/api/performers/:id/account',
+    summary:
+      "Link a sign-in to the performer (or unlink with userId null). The sign-in gets the performer role on the performer's productions that you manage (every one, for the studio administrator)",
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    body: LinkAccountInputSchema,
+    response: PerformerDetailSchema,
+    errors: [403, 404, 409],
+    async handler({ ctx, actor, params, body, req }) {
+      await ctx.db
+        .transaction()
+        .execute(async (trx) => {
+          const current = await lockPerformer(trx, params.id);
+          if (!current) throw notFound('That performer');
+          const engagedOn = (await listEngagements(trx, [params.id])).get(params.id) ?? [];
+          const productionIds = engagedOn.map((e) => e.productionId);
+          const access = performerAccess(actor, params.id, productionIds);
+          if (!access.canManage && !actor.isAdmin) throw forbidden('link a sign-in to this performer');
+          if (current.version !== body.version) throw staleEdit(current.version);
+          if (body.userId) {
+            if (!(await findUser(trx, body.userId))) throw invalid({ userId: ['That user does not exist.'] });
+            const other = await findPerformerLinkedTo(trx, body.userId);
+            if (other && other.id !== params.id) throw invalid({ userId: ['This sign-in is already linked to another performer.'] });
+          }
+          // The administrator may give roles anywhere; a head or lead only where they manage performers.
+          const where = actor.isAdmin ? productionIds : access.managedProductionIds;
+          if (!(await setPerformerUserAtVersion(trx, params.id, body.userId, body.version))) throw staleEdit(current.version);
+          const previous = current.userId;
+          if (previous && previous !== body.userId) {
+            const removed = await removePerformerMemberships(trx, previous, where);
+            await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.account_unlink', entityType: 'performer', entityId: params.id, req, details: { userId: previous } });
+            await auditMemberships(trx, req, actor, previous, [], removed, params.id);
+          }
+          if (body.userId) {
+            const added = await addPerformerMemberships(trx, body.userId, where, actor.userId);
+            if (previous !== body.userId) {
+              await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.account_link', entityType: 'performer', entityId: params.id, req, details: { userId: body.userId } });
+            }
+            await auditMemberships(trx, req, actor, body.userId, added, [], params.id);
+          }
+        })
+        .catch(duplicateToField);
+      return buildDetail(ctx.db, actor, params.id);
+    },
+  }),
+  defineRoute({
+    method: 'put',
+    path: '/api/performers/:id/portrait',
+    summary:
+      'Upload a portrait (multipart field "portrait", at most 10 MB; JPEG, PNG, WebP or HEIC, read from the content). Stored upright as a JPEG without any metadata, with a 256×256 thumbnail',
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    multipart: true,
+    response: PerformerDetailSchema,
+    errors: [403, 404, 413],
+    async handler({ ctx, actor, params, req, res }) {
+      const { access } = await loadForActor(ctx.db, actor, params.id);
+      // Permission checked here, before a byte of the upload is read.
+      if (!access.canManage) throw forbidden('change this performer’s portrait');
+      const file = await receiveFileOr400(req, res, 'portrait', PORTRAIT_MAX_BYTES, 'Choose a photo to upload.');
+      const { portrait, thumbnail } = await processPortrait(file.buffer);
+      const storageDir = ctx.config.storageDir;
+      const written: StoredFile[] = [];
+      let replaced: { storagePath: string }[] = [];
+      try {
+        await ctx.db.transaction().execute(async (trx) => {
+          if (!(await lockPerformer(trx, params.id))) throw notFound('That performer');
+          const big = await storeFile(trx, storageDir, { purpose: 'portrait', contentType: 'image/jpeg', ext: 'jpg', bytes: portrait.bytes, width: portrait.width, height: portrait.height, createdBy: actor.userId });
+          written.push(big);
+          const small = await storeFile(trx, storageDir, { purpose: 'portrait_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
+          written.push(small);
+          const previous = await setPortraitFiles(trx, params.id, big.id, small.id);
+          replaced = await deleteFileRows(trx, previous);
+          await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.portrait_set', entityType: 'performer', entityId: params.id, req, details: { fileId: big.id, width: portrait.width, height: portrait.height } });
+        });
+      } catch (err) {
+        await discardFiles(storageDir, written);
+        throw err;
+      }
+      // The old photo is personal data nobody points at any more: its bytes go once the change is committed.
+      await discardFiles(storageDir, replaced);
+      return buildDetail(ctx.db, actor, params.id);
+    },
+  }),
+  defineRoute({
+    method: 'delete',
+    path: '/api/performers/:id/portrait',
+    summary: 'Remove the portrait (and its thumbnail); their files are deleted',
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    status: 204,
+    errors: [403, 404],
+    async handler({ ctx, actor, params, req }) {
+      const { access } = await loadForActor(ctx.db, actor, params.id);
+      if (!access.canManage) throw forbidden('change this performer’s portrait');
+      const removed = await ctx.db.transaction().execute(async (trx) => {
+        if (!(await lockPerformer(trx, params.id))) throw notFound('That performer');
+        const previous = await setPortraitFiles(trx, params.id, null, null);
+        const rows = await deleteFileRows(trx, previous);
+        if (previous.length) await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.portrait_remove', entityType: 'performer', entityId: params.id, req });
+        return rows;
+      });
+      await discardFiles(ctx.config.storageDir, removed);
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/performers/:id/portrait',
+    summary: 'The portrait (JPEG, at most 1600 px) for anyone who may see the performer; ?v=<file id> makes it cacheable',
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    query: PortraitQuerySchema,
+    produces: 'image/jpeg',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, query, res }) {
+      await sendPortrait(ctx, actor, params.id, 'portrait', query.v, res);
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/performers/:id/portrait/thumbnail',
+    summary: 'The 256×256 portrait thumbnail for anyone who may see the performer; ?v=<file id> makes it cacheable',
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    query: PortraitQuerySchema,
+    produces: 'image/jpeg',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, query, res }) {
+      await sendPortrait(ctx, actor, params.id, 'thumbnail', query.v, res);
+    },
+  }),
+];

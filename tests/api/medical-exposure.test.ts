@@ -1,0 +1,93 @@
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { allRoutes } from '../../api/routes.ts';
+import { createTestApp, type TestApp } from '../support/app.ts';
+import { pdfText } from '../support/pdf.ts';
+import { concretePath } from '../support/routes.ts';
+
+/**
+ * Sweeps every read route with every staff role that is not the designated lead, filling each
+ * path and query with real ids, and looks for any health answer in any reply.
+ */
+let t: TestApp;
+const medicalTexts: string[] = [];
+const ids: Record<string, string[]> = {};
+
+beforeAll(async () => {
+  t = await createTestApp();
+  const db = t.db.db;
+  const juno = await db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow();
+  const consents = await db.selectFrom('consents').select('id').where('performer_id', '=', juno.id).execute();
+  const production = await db.selectFrom('productions').select('id').where('name', '=', 'The Lantern Keeper').executeTakeFirstOrThrow();
+  const templates = await db.selectFrom('consent_templates').select('id').execute();
+  const bookings = await db.selectFrom('bookings').select('id').execute();
+  ids.id = [juno.id, production.id, ...consents.map((c) => c.id), templates[0]!.id, bookings[0]!.id];
+  const answers = await db.selectFrom('consent_answers').select(['answer', 'medical']).where('medical', '=', true).execute();
+  for (const a of answers) if (typeof a.answer === 'string' && a.answer.length > 3) medicalTexts.push(a.answer);
+  expect(medicalTexts).toContain('Sticking plasters make my skin itch');
+  ids.performerId = [juno.id];
+  ids.productionId = [production.id];
+});
+afterAll(async () => {
+  await t?.close();
+});
+
+const NOT_LEAD = ['head@plinth.test', 'artist@plinth.test', 'artist2@plinth.test', 'archivist@plinth.test', 'admin@plinth.test'];
+
+describe('no staff role but the designated lead reads health answers through any route', () => {
+  for (const email of NOT_LEAD) {
+    it(`${email}: every GET route, every real id`, async () => {
+      const cookie = await t.sessionFor(email);
+      const reads = allRoutes.filter((r) => r.method === 'get' && !r.path.includes(':token'));
+      expect(reads.length).toBeGreaterThan(15);
+      let answered = 0;
+      let sawPerformer = false;
+      for (const route of reads) {
+        const fills = route.path.includes(':id') ? ids.id! : [''];
+        for (const fill of fills) {
+          const url = concretePath(route, { id: fill });
+          const res = await request(t.app)
+            .get(url)
+            .query({ performerId: ids.performerId![0], productionId: ids.productionId![0] })
+            .set('Cookie', cookie)
+            .buffer(true)
+            .parse((r, cb) => {
+              const chunks: Buffer[] = [];
+              r.on('data', (c: Buffer) => chunks.push(c));
+              r.on('end', () => cb(null, Buffer.concat(chunks)));
+            });
+          (res as { text?: string }).text = (res.body as Buffer).toString('latin1');
+          if (res.status === 200) answered++;
+          const text = res.text ?? '';
+          if (text.includes('Juno Castellane')) sawPerformer = true;
+          for (const m of medicalTexts) expect(text, `${email} ${url}`).not.toContain(m);
+          // An answer object marked medical (question definitions in templates may say medical: true; answers never may).
+          expect(text, `${email} ${url}`).not.toMatch(/"medical":true,"answer"/);
+          if (res.status === 200 && (res.headers['content-type'] ?? '').includes('application/pdf')) {
+            // Only a consent with no health questions may reach them as a PDF, and it must hold no health answer.
+            const consentId = /\/api\/consents\/([0-9a-f-]{36})\/pdf/.exec(url)![1]!;
+            const medical = await t.db.db.selectFrom('consent_answers').select('id').where('consent_id', '=', consentId).where('medical', '=', true).execute();
+            expect(medical, `${email} got the PDF of a consent with health questions`).toEqual([]);
+            const pdf = await pdfText(res.body as Buffer);
+            for (const m of medicalTexts) expect(pdf.text).not.toContain(m);
+          }
+        }
+      }
+      // The sweep really reached data, not only refusals.
+      expect(answered).toBeGreaterThan(5);
+      // …and the replies were really read (a performer's name appears somewhere).
+      expect(sawPerformer).toBe(true);
+    });
+  }
+
+  it('the same sweep finds the answers for the lead (so the check can fail)', async () => {
+    const cookie = await t.sessionFor('lead@plinth.test');
+    const route = allRoutes.find((r) => r.path === '/api/consents/:id' && r.method === 'get')!;
+    let found = false;
+    for (const id of ids.id!) {
+      const res = await request(t.app).get(concretePath(route, { id })).set('Cookie', cookie);
+      if (medicalTexts.some((m) => res.text.includes(m))) found = true;
+    }
+    expect(found).toBe(true);
+  });
+});
