@@ -116,7 +116,6 @@ export const PerformerDetailSchema = z.object({
   thumbnailUrl: z.string().nullable(),
   consents: z.array(ConsentSummarySchema),
   bookings: z.array(BookingSchema),
-  /** Sections of later features; empty until they exist. */
   version: VersionSchema,
   canEdit: z.boolean(),
   canSeeMedical: z.boolean(),

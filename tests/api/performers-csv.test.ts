@@ -184,8 +184,8 @@ describe('POST /api/performers/import', () => {
     expect(body.error.details!.fields!.file).toEqual([
       'Line 3, legal_name: Enter the legal name',
       'Line 4, email: Enter a valid email address',
-      'Line 7, character_name: At most 160 characters',
       'Line 7, pronouns: At most 40 characters',
+      'Line 7, character_name: At most 160 characters',
     ]);
     expect(CsvImportResultSchema.parse(body.error.details!.result).rows).toHaveLength(6);
     expect(await performerCount()).toBe(before);
@@ -312,6 +312,19 @@ describe('POST /api/performers/import', () => {
     } finally {
       await t.db.pool.query('drop trigger fixture_collide on engagements; drop function fixture_collide()');
     }
+  });
+
+  it('re-imports its own export: the productions column is ignored and everyone is already engaged', async () => {
+    const { res, text } = await exportCsv('head', `?productionId=${lantern}`);
+    expect(res.status).toBe(200);
+    const before = await performerCount();
+    const preview = await importCsv('head', text);
+    expect(preview.status).toBe(200);
+    const result = CsvImportResultSchema.parse(preview.body);
+    expect(result.fileErrors).toEqual([]);
+    expect(result.errorCount).toBe(0);
+    expect(result.rows.map((r) => r.action)).toEqual(Array(6).fill('already_engaged'));
+    expect(await performerCount()).toBe(before);
   });
 
   it('needs performers.manage on the production imported into', async () => {

@@ -6,7 +6,7 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { ErrorBodySchema } from '#shared/errors.ts';
 import { PerformerDetailSchema, PerformerPageSchema } from '#shared/schemas/performers.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
-import { bandColour, cameraJpeg, exifHasGps, largePng, smallGif, smallWebp } from '../fixtures/images.ts';
+import { bandColour, cameraJpeg, exifHasGps, largePng, pngBombHeader, smallAvif, smallGif, smallWebp } from '../fixtures/images.ts';
 import { EMAILS, makeBooking, makeConsent, makePerformer, makeProduction, performerId, productionId, sessions, type Who } from '../fixtures/performers.ts';
 import { snapshotData } from '../fixtures/snapshot.ts';
 
@@ -65,7 +65,7 @@ describe('GET /api/performers: search, filters, sort and paging', () => {
     expect(names(asc.body)).toEqual(LANTERN_BY_NAME);
     expect(asc.body.total).toBe(6);
     const desc = await list('head', `?productionId=${lantern}&dir=desc`);
-    expect(names(desc.body)).toEqual([...LANTERN_BY_NAME].reverse());
+    expect(names(desc.body)).toEqual(LANTERN_BY_NAME.toReversed());
     const page2 = await list('head', `?productionId=${lantern}&pageSize=2&page=2`);
     expect(page2.body).toMatchObject({ total: 6, page: 2, pageSize: 2 });
     expect(names(page2.body)).toEqual(LANTERN_BY_NAME.slice(2, 4));
@@ -538,6 +538,18 @@ describe('portraits', () => {
     expect(await count('files')).toBe(filesBefore);
     expect(await storedFiles()).toEqual([]);
     expect(PerformerDetailSchema.parse((await detail('head', oz)).body).portraitUrl).toBeNull();
+  });
+
+  it('accepts AVIF (HEIF) and refuses a header claiming more than 100 megapixels before decoding it', async () => {
+    const oz = await performerId(t, 'Oswin Parfitt-Reyes');
+    const avif = await put('head', oz, await smallAvif(), 'x.avif', 'image/avif');
+    expect(avif.status).toBe(200);
+    const meta = await sharp((await api().get(avif.body.portraitUrl).set('Cookie', as.head).buffer(true)).body).metadata();
+    expect([meta.format, meta.width, meta.height]).toEqual(['jpeg', 64, 48]);
+    const bomb = await put('head', oz, pngBombHeader(), 'bomb.png', 'image/png');
+    expect(bomb.status).toBe(400);
+    expect(bomb.body.error.details.fields.portrait).toEqual(['This photo has more than 100 megapixels. Send a smaller copy.']);
+    expect(avif.body.portraitUrl).toBe(PerformerDetailSchema.parse((await detail('head', oz)).body).portraitUrl);
   });
 
   it('answers a file over 10 MB with 413 and stores nothing', async () => {

@@ -184,7 +184,8 @@ export function readImportFile(buf: Buffer): ParsedImport {
         const header = raw.map(normaliseHeader);
         seen.header = header;
         const problems: string[] = [];
-        const unknown = raw.filter((_, i) => !(CSV_COLUMNS as readonly string[]).includes(header[i]!));
+        // "productions" is what the export adds; it is read-only information, so an export re-imports cleanly.
+        const unknown = raw.filter((_, i) => header[i] !== 'productions' && !(CSV_COLUMNS as readonly string[]).includes(header[i]!));
         if (unknown.length) problems.push(`Unknown column${unknown.length > 1 ? 's' : ''}: ${unknown.map((u) => `"${u}"`).join(', ')}. Known columns: ${CSV_COLUMNS.join(', ')}.`);
         const dupes = [...new Set(header.filter((h, i) => header.indexOf(h) !== i))];
         if (dupes.length) problems.push(`Column${dupes.length > 1 ? 's' : ''} listed twice: ${dupes.join(', ')}.`);

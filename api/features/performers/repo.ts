@@ -125,7 +125,8 @@ function orderings(q: Pick<PerformerListQuery, 'q' | 'sort' | 'dir'>): RawBuilde
  * Runs a search in a transaction whose `pg_trgm.word_similarity_threshold` matches ours, so the
  * index-backed `<%` operator and the word_similarity() cut-off agree.
  */
-async function withSearchSettings<T>(db: Db, fn: (db: Db) => Promise<T>): Promise<T> {
+async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
+  if (!searching) return fn(db);
   return db.transaction().execute(async (trx) => {
     await sql`select set_config('pg_trgm.word_similarity_threshold', ${String(WORD_SIMILARITY_THRESHOLD)}, true)`.execute(trx);
     return fn(trx);
@@ -152,7 +153,7 @@ export async function listPerformers(
   scope: { productionIds: readonly string[]; showsProduction: (productionId: string) => boolean },
 ): Promise<{ items: PerformerListItem[]; total: number }> {
   const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds });
-  const { rows, total } = await withSearchSettings(db, async (trx) => {
+  const { rows, total } = await withSearchSettings(db, !!q.q, async (trx) => {
     const rows = await trx
       .selectFrom('performers')
       .select([
@@ -202,7 +203,7 @@ export async function listPerformersForExport(
   scope: { productionIds: readonly string[] },
 ): Promise<ExportRow[]> {
   const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds });
-  const rows = await withSearchSettings(db, (trx) =>
+  const rows = await withSearchSettings(db, !!q.q, (trx) =>
     trx.selectFrom('performers').select(PERFORMER_COLUMNS).where(where).orderBy(orderings(q)).execute(),
   );
   const engagements = await listEngagements(db, rows.map((r) => r.id));

@@ -84,19 +84,24 @@ function duplicateToField(err: unknown): never {
   throw err;
 }
 
-/** The performer as this actor may see them: contact, linked sign-in, consents and bookings only where allowed. */
-async function buildDetail(db: Db, actor: Actor, id: string): Promise<PerformerDetail> {
-  const p = await findPerformer(db, id);
-  if (!p) throw notFound('That performer');
+/** Loads a performer and what the actor may do with them; 404 before any permission answer. */
+async function loadForActor(db: Db, actor: Actor, id: string) {
+  const performer = await findPerformer(db, id);
+  if (!performer) throw notFound('That performer');
   const engagements = (await listEngagements(db, [id])).get(id) ?? [];
-  const access = performerAccess(actor, id, engagements.map((e) => e.productionId));
-  const named = { id, name: p.preferredName ?? p.legalName };
-  const now = new Date();
-  const consents = access.canView ? await listConsentSummaries(db, named, now) : { summaries: [], times: [] };
+  const productionIds = engagements.map((e) => e.productionId);
+  return { performer, engagements, productionIds, access: performerAccess(actor, id, productionIds) };
+}
+type Loaded = Awaited<ReturnType<typeof loadForActor>>;
+
+/** The performer as this actor may see them: contact, linked sign-in, consents and bookings only where allowed. */
+async function detailFor(db: Db, { performer: p, engagements, access }: Loaded): Promise<PerformerDetail> {
+  const named = { id: p.id, name: p.preferredName ?? p.legalName };
+  const consents = access.canView ? await listConsentSummaries(db, named, new Date()) : { summaries: [], times: [] };
   const bookings = access.canView ? await listUpcomingBookings(db, named, consents.times, access.showsProduction) : [];
   const linkedUser = p.userId && access.canSeeLinkedUser ? ((await findUser(db, p.userId)) ?? null) : null;
   return {
-    id,
+    id: p.id,
     legalName: p.legalName,
     preferredName: p.preferredName,
     pronouns: p.pronouns,
@@ -113,8 +118,8 @@ async function buildDetail(db: Db, actor: Actor, id: string): Promise<PerformerD
       : null,
     linkedUser,
     engagements: engagements.filter((e) => access.showsProduction(e.productionId)).map(({ performerId: _p, ...e }) => e),
-    portraitUrl: portraitUrl(id, p.portraitFileId),
-    thumbnailUrl: thumbnailUrl(id, p.portraitThumbFileId),
+    portraitUrl: portraitUrl(p.id, p.portraitFileId),
+    thumbnailUrl: thumbnailUrl(p.id, p.portraitThumbFileId),
     consents: consents.summaries,
     bookings,
     version: p.version,
@@ -123,13 +128,9 @@ async function buildDetail(db: Db, actor: Actor, id: string): Promise<PerformerD
   };
 }
 
-/** Loads a performer and what the actor may do with them; 404 before 403. */
-async function loadForActor(db: Db, actor: Actor, id: string) {
-  const performer = await findPerformer(db, id);
-  if (!performer) throw notFound('That performer');
-  const engagements = (await listEngagements(db, [id])).get(id) ?? [];
-  const productionIds = engagements.map((e) => e.productionId);
-  return { performer, productionIds, access: performerAccess(actor, id, productionIds) };
+/** The detail after a change, as the actor who made it sees it. */
+async function buildDetail(db: Db, actor: Actor, id: string): Promise<PerformerDetail> {
+  return detailFor(db, await loadForActor(db, actor, id));
 }
 
 /** Scope of the list and the export: productions where the actor may view performers (permission checked here). */
@@ -340,9 +341,9 @@ export const performerRoutes: AnyRoute[] = [
     response: PerformerDetailSchema,
     errors: [403, 404],
     async handler({ ctx, actor, params }) {
-      const { access } = await loadForActor(ctx.db, actor, params.id);
-      if (!access.canView) throw forbidden('see this performer');
-      return buildDetail(ctx.db, actor, params.id);
+      const loaded = await loadForActor(ctx.db, actor, params.id);
+      if (!loaded.access.canView) throw forbidden('see this performer');
+      return detailFor(ctx.db, loaded);
     },
   }),
   defineRoute({
