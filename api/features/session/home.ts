@@ -98,6 +98,20 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
     return tasks;
   }
   if (!seat.productionId) return tasks;
+  if (seat.role === 'performer' && actor.performerIds[0]) {
+    const performerId = actor.performerIds[0];
+    const now = new Date();
+    const rows = await ctx.db.selectFrom('consents').select(['signed_at', 'expires_at', 'withdrawn_at']).where('performer_id', '=', performerId).execute();
+    const active = rows.filter((c) => !c.withdrawn_at && (!c.expires_at || c.expires_at > now)).length;
+    tasks.push({
+      id: 'my-consents',
+      title: 'Your consents',
+      detail: 'See what you have agreed to, read your answers, and withdraw a consent at any time.',
+      count: active,
+      href: `/performers/${performerId}`,
+    });
+    return tasks;
+  }
   if (seat.role === 'head' || seat.role === 'lead') {
     tasks.push(...(await consentTasks(ctx, seat.productionId)));
     const engaged = await ctx.db
@@ -111,7 +125,7 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
       title: 'Performers engaged',
       detail: 'Performers currently engaged on this production.',
       count: Number(engaged.n),
-      href: null,
+      href: '/performers',
     });
   }
   return tasks;
