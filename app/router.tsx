@@ -8,10 +8,11 @@ import { Loading } from './components/ui/loading.tsx';
 import { RequireSeat, RequireSession } from './features/session/components/require-session.tsx';
 import { NoAccessPage } from './features/session/routes/no-access-page.tsx';
 import { SignInPage } from './features/session/routes/sign-in-page.tsx';
+import { PERFORMER_PAGE_ACTIONS, VERIFY_ACTIONS } from './features/session/seat.ts';
 import { paths } from './lib/paths.ts';
 
 /** A page only the acting seat's role may open; the policy action is named once, here. */
-function guarded(path: string, action: Action, lazy: NonNullable<RouteObject['lazy']>): RouteObject {
+function guarded(path: string, action: Action | readonly Action[], lazy: NonNullable<RouteObject['lazy']>): RouteObject {
   return { path, element: <RequireAction action={action} />, children: [{ index: true, lazy }] };
 }
 
@@ -26,6 +27,23 @@ const routes: RouteObject[] = [
     children: [
       // Public pages load with the app: they are the first thing a signed-out person sees.
       { path: paths.signIn.pattern, Component: SignInPage },
+      // The lent tablet and the performer's own links: outside the session, the shell and its navigation.
+      {
+        path: paths.tablet.pattern,
+        lazy: async () => ({ Component: (await import('./features/consents/routes/tablet-page.tsx')).TabletPage }),
+      },
+      {
+        path: paths.signLink.pattern,
+        lazy: async () => ({ Component: (await import('./features/consents/routes/sign-link-page.tsx')).SignLinkPage }),
+      },
+      {
+        path: paths.withdrawRequest.pattern,
+        lazy: async () => ({ Component: (await import('./features/consents/routes/withdraw-request-page.tsx')).WithdrawRequestPage }),
+      },
+      {
+        path: paths.withdrawLink.pattern,
+        lazy: async () => ({ Component: (await import('./features/consents/routes/withdraw-link-page.tsx')).WithdrawLinkPage }),
+      },
       {
         Component: RequireSession,
         children: [
@@ -46,6 +64,50 @@ const routes: RouteObject[] = [
                           return { Component: m.HomePage, loader: m.homeLoader };
                         },
                       },
+                      guarded(paths.performers.pattern, 'performers.view', async () => {
+                        const m = await import('./features/performers/routes/performers-page.tsx');
+                        return { Component: m.PerformersPage, loader: m.performersLoader };
+                      }),
+                      guarded(paths.newPerformer.pattern, 'performers.manage', async () => {
+                        const m = await import('./features/performers/routes/new-performer-page.tsx');
+                        return { Component: m.NewPerformerPage };
+                      }),
+                      guarded(paths.importPerformers.pattern, 'performers.manage', async () => {
+                        const m = await import('./features/performers/routes/import-page.tsx');
+                        return { Component: m.ImportPage };
+                      }),
+                      guarded(paths.performer.pattern, PERFORMER_PAGE_ACTIONS, async () => {
+                        const m = await import('./features/performers/routes/performer-page.tsx');
+                        return { Component: m.PerformerPage, loader: m.performerLoader };
+                      }),
+                      guarded(paths.editPerformer.pattern, 'performers.manage', async () => {
+                        const m = await import('./features/performers/routes/edit-performer-page.tsx');
+                        return { Component: m.EditPerformerPage, loader: m.editPerformerLoader };
+                      }),
+                      guarded(paths.consent.pattern, PERFORMER_PAGE_ACTIONS, async () => {
+                        const m = await import('./features/consents/routes/consent-page.tsx');
+                        return { Component: m.ConsentPage, loader: m.consentLoader };
+                      }),
+                      guarded(paths.bookings.pattern, 'performers.view', async () => {
+                        const m = await import('./features/bookings/routes/bookings-page.tsx');
+                        return { Component: m.BookingsPage, loader: m.bookingsLoader };
+                      }),
+                      guarded(paths.consentForms.pattern, 'templates.manage', async () => {
+                        const m = await import('./features/consent-forms/routes/consent-forms-page.tsx');
+                        return { Component: m.ConsentFormsPage, loader: m.consentFormsLoader };
+                      }),
+                      guarded(paths.newConsentForm.pattern, 'templates.manage', async () => {
+                        const m = await import('./features/consent-forms/routes/consent-form-page.tsx');
+                        return { Component: m.NewConsentFormPage };
+                      }),
+                      guarded(paths.consentForm.pattern, 'templates.manage', async () => {
+                        const m = await import('./features/consent-forms/routes/consent-form-page.tsx');
+                        return { Component: m.ConsentFormPage, loader: m.consentFormLoader };
+                      }),
+                      guarded(paths.verify.pattern, VERIFY_ACTIONS, async () => {
+                        const m = await import('./features/consents/routes/verify-page.tsx');
+                        return { Component: m.VerifyPage };
+                      }),
                       guarded(paths.users.pattern, 'users.manage', async () => {
                         const m = await import('./features/admin/routes/users-page.tsx');
                         return { Component: m.UsersPage, loader: m.usersLoader };

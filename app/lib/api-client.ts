@@ -44,14 +44,19 @@ async function toApiError(res: Response): Promise<ApiError> {
   } catch {
     // Not JSON (e.g. a gateway page); fall through to the status-based sentence.
   }
+  return apiErrorFrom(res.status, body);
+}
+
+/** The ApiError for a failed reply's status and (parsed JSON) body; also used by uploads sent with XMLHttpRequest. */
+export function apiErrorFrom(status: number, body: unknown): ApiError {
   const parsed = ErrorBodySchema.safeParse(body);
   if (parsed.success) {
     const { code, message, details } = parsed.data.error;
     const { fields, ...rest } = details ?? {};
-    return new ApiError(res.status, code, message, fields ?? {}, rest);
+    return new ApiError(status, code, message, fields ?? {}, rest);
   }
-  const fallback = FALLBACK[res.status] ?? { code: 'internal' as const, message: 'Something went wrong on the server.' };
-  return new ApiError(res.status, fallback.code, fallback.message);
+  const fallback = FALLBACK[status] ?? { code: 'internal' as const, message: 'Something went wrong on the server.' };
+  return new ApiError(status, fallback.code, fallback.message);
 }
 
 export type QueryValue = string | number | boolean | null | undefined;

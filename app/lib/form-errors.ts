@@ -1,5 +1,5 @@
 import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
-import { ApiError } from './api-client.ts';
+import { ApiError, errorMessage } from './api-client.ts';
 
 /**
  * Puts the server's field messages under the matching fields (the first one gets focus) and
@@ -19,4 +19,15 @@ export function applyServerErrors<T extends FieldValues>(err: unknown, setError:
     }
   }
   return leftover;
+}
+
+/**
+ * The whole catch block of a form: field messages under their fields, and what is left (or the
+ * error's own sentence when it named no field) for the form's banner; null when nothing is left.
+ */
+export function formErrorsFrom<T extends FieldValues>(err: unknown, setError: UseFormSetError<T>, fieldNames: readonly Path<T>[]): string[] | null {
+  const leftover = applyServerErrors(err, setError, fieldNames);
+  const hadFields = err instanceof ApiError && Object.keys(err.fields).length > leftover.length;
+  if (leftover.length) return leftover;
+  return hadFields ? null : [errorMessage(err)];
 }

@@ -6,8 +6,8 @@
 /** Only same-site paths may be used as a return address (mirrors the server's check). */
 export function safeReturnTo(value: string | null | undefined): string {
   if (!value || value.length > 500 || !/^\/(?!\/)[^\s]*$/.test(value)) return '/';
-  // Never bounce back to the public pages themselves.
-  if (value.startsWith('/signin') || value.startsWith('/no-access')) return '/';
+  // Never bounce back to the public pages themselves, nor to the lent tablet's screen.
+  if (value.startsWith('/signin') || value.startsWith('/no-access') || value.startsWith('/tablet')) return '/';
   return value;
 }
 
@@ -36,6 +36,28 @@ export const paths = {
   },
   outbox: { pattern: '/admin/outbox', href: () => '/admin/outbox' },
   audit: { pattern: '/admin/audit', href: () => '/admin/audit' },
+
+  performers: {
+    pattern: '/performers',
+    href: (search: { consent?: string; q?: string } = {}) => withSearch('/performers', { consent: search.consent, q: search.q }),
+  },
+  newPerformer: { pattern: '/performers/new', href: () => '/performers/new' },
+  importPerformers: { pattern: '/performers/import', href: () => '/performers/import' },
+  performer: { pattern: '/performers/:id', href: (id: string) => `/performers/${encodeURIComponent(id)}` },
+  editPerformer: { pattern: '/performers/:id/edit', href: (id: string) => `/performers/${encodeURIComponent(id)}/edit` },
+  consent: { pattern: '/consents/:id', href: (id: string) => `/consents/${encodeURIComponent(id)}` },
+  consentForms: { pattern: '/consent-forms', href: () => '/consent-forms' },
+  newConsentForm: { pattern: '/consent-forms/new', href: () => '/consent-forms/new' },
+  consentForm: { pattern: '/consent-forms/:id', href: (id: string) => `/consent-forms/${encodeURIComponent(id)}` },
+  bookings: { pattern: '/bookings', href: () => '/bookings' },
+  verify: { pattern: '/verify', href: () => '/verify' },
+
+  // Public pages, outside the signed-in shell.
+  /** The department's tablet while it is lent to a performer. */
+  tablet: { pattern: '/tablet', href: () => '/tablet' },
+  signLink: { pattern: '/sign/:token', href: (token: string) => `/sign/${encodeURIComponent(token)}` },
+  withdrawRequest: { pattern: '/withdraw', href: () => '/withdraw' },
+  withdrawLink: { pattern: '/withdraw/:token', href: (token: string) => `/withdraw/${encodeURIComponent(token)}` },
 } as const;
 
 /** Server addresses reached by full page navigation rather than fetch. */
@@ -43,4 +65,13 @@ export const serverPaths = {
   /** Starts sign-in at the identity provider; the server brings the person back to returnTo. */
   login: (returnTo = '/') => `/api/auth/login?${new URLSearchParams({ returnTo: safeReturnTo(returnTo) }).toString()}`,
   outboxMessage: (id: string) => `/api/outbox/${encodeURIComponent(id)}`,
+  /**
+   * Leaving the tablet's hand-back screen: the identity provider must ask for the password again
+   * (the server forces it while the session is lent), then staff land on the performer list.
+   */
+  reauth: (returnTo = '/performers') =>
+    `/api/auth/login?${new URLSearchParams({ reauth: 'true', returnTo: safeReturnTo(returnTo) }).toString()}`,
+  /** The filtered registry as CSV, downloaded by the browser. */
+  performersCsv: (query: Record<string, string | undefined>) => withSearch('/api/performers/export.csv', query),
+  consentPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/pdf`,
 } as const;

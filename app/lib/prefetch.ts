@@ -1,7 +1,7 @@
 import type { FetchQueryOptions } from '@tanstack/react-query';
 import type { Action } from '#shared/policy.ts';
 import { sessionQueryOptions } from '../features/session/api.ts';
-import { seatCan } from '../features/session/seat.ts';
+import { seatCanAny } from '../features/session/seat.ts';
 import { queryClient } from './query-client.ts';
 
 // `any` only because option objects of different data types cannot share one typed array;
@@ -14,9 +14,9 @@ type PrefetchOptions = FetchQueryOptions<any, any, any, any, never>;
  * Skipped when the acting seat may not open the page (the page then explains why), and never
  * throws: a failed request shows up as the page's own error state.
  */
-export async function prefetchFor(action: Action | null, ...options: PrefetchOptions[]): Promise<void> {
+export async function prefetchFor(action: Action | readonly Action[] | null, ...options: PrefetchOptions[]): Promise<void> {
   const session = await queryClient.ensureQueryData(sessionQueryOptions()).catch(() => undefined);
   if (!session || session.seats.length === 0) return;
-  if (action && !seatCan(session, action)) return;
+  if (action && !seatCanAny(session, action)) return;
   await Promise.all(options.map((o) => queryClient.prefetchQuery(o)));
 }

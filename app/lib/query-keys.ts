@@ -8,3 +8,12 @@ export const usersKey = ['users'] as const;
 export const productionsKey = ['productions'] as const;
 export const outboxKey = ['outbox'] as const;
 export const auditKey = ['audit'] as const;
+export const performersKey = ['performers'] as const;
+export const consentsKey = ['consents'] as const;
+export const templatesKey = ['consent-templates'] as const;
+export const signingRequestsKey = ['signing-requests'] as const;
+export const bookingsKey = ['bookings'] as const;
+/** Public signing and withdrawal screens: never mixed with a signed-in person's data. */
+export const tabletKey = ['tablet'] as const;
+export const signingLinkKey = ['signing-link'] as const;
+export const withdrawalLinkKey = ['withdrawal-link'] as const;

@@ -1,20 +1,35 @@
 import type { Action } from '#shared/policy.ts';
 import type { Session } from '#shared/schemas/session.ts';
-import { seatCan } from '../../features/session/seat.ts';
+import { VERIFY_ACTIONS, seatCanAny } from '../../features/session/seat.ts';
 import { paths } from '../../lib/paths.ts';
 
 export interface NavItem {
   label: string;
   to: string;
-  /** The policy action the acting seat needs to see this item; null for everyone. */
-  action: Action | null;
+  /** The policy action(s) the acting seat needs to see this item (any one of them); null for everyone. */
+  action: Action | readonly Action[] | null;
   /** Match the path exactly (for "/", which every path starts with). */
   end?: boolean;
 }
 
+interface NavEntry extends Omit<NavItem, 'to'> {
+  /** A fixed path, or one that depends on who is signed in (null: leave the item out). */
+  to: string | ((session: Session) => string | null);
+}
+
 /** The main navigation. A new screen is one line here, keyed by the action that unlocks it. */
-export const NAV_ITEMS: readonly NavItem[] = [
+export const NAV_ITEMS: readonly NavEntry[] = [
   { label: 'Home', to: paths.home.href(), action: null, end: true },
+  { label: 'Performers', to: paths.performers.href(), action: 'performers.view' },
+  // A performer acts on their own record only: "My record" takes the place of the registry.
+  {
+    label: 'My record',
+    to: (session) => (session.performerIds[0] ? paths.performer.href(session.performerIds[0]) : null),
+    action: 'performer.self',
+  },
+  { label: 'Sessions', to: paths.bookings.href(), action: 'performers.view' },
+  { label: 'Consent forms', to: paths.consentForms.href(), action: 'templates.manage' },
+  { label: 'Check a PDF', to: paths.verify.href(), action: VERIFY_ACTIONS },
   { label: 'Users', to: paths.users.href(), action: 'users.manage' },
   { label: 'Productions', to: paths.productions.href(), action: 'productions.manage' },
   { label: 'Outbox', to: paths.outbox.href(), action: 'outbox.read' },
@@ -22,5 +37,11 @@ export const NAV_ITEMS: readonly NavItem[] = [
 ];
 
 export function navItemsFor(session: Session): NavItem[] {
-  return NAV_ITEMS.filter((item) => item.action === null || seatCan(session, item.action));
+  const items: NavItem[] = [];
+  for (const entry of NAV_ITEMS) {
+    if (entry.action !== null && !seatCanAny(session, entry.action)) continue;
+    const to = typeof entry.to === 'function' ? entry.to(session) : entry.to;
+    if (to) items.push({ ...entry, to });
+  }
+  return items;
 }

@@ -1,16 +1,17 @@
 import { Outlet } from 'react-router-dom';
 import { ROLE_LABELS, type Action } from '#shared/policy.ts';
-import { seatCan } from '../../features/session/seat.ts';
+import { seatCanAny } from '../../features/session/seat.ts';
 import { useSession } from '../../features/session/session-context.tsx';
 import { PageHeading } from '../ui/page-heading.tsx';
 
 /**
- * Shows a page only to a seat whose role allows it. Someone holding several seats who switches
- * away from the right one sees why the page is closed, rather than a bare refusal from the API.
+ * Shows a page only to a seat whose role allows it (any one of the actions, when several open it).
+ * Someone holding several seats who switches away from the right one sees why the page is closed,
+ * rather than a bare refusal from the API.
  */
-export function RequireAction({ action }: { action: Action }) {
+export function RequireAction({ action }: { action: Action | readonly Action[] }) {
   const session = useSession();
-  if (seatCan(session, action)) return <Outlet />;
+  if (seatCanAny(session, action)) return <Outlet />;
   const role = session.current ? ROLE_LABELS[session.current.role] : 'this role';
   const adminSeat = session.seats.some((s) => s.role === 'admin');
   return (

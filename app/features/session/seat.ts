@@ -31,3 +31,18 @@ export function seatCan(session: Session | undefined, action: Action): boolean {
   if (!session?.current) return false;
   return canSomewhere(seatActor(session), action);
 }
+
+/** May the acting seat do at least one of these? (A page several roles open, each for its own reason.) */
+export function seatCanAny(session: Session | undefined, actions: Action | readonly Action[]): boolean {
+  const list: readonly Action[] = typeof actions === 'string' ? [actions] : actions;
+  return list.some((action) => seatCan(session, action));
+}
+
+/** A performer's page and their consents: staff who may view performers, and the performer themself. */
+export const PERFORMER_PAGE_ACTIONS: readonly Action[] = ['performers.view', 'performer.self'];
+
+/**
+ * "Check a PDF": staff who see performers, and the studio administrator. Every administrator-only
+ * action stands for the administrator flag in the policy; users.manage is the one asked here.
+ */
+export const VERIFY_ACTIONS: readonly Action[] = ['performers.view', 'users.manage'];

@@ -11,7 +11,7 @@ import { SelectField } from '../../../components/ui/select-field.tsx';
 import { ApiError, errorMessage } from '../../../lib/api-client.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { PICKER_QUERY, useAddMembership, userPickerQueryOptions } from '../api.ts';
-import { FormError } from './form-error.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 
 // Empty choices get plain words first; a real choice is then checked by the API's own schema.
 const AddMemberFormSchema = z

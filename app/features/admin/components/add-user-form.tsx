@@ -8,7 +8,7 @@ import { TextField } from '../../../components/ui/text-field.tsx';
 import { ApiError, errorMessage } from '../../../lib/api-client.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { useCreateUser } from '../api.ts';
-import { FormError } from './form-error.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 
 export function AddUserForm() {
   const create = useCreateUser();

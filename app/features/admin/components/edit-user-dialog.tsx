@@ -11,8 +11,8 @@ import { TextField } from '../../../components/ui/text-field.tsx';
 import { ApiError, errorMessage, isApiError } from '../../../lib/api-client.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { useUpdateUser, userQueryOptions } from '../api.ts';
-import { ConflictNotice } from './conflict-notice.tsx';
-import { FormError } from './form-error.tsx';
+import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 
 export function EditUserDialog({ user, onClose }: { user: User | null; onClose: () => void }) {
   return (

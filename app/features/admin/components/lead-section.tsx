@@ -15,8 +15,8 @@ import { ApiError, errorMessage, isApiError } from '../../../lib/api-client.ts';
 import { formatDateTime } from '../../../lib/format.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { productionQueryOptions, useAppointLead, useEndLead } from '../api.ts';
-import { ConflictNotice } from './conflict-notice.tsx';
-import { FormError } from './form-error.tsx';
+import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 
 const AppointFormSchema = z.object({ userId: z.string().min(1, 'Choose a team member') });
 

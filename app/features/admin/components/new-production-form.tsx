@@ -9,7 +9,7 @@ import { ApiError, errorMessage } from '../../../lib/api-client.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { paths } from '../../../lib/paths.ts';
 import { useCreateProduction } from '../api.ts';
-import { FormError } from './form-error.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 import { PRODUCTION_FIELD_NAMES, ProductionFields, type ProductionFormValues } from './production-fields.tsx';
 
 export function NewProductionForm() {

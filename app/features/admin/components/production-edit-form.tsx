@@ -9,8 +9,8 @@ import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { ApiError, errorMessage, isApiError } from '../../../lib/api-client.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { productionQueryOptions, useUpdateProduction } from '../api.ts';
-import { ConflictNotice } from './conflict-notice.tsx';
-import { FormError } from './form-error.tsx';
+import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 import { PRODUCTION_FIELD_NAMES, ProductionFields, type ProductionFormValues } from './production-fields.tsx';
 
 function valuesOf(p: ProductionDetail): ProductionFormValues {

@@ -7,11 +7,21 @@ import { paths } from '../../../lib/paths.ts';
 import { sessionQueryOptions } from '../api.ts';
 import { SessionContext } from '../session-context.tsx';
 
-/** Everything below needs a signed-in person; a 401 goes to sign-in and comes back here afterwards. */
+/** The 401 of a browser lent to a performer for signing names its phase ('signing' | 'handback'). */
+function lentTablet(err: unknown): boolean {
+  return isApiError(err, 401) && (err.details.tablet === 'signing' || err.details.tablet === 'handback');
+}
+
+/**
+ * Everything below needs a signed-in person; a 401 goes to sign-in and comes back here afterwards.
+ * A browser lent as the signing tablet goes back to the tablet's screen instead: whatever address
+ * is typed or reached with Back, nothing of the staff's pages shows until staff sign in again.
+ */
 export function RequireSession() {
   const location = useLocation();
   const session = useQuery(sessionQueryOptions());
 
+  if (lentTablet(session.error)) return <Navigate to={paths.tablet.href()} replace />;
   if (isApiError(session.error, 401)) {
     return <Navigate to={paths.signIn.href(location.pathname + location.search)} replace />;
   }

@@ -1,5 +1,5 @@
-import { Button } from '../../../components/ui/button.tsx';
-import { errorMessage } from '../../../lib/api-client.ts';
+import { Button } from './button.tsx';
+import { errorMessage } from '../../lib/api-client.ts';
 
 /** A 409 on a versioned record: someone saved first. Reloading shows their change before trying again. */
 export function ConflictNotice({ error, onReload, reloading = false }: { error: unknown; onReload: () => void; reloading?: boolean }) {

@@ -1,4 +1,4 @@
-import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
+import { ErrorBanner } from './error-banner.tsx';
 
 /** Messages from the server that belong to no single field. */
 export function FormError({ messages }: { messages: string[] | null }) {

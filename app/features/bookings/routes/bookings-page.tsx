@@ -1,0 +1,63 @@
+import { useQuery } from '@tanstack/react-query';
+import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { PageHeading } from '../../../components/ui/page-heading.tsx';
+import { QueryView } from '../../../components/ui/query-view.tsx';
+import { Section } from '../../../components/ui/section.tsx';
+import { plural } from '../../../lib/format.ts';
+import { prefetchFor } from '../../../lib/prefetch.ts';
+import { queryClient } from '../../../lib/query-client.ts';
+import { seatProduction } from '../../performers/seat-production.ts';
+import { sessionQueryOptions } from '../../session/api.ts';
+import { seatCan } from '../../session/seat.ts';
+import { useSession } from '../../session/session-context.tsx';
+import { bookingsQueryOptions } from '../api.ts';
+import { BookingsTable } from '../components/bookings-table.tsx';
+
+export async function bookingsLoader() {
+  const session = await queryClient.ensureQueryData(sessionQueryOptions()).catch(() => undefined);
+  const productionId = session?.current?.productionId;
+  if (productionId) await prefetchFor('performers.view', bookingsQueryOptions(productionId));
+  return null;
+}
+
+/** The acting production's sessions from now on, with the ones whose consent will not be in force flagged. */
+export function BookingsPage() {
+  const session = useSession();
+  const production = seatProduction(session);
+  return (
+    <>
+      <PageHeading
+        title="Sessions"
+        lead={production ? `Patch tests, life casts and applications booked on ${production.name}. Book a session from the performer’s page.` : undefined}
+      >
+        Sessions
+      </PageHeading>
+      {production ? <Bookings productionId={production.id} canCancel={seatCan(session, 'patchtests.book')} /> : <p className="text-ink-700">Switch “Acting as” to a production.</p>}
+    </>
+  );
+}
+
+function Bookings({ productionId, canCancel }: { productionId: string; canCancel: boolean }) {
+  const bookings = useQuery(bookingsQueryOptions(productionId));
+  return (
+    <QueryView query={bookings} loadingLabel="Loading sessions…">
+      {(data) => {
+        const missing = data.items.filter((b) => b.status === 'booked' && b.consentMissing).length;
+        return (
+          <Section title="Upcoming" testId="bookings-section">
+            {data.items.length === 0 ? (
+              <EmptyState title="No sessions booked from now on." />
+            ) : (
+              <>
+                <p className={missing ? 'font-semibold text-brick-700' : 'text-ink-700'}>
+                  {missing === 1 ? 'One session is missing the consent it needs.' : missing ? `${plural(missing, 'session', 'sessions')} are missing the consent they need.` : 'Every booked session has the consent it needs.'}
+                </p>
+                <BookingsTable bookings={data.items} caption="Upcoming sessions" showPerformer canCancel={canCancel} />
+              </>
+            )}
+          </Section>
+        );
+      }}
+    </QueryView>
+  );
+}

@@ -1,0 +1,152 @@
+import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { OkSchema } from '#shared/schemas/common.ts';
+import {
+  ConsentDetailSchema,
+  SigningFormSchema,
+  SigningRequestListSchema,
+  SigningRequestSchema,
+  SubmitSignatureResultSchema,
+  VerifyResultSchema,
+  WithdrawalLinkViewSchema,
+  type CreateSigningRequestInput,
+  type SubmitSignatureInput,
+} from '#shared/schemas/consents.ts';
+import { api, withQuery } from '../../lib/api-client.ts';
+import { consentsKey, homeKey, performersKey, signingLinkKey, signingRequestsKey, tabletKey, withdrawalLinkKey } from '../../lib/query-keys.ts';
+
+// ---- one consent
+
+export function consentQueryOptions(id: string) {
+  return queryOptions({
+    queryKey: [...consentsKey, 'detail', id] as const,
+    queryFn: ({ signal }) => api.get(`/api/consents/${encodeURIComponent(id)}`, ConsentDetailSchema, signal),
+  });
+}
+
+/** What POST /api/consents/:id/withdraw answers. */
+const WithdrawResultSchema = ConsentDetailSchema.pick({ id: true, state: true, withdrawnAt: true, version: true });
+
+export function useWithdrawConsent(id: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { reason?: string; version: number }) =>
+      api.post(`/api/consents/${encodeURIComponent(id)}/withdraw`, input, WithdrawResultSchema),
+    onSuccess: () => invalidate(queryClient, [consentsKey, performersKey, homeKey]),
+  });
+}
+
+// ---- asking a performer to sign
+
+export function signingRequestsQueryOptions(productionId: string, performerId: string) {
+  return queryOptions({
+    queryKey: [...signingRequestsKey, productionId, performerId, 'open'] as const,
+    queryFn: ({ signal }) =>
+      api.get(withQuery('/api/signing-requests', { productionId, performerId, status: 'open' }), SigningRequestListSchema, signal),
+  });
+}
+
+export function useCreateSigningRequest() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CreateSigningRequestInput) => api.post('/api/signing-requests', input, SigningRequestSchema),
+    onSuccess: () => invalidate(queryClient, [signingRequestsKey, homeKey]),
+  });
+}
+
+export function useCancelSigningRequest() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api.post(`/api/signing-requests/${encodeURIComponent(id)}/cancel`, {}, SigningRequestSchema),
+    onSuccess: () => invalidate(queryClient, [signingRequestsKey, homeKey]),
+  });
+}
+
+/** Lends this browser to the performer: from now on the session answers only the tablet's routes. */
+export function handOver(requestId: string) {
+  return api.post(`/api/signing-requests/${encodeURIComponent(requestId)}/hand-over`, {}, OkSchema);
+}
+
+// ---- the lent tablet (public)
+
+/** GET /api/tablet (the schema is written inline in the server route). */
+export const TabletStateSchema = z.object({
+  phase: z.enum(['signing', 'handback', 'none']),
+  form: SigningFormSchema.nullable(),
+  idempotencyKey: z.uuid().nullable(),
+});
+export type TabletState = z.infer<typeof TabletStateSchema>;
+
+export const HANDBACK: TabletState = { phase: 'handback', form: null, idempotencyKey: null };
+
+export function tabletQueryOptions() {
+  return queryOptions({
+    queryKey: tabletKey,
+    queryFn: ({ signal }) => api.get('/api/tablet', TabletStateSchema, signal),
+    // The server alone decides what the tablet shows; always ask it afresh.
+    staleTime: 0,
+    gcTime: 0,
+  });
+}
+
+export function submitOnTablet(input: SubmitSignatureInput) {
+  return api.post('/api/tablet/submit', input, SubmitSignatureResultSchema);
+}
+
+export function declineOnTablet() {
+  return api.post('/api/tablet/decline', {}, OkSchema);
+}
+
+// ---- one-time signing link (public)
+
+export function signingLinkQueryOptions(token: string) {
+  return queryOptions({
+    queryKey: [...signingLinkKey, token] as const,
+    queryFn: ({ signal }) => api.get(`/api/signing/${encodeURIComponent(token)}`, SigningFormSchema, signal),
+    staleTime: Infinity,
+    refetchOnWindowFocus: false,
+    gcTime: 0,
+  });
+}
+
+export function submitByLink(token: string, input: SubmitSignatureInput) {
+  return api.post(`/api/signing/${encodeURIComponent(token)}`, input, SubmitSignatureResultSchema);
+}
+
+// ---- withdrawing without a sign-in (public)
+
+const WithdrawalLinkRequestedSchema = z.object({ ok: z.literal(true), message: z.string() });
+
+export function useRequestWithdrawalLink() {
+  return useMutation({
+    mutationFn: (email: string) => api.post('/api/withdrawal-links', { email }, WithdrawalLinkRequestedSchema),
+  });
+}
+
+export function withdrawalLinkQueryOptions(token: string) {
+  return queryOptions({
+    queryKey: [...withdrawalLinkKey, token] as const,
+    queryFn: ({ signal }) => api.get(`/api/withdrawal-links/${encodeURIComponent(token)}`, WithdrawalLinkViewSchema, signal),
+    gcTime: 0,
+  });
+}
+
+export function useWithdrawByLink(token: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { consentId: string; reason?: string }) =>
+      api.post(`/api/withdrawal-links/${encodeURIComponent(token)}/withdraw`, input, OkSchema),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: [...withdrawalLinkKey, token] }),
+  });
+}
+
+// ---- checking a PDF
+
+/** The upload that checks a PDF (multipart field "file"), for useUpload().start. */
+export function verifyUpload(file: File) {
+  return { url: '/api/consents/verify', field: 'file', file, schema: VerifyResultSchema };
+}
+
+function invalidate(queryClient: QueryClient, keys: readonly (readonly unknown[])[]) {
+  return Promise.all(keys.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
+}
