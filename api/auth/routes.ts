@@ -4,7 +4,7 @@ import { LogoutResultSchema } from '#shared/schemas/session.ts';
 import { writeAudit } from '../http/audit.ts';
 import { defineRoute } from '../http/route.ts';
 import { client } from './oidc-client.ts';
-import { upsertUserFromClaims } from './users.ts';
+import { linkPerformerByEmail, upsertUserFromClaims } from './users.ts';
 
 const LoginQuerySchema = z.object({
   returnTo: z
@@ -113,6 +113,7 @@ export const authRoutes = [
         emailVerified: claims.email_verified === true,
         name: typeof claims.name === 'string' ? claims.name : null,
       });
+      if (claims.email_verified === true && typeof claims.email === 'string') await linkPerformerByEmail(ctx.db, user.id, claims.email);
       const returnTo = pending.returnTo;
       // A new session id at sign-in, so an id planted before sign-in is worthless after it.
       await regenerate(req);

@@ -63,3 +63,37 @@ export async function upsertUserFromClaims(db: Db, claims: IdClaims): Promise<{ 
     return { id: row.id, created: true };
   });
 }
+
+/**
+ * A performer record carrying the same verified e-mail, not yet linked to anyone, is linked to
+ * this sign-in, with the performer role on each production they are engaged on. So a performer
+ * the department registered can sign in and see their own record without anyone picking accounts.
+ */
+export async function linkPerformerByEmail(db: Db, userId: string, email: string): Promise<string | null> {
+  return db.transaction().execute(async (trx) => {
+    const already = await trx.selectFrom('performers').select('id').where('user_id', '=', userId).executeTakeFirst();
+    if (already) return null;
+    const performer = await trx
+      .selectFrom('performers')
+      .select('id')
+      .where(sql`lower(email)`, '=', email.toLowerCase())
+      .where('user_id', 'is', null)
+      .forUpdate()
+      .executeTakeFirst();
+    if (!performer) return null;
+    await trx.updateTable('performers').set({ user_id: userId }).where('id', '=', performer.id).execute();
+    const engagements = await trx.selectFrom('engagements').select('production_id').where('performer_id', '=', performer.id).execute();
+    if (engagements.length) {
+      await trx
+        .insertInto('memberships')
+        .values(engagements.map((e) => ({ user_id: userId, production_id: e.production_id, role: 'performer' as const, created_by: null })))
+        .onConflict((oc) => oc.columns(['user_id', 'production_id', 'role']).doNothing())
+        .execute();
+    }
+    await trx
+      .insertInto('audit_log')
+      .values({ actor_user_id: userId, action: 'performer.link_on_sign_in', entity_type: 'performer', entity_id: performer.id, details: JSON.stringify({ productions: engagements.length }) })
+      .execute();
+    return performer.id;
+  });
+}

@@ -64,7 +64,6 @@ export const paths = {
 export const serverPaths = {
   /** Starts sign-in at the identity provider; the server brings the person back to returnTo. */
   login: (returnTo = '/') => `/api/auth/login?${new URLSearchParams({ returnTo: safeReturnTo(returnTo) }).toString()}`,
-  outboxMessage: (id: string) => `/api/outbox/${encodeURIComponent(id)}`,
   /**
    * Leaving the tablet's hand-back screen: the identity provider must ask for the password again
    * (the server forces it while the session is lent), then staff land on the performer list.

@@ -81,6 +81,19 @@ describe('sign-in through the identity provider (authorization code + PKCE)', ()
     expect((await request(t.app).get('/api/users').set('Cookie', sessionCookie(cb))).status).toBe(403);
   });
 
+  it('links a performer the department registered with the same verified e-mail, with the performer role', async () => {
+    const performer = await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Halvard Imre Solberg').executeTakeFirstOrThrow();
+    await t.db.db.updateTable('performers').set({ email: 'artist2@plinth.test' }).where('id', '=', performer.id).execute();
+    const { authUrl, cookie } = await startLogin();
+    const { callbackUrl } = await signInAtIdp(authUrl, idp.issuer, 'artist2@plinth.test', DEMO_PASSWORD);
+    const cb = await request(t.app).get(callbackUrl.slice(ORIGIN.length)).set('Cookie', cookie);
+    const me = SessionSchema.parse((await request(t.app).get('/api/session').set('Cookie', sessionCookie(cb))).body);
+    expect(me.performerIds).toEqual([performer.id]);
+    expect(me.seats.some((s) => s.role === 'performer' && s.productionName === 'The Lantern Keeper')).toBe(true);
+    const own = await request(t.app).get(`/api/performers/${performer.id}`).set('Cookie', sessionCookie(cb));
+    expect(own.status).toBe(200);
+  });
+
   it('refuses a callback whose state does not match: 401, no user, no signed-in session', async () => {
     const users = await t.db.db.selectFrom('users').select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow();
     const { authUrl, cookie } = await startLogin();

@@ -221,9 +221,12 @@ describe('signing through a one-time link', () => {
     const expired = await request(t.app).get(`/api/signing/${token}`);
     expect(expired.status).toBe(409);
     expect(expired.body.error.message).toMatch(/expired/);
+    expect(expired.body.error.details.reason).toBe('expired');
     const second = await linkRequest('Beatrix Nwachukwu', 'life_casting');
     expect((await request(t.app).post(`/api/signing-requests/${second.requestId}/cancel`).set('Cookie', head)).status).toBe(200);
-    expect((await request(t.app).get(`/api/signing/${second.token}`)).status).toBe(404);
+    const cancelled = await request(t.app).get(`/api/signing/${second.token}`);
+    expect(cancelled.status).toBe(404);
+    expect(cancelled.body.error.details.reason).toBe('cancelled');
     expect((await request(t.app).get(`/api/signing/${'x'.repeat(43)}`)).status).toBe(404);
     expect((await request(t.app).get('/api/signing/short')).status).toBe(400);
   });

@@ -130,8 +130,11 @@ describe('the shell', () => {
       await page.getByTestId('team-table').getByText('Juno Castellane').waitFor();
       await expectAccessible(page, 'production detail');
       await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Outbox' }).click();
-      await page.getByText('Plinth: you are now Performer on Saltglass Mile').waitFor();
+      await page.getByText('Plinth: you are now Performer on Saltglass Mile').first().waitFor();
       await expectAccessible(page, 'outbox');
+      await page.getByRole('button', { name: 'Read “Plinth: you are now Performer on Saltglass Mile”' }).first().click();
+      await page.getByTestId('outbox-message').getByText('You now have the role "Performer" on Saltglass Mile').waitFor();
+      await expectAccessible(page, 'outbox message');
       const files = (await readdir(inject('mailDir'))).filter((f) => f.endsWith('.eml'));
       expect(files.length).toBeGreaterThanOrEqual(1);
     } finally {

@@ -8,7 +8,7 @@ import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
 import { discardFiles, sha256Hex, storeFile, type StoredFile } from '../../files/store.ts';
 import { writeAudit } from '../../http/audit.ts';
-import { conflict, invalid, notFound } from '../../http/errors.ts';
+import { conflict, invalid } from '../../http/errors.ts';
 import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
 import { findTemplateVersion, type TemplateVersionRow } from './repo.ts';
@@ -180,9 +180,9 @@ export async function submitSignature(
     if (earlier.request_id !== request.id) throw conflict('This submission key was already used for another form.');
     return { consentId: earlier.id, signedAt: new Date(earlier.signed_at).toISOString(), emailedTo: null, duplicate: true };
   }
-  if (request.status === 'signed') throw conflict('This form has already been signed.');
-  if (request.status === 'cancelled') throw notFound('This signing request was cancelled; it');
-  if (request.expiresAt.getTime() <= Date.now()) throw conflict('This signing request has expired. Ask the department for a new one.');
+  if (request.status === 'signed') throw conflict('This form has already been signed.', { reason: 'signed' });
+  if (request.status === 'cancelled') throw conflict('This signing request was withdrawn by the department.', { reason: 'cancelled' });
+  if (request.expiresAt.getTime() <= Date.now()) throw conflict('This signing request has expired. Ask the department for a new one.', { reason: 'expired' });
 
   const template = await findTemplateVersion(ctx.db, input.templateVersionId);
   // The performer signs the version they were shown, even if the template was edited meanwhile.

@@ -89,9 +89,10 @@ async function signingForm(ctx: AppContext, r: RequestRow) {
 
 async function requestByToken(ctx: AppContext, token: string): Promise<RequestRow> {
   const r = await requestQuery(ctx.db).where('r.token_hash', '=', hashToken(token)).where('r.mode', '=', 'link').executeTakeFirst();
-  if (!r || r.status === 'cancelled') throw notFound('This signing link');
-  if (r.status === 'signed') throw conflict('This form has already been signed through this link. Each link works once.');
-  if (new Date(r.expires_at).getTime() <= Date.now()) throw conflict('This signing link has expired. Ask the department to send a new one.');
+  if (!r) throw notFound('This signing link');
+  if (r.status === 'cancelled') throw new ApiError('not_found', 'This signing link was withdrawn by the department.', { reason: 'cancelled' });
+  if (r.status === 'signed') throw conflict('This form has already been signed through this link. Each link works once.', { reason: 'signed' });
+  if (new Date(r.expires_at).getTime() <= Date.now()) throw conflict('This signing link has expired. Ask the department to send a new one.', { reason: 'expired' });
   return r;
 }
 

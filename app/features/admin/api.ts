@@ -1,6 +1,7 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import {
   AuditPageSchema,
+  OutboxMessageDetailSchema,
   OutboxPageSchema,
   ProductionDetailSchema,
   ProductionPageSchema,
@@ -155,6 +156,13 @@ export function outboxQueryOptions(query: OutboxQuery) {
     queryKey: [...outboxKey, query] as const,
     queryFn: ({ signal }) => api.get(withQuery('/api/outbox', query), OutboxPageSchema, signal),
     placeholderData: keepPreviousData,
+  });
+}
+
+export function outboxMessageQueryOptions(id: string) {
+  return queryOptions({
+    queryKey: [...outboxKey, 'message', id] as const,
+    queryFn: ({ signal }) => api.get(`/api/outbox/${encodeURIComponent(id)}`, OutboxMessageDetailSchema, signal),
   });
 }
 

@@ -1,7 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
 import type { LoaderFunctionArgs } from 'react-router-dom';
 import { OutboxQuerySchema } from '#shared/schemas/admin.ts';
-import { buttonClasses } from '../../../components/ui/button.tsx';
+import { Button } from '../../../components/ui/button.tsx';
+import { Dialog } from '../../../components/ui/dialog.tsx';
 import { EmptyState } from '../../../components/ui/empty-state.tsx';
 import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { Pager } from '../../../components/ui/pager.tsx';
@@ -9,9 +11,33 @@ import { QueryView } from '../../../components/ui/query-view.tsx';
 import { Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';
 import { formatBytes, formatDateTime } from '../../../lib/format.ts';
 import { parseListParams, useListParams } from '../../../lib/list-params.ts';
-import { serverPaths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
-import { outboxQueryOptions } from '../api.ts';
+import { outboxMessageQueryOptions, outboxQueryOptions } from '../api.ts';
+
+/** The text of one caught message; attachments are listed by name only (a consent copy carries health answers). */
+function MessageDialog({ id, subject, onClose }: { id: string; subject: string; onClose: () => void }) {
+  const message = useQuery(outboxMessageQueryOptions(id));
+  return (
+    <Dialog open onClose={onClose} title={subject} testId="outbox-message">
+      <QueryView query={message} loadingLabel="Loading the message…">
+        {(m) => (
+          <div className="flex flex-col gap-3">
+            <p className="text-sm text-ink-700">
+              To {m.to.join(', ')}
+              {m.date ? ` · ${formatDateTime(m.date)}` : ''}
+            </p>
+            <pre className="max-h-[50vh] overflow-auto rounded-lg bg-sand-100 p-3 font-sans text-sm whitespace-pre-wrap text-ink-900">{m.text}</pre>
+            {m.attachments.length > 0 ? (
+              <p className="text-sm text-ink-700">
+                Attachments are not shown here: a signed consent carries health answers that only the performer and the designated lead may read.
+              </p>
+            ) : null}
+          </div>
+        )}
+      </QueryView>
+    </Dialog>
+  );
+}
 
 export async function outboxLoader({ request }: LoaderFunctionArgs) {
   const query = parseListParams(OutboxQuerySchema, new URL(request.url).searchParams);
@@ -22,6 +48,7 @@ export async function outboxLoader({ request }: LoaderFunctionArgs) {
 export function OutboxPage() {
   const [query, setQuery] = useListParams(OutboxQuerySchema);
   const outbox = useQuery(outboxQueryOptions(query));
+  const [reading, setReading] = useState<{ id: string; subject: string } | null>(null);
 
   return (
     <>
@@ -83,10 +110,9 @@ export function OutboxPage() {
                         )}
                       </Td>
                       <Td className="text-right">
-                        {/* A plain link: the server answers with the .eml file as a download. */}
-                        <a href={serverPaths.outboxMessage(m.id)} download className={buttonClasses('secondary')} aria-label={`Download “${m.subject}” as .eml`}>
-                          Download
-                        </a>
+                        <Button variant="secondary" onClick={() => setReading({ id: m.id, subject: m.subject })} aria-label={`Read “${m.subject}”`}>
+                          Read
+                        </Button>
                       </Td>
                     </Tr>
                   ))}
@@ -97,6 +123,7 @@ export function OutboxPage() {
           )
         }
       </QueryView>
+      {reading ? <MessageDialog id={reading.id} subject={reading.subject} onClose={() => setReading(null)} /> : null}
     </>
   );
 }

@@ -3,7 +3,7 @@ import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { Loading } from '../../../components/ui/loading.tsx';
-import { isApiError } from '../../../lib/api-client.ts';
+import { ApiError, isApiError } from '../../../lib/api-client.ts';
 import { paths } from '../../../lib/paths.ts';
 import { forgetSigningKey, signingKeyFor } from '../../../lib/uuid.ts';
 import { signingLinkQueryOptions, submitByLink } from '../api.ts';
@@ -85,6 +85,12 @@ export function SignLinkPage() {
 
 /** What went wrong with the link, in words, and what the performer can do about it. */
 function linkProblem(err: unknown): { heading: string; advice: string } {
+  const reason = err instanceof ApiError ? err.details.reason : undefined;
+  if (reason === 'cancelled') return { heading: 'This link was withdrawn', advice: 'The department cancelled this request. Ask the make-up department if you should sign a new one.' };
+  if (reason === 'expired') return { heading: 'This link has expired', advice: 'Ask the make-up department to send you a new link.' };
+  if (reason === 'signed') {
+    return { heading: 'This form is already signed', advice: 'Each link works once. If you did not sign it, or want to change your answers, contact the make-up department.' };
+  }
   if (isApiError(err, 404) || isApiError(err, 400)) {
     return {
       heading: 'This link does not work',
@@ -92,11 +98,6 @@ function linkProblem(err: unknown): { heading: string; advice: string } {
     };
   }
   if (isApiError(err, 409)) {
-    // The server's 409 says which in its message (it carries no code for it).
-    if (/expired/i.test(err.message)) return { heading: 'This link has expired', advice: 'Ask the make-up department to send you a new link.' };
-    if (/signed/i.test(err.message)) {
-      return { heading: 'This form is already signed', advice: 'Each link works once. If you did not sign it, or want to change your answers, contact the make-up department.' };
-    }
     return { heading: 'This link no longer works', advice: 'Ask the make-up department to send you a new link.' };
   }
   if (isApiError(err, 429)) return { heading: 'Please wait a moment', advice: 'Too many attempts were made from here. Try again in a minute.' };
