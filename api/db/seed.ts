@@ -23,12 +23,12 @@ export const DEMO_USERS = [
 ] as const;
 
 const DEMO_PERFORMERS = [
-  { legal: 'Juno Castellane', preferred: null, email: 'performer@plinth.test', character: 'The Keeper', user: 'performer' },
-  { legal: 'Oswin Parfitt-Reyes', preferred: 'Oz Parfitt', email: 'oz.parfitt@example.test', character: 'The Drowned Sailor', user: null },
-  { legal: 'Halvard Imre Solberg', preferred: null, email: 'h.solberg@example.test', character: 'Harbourmaster Quill', user: null },
-  { legal: 'Beatrix Nwachukwu', preferred: 'Bea Nwachukwu', email: 'bea.n@example.test', character: 'The Gull Widow', user: null },
-  { legal: 'Tamsin Achebe-Lowry', preferred: null, email: 'tamsin.al@example.test', character: 'Young Keeper', user: null },
-  { legal: 'Corentin Malik Ashdown', preferred: 'Cory Ashdown', email: 'cory.ashdown@example.test', character: 'The Lamp Ghost', user: null },
+  { legal: 'Juno Castellane', preferred: null, pronouns: 'she/her', email: 'performer@plinth.test', character: 'The Keeper', user: 'performer' },
+  { legal: 'Oswin Parfitt-Reyes', preferred: 'Oz Parfitt', pronouns: 'he/him', email: 'oz.parfitt@example.test', character: 'The Drowned Sailor', user: null },
+  { legal: 'Halvard Imre Solberg', preferred: null, pronouns: 'he/him', email: 'h.solberg@example.test', character: 'Harbourmaster Quill', user: null },
+  { legal: 'Beatrix Nwachukwu', preferred: 'Bea Nwachukwu', pronouns: 'she/her', email: 'bea.n@example.test', character: 'The Gull Widow', user: null },
+  { legal: 'Tamsin Achebe-Lowry', preferred: null, pronouns: 'they/them', email: 'tamsin.al@example.test', character: 'Young Keeper', user: null },
+  { legal: 'Corentin Malik Ashdown', preferred: 'Cory Ashdown', pronouns: null, email: 'cory.ashdown@example.test', character: 'The Lamp Ghost', user: null },
 ] as const;
 
 /** Loads the demo scenario into an empty database; returns false (and touches nothing) otherwise. */
@@ -85,7 +85,7 @@ export async function seedDemo(db: Db, opts: { storageDir?: string } = {}): Prom
     for (const p of DEMO_PERFORMERS) {
       const row = await trx
         .insertInto('performers')
-        .values({ legal_name: p.legal, preferred_name: p.preferred, email: p.email, user_id: p.user ? id(p.user) : null })
+        .values({ legal_name: p.legal, preferred_name: p.preferred, pronouns: p.pronouns, email: p.email, user_id: p.user ? id(p.user) : null, emergency_contact_name: 'Production office', emergency_contact_phone: '+44 20 7946 0000' })
         .returning('id')
         .executeTakeFirstOrThrow();
       await trx

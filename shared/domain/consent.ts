@@ -11,6 +11,15 @@ export const CONSENT_KIND_LABELS: Record<ConsentKind, string> = {
   health_data: 'Health data',
 };
 
+/** Short forms for dense tables; the full label is given to screen readers alongside. */
+export const CONSENT_KIND_SHORT_LABELS: Record<ConsentKind, string> = {
+  life_casting: 'Casting',
+  patch_testing: 'Patch test',
+  application: 'Application',
+  cast_storage: 'Storage',
+  health_data: 'Health data',
+};
+
 export type ConsentState = 'active' | 'expired' | 'withdrawn';
 
 export const CONSENT_STATE_LABELS: Record<ConsentState, string> = {

@@ -533,7 +533,7 @@ describe('portraits', () => {
     ] as const) {
       const res = await put('head', oz, bytes, name);
       expect(res.status).toBe(400);
-      expect(res.body.error.details.fields.portrait).toEqual(['This is not a photo Plinth can read (JPEG, PNG, WebP or HEIC)']);
+      expect(res.body.error.details.fields.portrait).toEqual(['This is not a photo Plinth can read (JPEG, PNG, WebP or AVIF)']);
     }
     expect(await count('files')).toBe(filesBefore);
     expect(await storedFiles()).toEqual([]);

@@ -4,7 +4,7 @@ import { invalid } from '../../http/errors.ts';
 export const PORTRAIT_MAX_BYTES = 10 * 1024 * 1024;
 export const PORTRAIT_MAX_SIDE = 1600;
 export const THUMBNAIL_SIDE = 256;
-export const NOT_A_PHOTO = 'This is not a photo Plinth can read (JPEG, PNG, WebP or HEIC)';
+export const NOT_A_PHOTO = 'This is not a photo Plinth can read (JPEG, PNG, WebP or AVIF)';
 export const HEVC_UNREADABLE =
   'This HEIC photo uses a compression (HEVC) this server cannot decode. Send it as JPEG, or set the camera to "Most Compatible".';
 

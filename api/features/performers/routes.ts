@@ -494,7 +494,7 @@ export const performerRoutes: AnyRoute[] = [
     method: 'put',
     path: '/api/performers/:id/portrait',
     summary:
-      'Upload a portrait (multipart field "portrait", at most 10 MB; JPEG, PNG, WebP or HEIC, read from the content). Stored upright as a JPEG without any metadata, with a 256×256 thumbnail',
+      'Upload a portrait (multipart field "portrait", at most 10 MB; JPEG, PNG, WebP or AVIF, read from the content). Stored upright as a JPEG without any metadata, with a 256×256 thumbnail',
     tag: TAG,
     auth: 'session',
     params: IdParamsSchema,

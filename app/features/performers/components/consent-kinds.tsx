@@ -1,4 +1,4 @@
-import { CONSENT_KINDS, CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
+import { CONSENT_KINDS, CONSENT_KIND_LABELS, CONSENT_KIND_SHORT_LABELS } from '#shared/domain/consent.ts';
 import type { PerformerListItem } from '#shared/schemas/performers.ts';
 import { Icon } from '../../../components/ui/icons.tsx';
 import { plural } from '../../../lib/format.ts';
@@ -27,8 +27,8 @@ export function ConsentKinds({ performer: p }: { performer: PerformerListItem })
         {CONSENT_KINDS.map((kind) => (
           <li key={kind} className={`inline-flex items-center gap-1 whitespace-nowrap ${active.has(kind) ? 'font-semibold text-sage-800' : 'text-ink-600'}`}>
             <Icon name={active.has(kind) ? 'check' : 'missing'} />
-            {CONSENT_KIND_LABELS[kind]}
-            <span className="sr-only">{active.has(kind) ? ': active' : ': none in force'}</span>
+            <span aria-hidden="true" title={CONSENT_KIND_LABELS[kind]}>{CONSENT_KIND_SHORT_LABELS[kind]}</span>
+            <span className="sr-only">{`${CONSENT_KIND_LABELS[kind]}: ${active.has(kind) ? 'active' : 'none in force'}`}</span>
           </li>
         ))}
       </ul>

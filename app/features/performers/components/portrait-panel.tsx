@@ -12,7 +12,7 @@ import { performerWritten, portraitUpload, useRemovePortrait } from '../api.ts';
 import { Thumbnail, displayName } from './names.tsx';
 
 const MAX_BYTES = 10 * 1024 * 1024;
-const ACCEPT = 'image/jpeg,image/png,image/webp,image/heic,image/heif,.heic,.heif';
+const ACCEPT = 'image/jpeg,image/png,image/webp,image/avif';
 
 /** The portrait, and (for those who manage the performer) upload, replace and remove with progress. */
 export function PortraitPanel({ performer: p }: { performer: PerformerDetail }) {
@@ -73,7 +73,7 @@ export function PortraitPanel({ performer: p }: { performer: PerformerDetail }) 
             ) : null}
           </div>
           <p id={hintId} className="max-w-56 text-sm text-ink-700">
-            JPEG, PNG, WebP or HEIC, up to {formatBytes(MAX_BYTES)}. Plinth removes location and other hidden data from the photo.
+            JPEG, PNG, WebP or AVIF, up to {formatBytes(MAX_BYTES)}. Plinth removes location and other hidden data from the photo.
           </p>
           {state.status === 'uploading' ? <ProgressBar label={`Uploading ${state.fileName}`} value={state.progress} testId="portrait-progress" /> : null}
           {problem ? (
