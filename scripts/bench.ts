@@ -16,6 +16,7 @@ import { createThrowawayCluster, ensureDatabase } from './pg.ts';
 const USERS = Number(process.env.BENCH_USERS ?? 5000);
 const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 400);
 const CONCURRENCY = Number(process.env.BENCH_CONCURRENCY ?? 8);
+const PERFORMERS = Number(process.env.BENCH_PERFORMERS ?? 3000);
 
 function percentile(sorted: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!;
@@ -49,16 +50,34 @@ try {
   await ensureDatabase(cluster, 'bench');
   const handle = createDb(cluster.url('bench'), { log: () => {} });
   await migrateToLatest(handle.db);
-  await seedDemo(handle.db);
+  const { mkdtemp } = await import('node:fs/promises');
+  const { rmSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const storage = await mkdtemp(`${tmpdir()}/plinth-bench-`);
+  const s0 = performance.now();
+  await seedDemo(handle.db, { storageDir: storage });
+  console.log(`Demo scenario (11 signed consents with PDFs) seeded in ${((performance.now() - s0) / 1000).toFixed(2)} s`);
+  process.on('exit', () => rmSync(storage, { recursive: true, force: true }));
   const t0 = performance.now();
   for (let i = 0; i < USERS; i += 1000) {
     const rows = Array.from({ length: Math.min(1000, USERS - i) }, (_, k) => ({ email: `bench${i + k}@example.test`, display_name: `Bench Person ${i + k}` }));
     await handle.db.insertInto('users').values(rows).execute();
   }
   console.log(`Loaded ${USERS} extra users in ${((performance.now() - t0) / 1000).toFixed(2)} s`);
+  const lantern = await handle.db.selectFrom('productions').select('id').where('name', '=', 'The Lantern Keeper').executeTakeFirstOrThrow();
+  const t1 = performance.now();
+  for (let i = 0; i < PERFORMERS; i += 500) {
+    const rows = await handle.db
+      .insertInto('performers')
+      .values(Array.from({ length: Math.min(500, PERFORMERS - i) }, (_, k) => ({ legal_name: `Bench Performer ${i + k} ${['Arden', 'Blythe', 'Corwen', 'Dalby'][(i + k) % 4]}` })))
+      .returning('id')
+      .execute();
+    await handle.db.insertInto('engagements').values(rows.map((r) => ({ performer_id: r.id, production_id: lantern.id }))).execute();
+  }
+  console.log(`Loaded ${PERFORMERS} extra performers on The Lantern Keeper in ${((performance.now() - t1) / 1000).toFixed(2)} s`);
 
   const secret = 'bench-session-secret-0123456789abcdef-xyz';
-  const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench') });
+  const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench'), STORAGE_DIR: storage });
   const app = createApp({
     ctx: { config, db: handle.db, mailer: { send: async () => ({ messageId: 'bench' }), close() {} }, oidc: createOidcClient(config.oidc), log: () => {} },
     pool: handle.pool,
@@ -67,11 +86,16 @@ try {
   await new Promise((r) => server.once('listening', r));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
-  const admin = await handle.db.selectFrom('users').select('id').where('email', '=', 'admin@plinth.test').executeTakeFirstOrThrow();
-  const sid = randomBytes(24).toString('base64url');
-  const expires = new Date(Date.now() + 3600_000);
-  await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie: { expires: expires.toISOString(), httpOnly: true, path: '/' }, userId: admin.id }), expire: expires }).execute();
-  const cookie = `${SESSION_COOKIE}=${encodeURIComponent(`s:${sid}.${createHmac('sha256', secret).update(sid).digest('base64').replace(/=+$/, '')}`)}`;
+  async function cookieFor(email: string): Promise<string> {
+    const user = await handle.db.selectFrom('users').select('id').where('email', '=', email).executeTakeFirstOrThrow();
+    const sid = randomBytes(24).toString('base64url');
+    const expires = new Date(Date.now() + 3600_000);
+    await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie: { expires: expires.toISOString(), httpOnly: true, path: '/' }, userId: user.id }), expire: expires }).execute();
+    return `${SESSION_COOKIE}=${encodeURIComponent(`s:${sid}.${createHmac('sha256', secret).update(sid).digest('base64').replace(/=+$/, '')}`)}`;
+  }
+  const cookie = await cookieFor('admin@plinth.test');
+  const head = await cookieFor('head@plinth.test');
+  const lead = await cookieFor('lead@plinth.test');
 
   console.log(`\n${REQUESTS} requests each, ${CONCURRENCY} at a time, on ${base}:`);
   await measure('GET /api/health', `${base}/api/health`, cookie);
@@ -80,6 +104,10 @@ try {
   await measure(`GET /api/users page 1 of ${USERS + 7}`, `${base}/api/users?pageSize=25`, cookie);
   await measure('GET /api/users search "person 42"', `${base}/api/users?q=person%2042&pageSize=25`, cookie);
   await measure('GET /api/users sorted by e-mail, page 150', `${base}/api/users?sort=email&page=150&pageSize=25`, cookie);
+  await measure(`GET /api/performers page 1 of ${PERFORMERS + 6} (head)`, `${base}/api/performers?pageSize=25`, head);
+  await measure('GET /api/performers fuzzy "castelane" (head)', `${base}/api/performers?q=castelane`, head);
+  await measure('GET /api/performers consent=incomplete (head)', `${base}/api/performers?consent=incomplete&pageSize=25`, head);
+  await measure('GET /api/consent-templates (lead)', `${base}/api/consent-templates`, lead);
 
   server.closeAllConnections();
   server.close();
