@@ -6,6 +6,7 @@ import { sql } from 'kysely';
 import { z } from 'zod';
 import { CONSENT_KIND_LABELS, consentState, withdrawalConsequences } from '#shared/domain/consent.ts';
 import { type Actor, can, canSomewhere } from '#shared/policy.ts';
+import { VERIFY_MAX_BYTES } from '#shared/limits.ts';
 import { IdParamsSchema } from '#shared/schemas/common.ts';
 import {
   ConsentDetailSchema,
@@ -84,7 +85,7 @@ async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, 
   }
 }
 
-const verifyUpload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 20 * 1024 * 1024, files: 1 } }).single('file');
+const verifyUpload = multer({ storage: multer.memoryStorage(), limits: { fileSize: VERIFY_MAX_BYTES, files: 1 } }).single('file');
 
 const linkLimiter = rateLimit({
   windowMs: 60_000,

@@ -4,8 +4,9 @@ import { z } from 'zod';
 import { CSV_COLUMNS, type CsvColumn, EngagementInputSchema, PerformerFieldsSchema } from '#shared/schemas/performers.ts';
 import type { ExportRow, PerformerFields } from './repo.ts';
 
-export const IMPORT_MAX_BYTES = 2 * 1024 * 1024;
-export const IMPORT_MAX_ROWS = 2000;
+import { IMPORT_MAX_BYTES, IMPORT_MAX_ROWS } from '#shared/limits.ts';
+
+export { IMPORT_MAX_BYTES, IMPORT_MAX_ROWS };
 
 /** Columns that hold contact details: exported only to those who may see them. */
 export const CONTACT_COLUMNS: readonly CsvColumn[] = [

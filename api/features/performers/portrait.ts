@@ -1,7 +1,7 @@
 import sharp, { type Metadata } from 'sharp';
 import { invalid } from '../../http/errors.ts';
 
-export const PORTRAIT_MAX_BYTES = 10 * 1024 * 1024;
+export { PORTRAIT_MAX_BYTES } from '#shared/limits.ts';
 export const PORTRAIT_MAX_SIDE = 1600;
 export const THUMBNAIL_SIDE = 256;
 export const NOT_A_PHOTO = 'This is not a photo Plinth can read (JPEG, PNG, WebP or AVIF)';

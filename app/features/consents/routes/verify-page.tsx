@@ -14,8 +14,9 @@ import { formatBytes, formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { useUpload } from '../../../lib/upload.ts';
 import { verifyUpload } from '../api.ts';
+import { VERIFY_MAX_BYTES } from '#shared/limits.ts';
 
-const MAX_BYTES = 20 * 1024 * 1024;
+const MAX_BYTES = VERIFY_MAX_BYTES;
 
 /** Is this PDF, byte for byte, one Plinth issued? Checked by its SHA-256 against every signed consent. */
 export function VerifyPage() {

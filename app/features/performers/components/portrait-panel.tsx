@@ -10,8 +10,9 @@ import { formatBytes } from '../../../lib/format.ts';
 import { useUpload } from '../../../lib/upload.ts';
 import { performerWritten, portraitUpload, useRemovePortrait } from '../api.ts';
 import { Thumbnail, displayName } from './names.tsx';
+import { PORTRAIT_MAX_BYTES } from '#shared/limits.ts';
 
-const MAX_BYTES = 10 * 1024 * 1024;
+const MAX_BYTES = PORTRAIT_MAX_BYTES;
 const ACCEPT = 'image/jpeg,image/png,image/webp,image/avif';
 
 /** The portrait, and (for those who manage the performer) upload, replace and remove with progress. */

@@ -18,8 +18,9 @@ import { useUpload } from '../../../lib/upload.ts';
 import { useSession } from '../../session/session-context.tsx';
 import { importReportOf, importUpload, invalidateAfterImport } from '../api.ts';
 import { seatProduction } from '../seat-production.ts';
+import { IMPORT_MAX_BYTES } from '#shared/limits.ts';
 
-const MAX_BYTES = 2 * 1024 * 1024;
+const MAX_BYTES = IMPORT_MAX_BYTES;
 
 const COLUMN_NOTES: Record<(typeof CSV_COLUMNS)[number], string> = {
   legal_name: 'Required. As on their contract.',
