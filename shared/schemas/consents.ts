@@ -78,6 +78,14 @@ export const SigningFormSchema = z.object({
 });
 export type SigningForm = z.infer<typeof SigningFormSchema>;
 
+/** What the lent tablet shows: the form while signing; nothing at all once done. */
+export const TabletStateSchema = z.object({
+  phase: z.enum(['signing', 'handback', 'none']),
+  form: SigningFormSchema.nullable(),
+  idempotencyKey: z.uuid().nullable(),
+});
+export type TabletState = z.infer<typeof TabletStateSchema>;
+
 export const SIGNATURE_MAX_BYTES = 400_000;
 
 export const SubmitSignatureInputSchema = z.object({
@@ -151,12 +159,15 @@ export const ConsentListQuerySchema = z.object({
 });
 export const ConsentListSchema = z.object({ items: z.array(ConsentSummarySchema) });
 
+export const WithdrawResultSchema = ConsentDetailSchema.pick({ id: true, state: true, withdrawnAt: true, version: true });
+
 export const WithdrawInputSchema = z.object({
   reason: z.string().trim().max(1000, 'At most 1,000 characters').optional(),
   version: VersionSchema,
 });
 export type WithdrawInput = z.infer<typeof WithdrawInputSchema>;
 
+export const WithdrawalLinkRequestedSchema = z.object({ ok: z.literal(true), message: z.string() });
 export const RequestWithdrawalLinkInputSchema = z.object({ email: z.email({ message: 'Enter the e-mail address Plinth has for you' }).trim().toLowerCase() });
 export const WithdrawalLinkViewSchema = z.object({
   performerName: z.string(),

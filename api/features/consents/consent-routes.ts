@@ -14,8 +14,10 @@ import {
   ConsentListSchema,
   RequestWithdrawalLinkInputSchema,
   VerifyResultSchema,
+  WithdrawalLinkRequestedSchema,
   WithdrawalLinkViewSchema,
   WithdrawInputSchema,
+  WithdrawResultSchema,
 } from '#shared/schemas/consents.ts';
 import type { AppContext } from '../../context.ts';
 import { readStoredFile, sha256Hex } from '../../files/store.ts';
@@ -188,7 +190,7 @@ export const consentRoutes = [
     auth: 'session',
     params: IdParamsSchema,
     body: WithdrawInputSchema,
-    response: ConsentDetailSchema.pick({ id: true, state: true, withdrawnAt: true, version: true }),
+    response: WithdrawResultSchema,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, body, req }) {
       const { scope } = await loadConsent(ctx, params.id);
@@ -230,7 +232,7 @@ export const consentRoutes = [
     tag: 'signing',
     auth: 'public',
     body: RequestWithdrawalLinkInputSchema,
-    response: z.object({ ok: z.literal(true), message: z.string() }),
+    response: WithdrawalLinkRequestedSchema,
     status: 202,
     before: [linkLimiter],
     errors: [429],

@@ -13,6 +13,7 @@ import {
   type SigningRequest,
   SubmitSignatureInputSchema,
   SubmitSignatureResultSchema,
+  TabletStateSchema,
 } from '#shared/schemas/consents.ts';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
@@ -230,7 +231,7 @@ export const signingRoutes = [
     summary: 'What the lent tablet shows: the form while signing, nothing once done',
     tag: 'signing',
     auth: 'public',
-    response: z.object({ phase: z.enum(['signing', 'handback', 'none']), form: SigningFormSchema.nullable(), idempotencyKey: z.uuid().nullable() }),
+    response: TabletStateSchema,
     async handler({ ctx, req }) {
       const t = req.session?.tablet;
       if (!t) return { phase: 'none' as const, form: null, idempotencyKey: null };

@@ -1,5 +1,4 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
 import { OkSchema } from '#shared/schemas/common.ts';
 import {
   ConsentDetailSchema,
@@ -7,9 +6,13 @@ import {
   SigningRequestListSchema,
   SigningRequestSchema,
   SubmitSignatureResultSchema,
+  TabletStateSchema,
   VerifyResultSchema,
+  WithdrawalLinkRequestedSchema,
   WithdrawalLinkViewSchema,
+  WithdrawResultSchema,
   type CreateSigningRequestInput,
+  type TabletState,
   type SubmitSignatureInput,
 } from '#shared/schemas/consents.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
@@ -24,8 +27,6 @@ export function consentQueryOptions(id: string) {
   });
 }
 
-/** What POST /api/consents/:id/withdraw answers. */
-const WithdrawResultSchema = ConsentDetailSchema.pick({ id: true, state: true, withdrawnAt: true, version: true });
 
 export function useWithdrawConsent(id: string) {
   const queryClient = useQueryClient();
@@ -69,13 +70,7 @@ export function handOver(requestId: string) {
 
 // ---- the lent tablet (public)
 
-/** GET /api/tablet (the schema is written inline in the server route). */
-export const TabletStateSchema = z.object({
-  phase: z.enum(['signing', 'handback', 'none']),
-  form: SigningFormSchema.nullable(),
-  idempotencyKey: z.uuid().nullable(),
-});
-export type TabletState = z.infer<typeof TabletStateSchema>;
+export { TabletStateSchema, type TabletState };
 
 export const HANDBACK: TabletState = { phase: 'handback', form: null, idempotencyKey: null };
 
@@ -115,7 +110,6 @@ export function submitByLink(token: string, input: SubmitSignatureInput) {
 
 // ---- withdrawing without a sign-in (public)
 
-const WithdrawalLinkRequestedSchema = z.object({ ok: z.literal(true), message: z.string() });
 
 export function useRequestWithdrawalLink() {
   return useMutation({
