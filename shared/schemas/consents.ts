@@ -78,6 +78,8 @@ export const SigningFormSchema = z.object({
 });
 export type SigningForm = z.infer<typeof SigningFormSchema>;
 
+export const HandOverResultSchema = z.object({ ok: z.literal(true), redirectTo: z.string() });
+
 /** What the lent tablet shows: the form while signing; nothing at all once done. */
 export const TabletStateSchema = z.object({
   phase: z.enum(['signing', 'handback', 'none']),

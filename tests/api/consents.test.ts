@@ -250,7 +250,12 @@ describe('signing on the tablet', () => {
     const pid = await performerId('Tamsin Achebe-Lowry');
     const created = await request(t.app).post('/api/signing-requests').set('Cookie', cookie).send({ performerId: pid, templateId: await templateId('health_data'), productionId: production, mode: 'tablet' });
     expect(created.status).toBe(201);
-    expect((await request(t.app).post(`/api/signing-requests/${created.body.id}/hand-over`).set('Cookie', cookie)).status).toBe(200);
+    const handOver = await request(t.app).post(`/api/signing-requests/${created.body.id}/hand-over`).set('Cookie', cookie);
+    expect(handOver.status).toBe(200);
+    // The browser goes through the identity provider's sign-out before the form.
+    const out = new URL(handOver.body.redirectTo);
+    expect(out.origin).toBe(idp.issuer);
+    expect(out.searchParams.get('post_logout_redirect_uri')).toBe('http://127.0.0.1:3999/');
 
     // While lent, the session reaches no staff data at all.
     for (const p of ['/api/session', `/api/consents?performerId=${pid}`, '/api/consent-templates', `/api/bookings?productionId=${production}`]) {

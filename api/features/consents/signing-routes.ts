@@ -13,8 +13,10 @@ import {
   type SigningRequest,
   SubmitSignatureInputSchema,
   SubmitSignatureResultSchema,
+  HandOverResultSchema,
   TabletStateSchema,
 } from '#shared/schemas/consents.ts';
+import { client } from '../../auth/oidc-client.ts';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
 import { writeAudit } from '../../http/audit.ts';
@@ -204,11 +206,12 @@ export const signingRoutes = [
   defineRoute({
     method: 'post',
     path: '/api/signing-requests/:id/hand-over',
-    summary: 'Lend this browser to the performer: the session is locked to this one form until staff sign in again',
+    summary:
+      'Lend this browser to the performer: the session is locked to this one form until staff sign in again. The reply names where to go next: through the identity provider\'s sign-out (so no remembered sign-in survives on the tablet) and back to the form',
     tag: 'consents',
     auth: 'session',
     params: IdParamsSchema,
-    response: z.object({ ok: z.literal(true) }),
+    response: HandOverResultSchema,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, req }) {
       const r = await requestQuery(ctx.db).where('r.id', '=', params.id).executeTakeFirst();
@@ -217,12 +220,25 @@ export const signingRoutes = [
       if (r.mode !== 'tablet') throw invalid({ id: ['This request was sent as a link; it cannot be signed on the tablet.'] });
       if (r.status !== 'open' || new Date(r.expires_at).getTime() <= Date.now()) throw conflict('This request is no longer open.');
       await writeAudit(ctx.db, { actorUserId: actor.userId, action: 'tablet.hand_over', entityType: 'signing_request', entityId: r.id, productionId: r.production_id, req });
+      // End the staff member's sign-in at the identity provider too, so nobody can walk back in on the tablet.
+      let redirectTo = '/tablet';
+      try {
+        const configuration = await ctx.oidc.configuration();
+        if (configuration.serverMetadata().end_session_endpoint) {
+          redirectTo = client.buildEndSessionUrl(configuration, {
+            post_logout_redirect_uri: ctx.config.oidc.postLogoutRedirectUri,
+            ...(req.session.idToken ? { id_token_hint: req.session.idToken } : { client_id: ctx.config.oidc.clientId }),
+          }).href;
+        }
+      } catch {
+        // The lock below holds either way; leaving it still needs a forced sign-in.
+      }
       // The staff member's access leaves the session now; only the signing routes answer it.
       delete req.session.userId;
       delete req.session.idToken;
       req.session.tablet = { requestId: r.id, staffUserId: actor.userId, phase: 'signing', idempotencyKey: randomUUID() };
       await ctx.db.updateTable('signing_requests').set({ opened_at: new Date() }).where('id', '=', r.id).execute();
-      return { ok: true as const };
+      return { ok: true as const, redirectTo };
     },
   }),
   defineRoute({

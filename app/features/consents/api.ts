@@ -6,6 +6,7 @@ import {
   SigningRequestListSchema,
   SigningRequestSchema,
   SubmitSignatureResultSchema,
+  HandOverResultSchema,
   TabletStateSchema,
   VerifyResultSchema,
   WithdrawalLinkRequestedSchema,
@@ -65,7 +66,7 @@ export function useCancelSigningRequest() {
 
 /** Lends this browser to the performer: from now on the session answers only the tablet's routes. */
 export function handOver(requestId: string) {
-  return api.post(`/api/signing-requests/${encodeURIComponent(requestId)}/hand-over`, {}, OkSchema);
+  return api.post(`/api/signing-requests/${encodeURIComponent(requestId)}/hand-over`, {}, HandOverResultSchema);
 }
 
 // ---- the lent tablet (public)

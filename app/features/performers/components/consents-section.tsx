@@ -87,9 +87,10 @@ export function ConsentsSection({ performer: p, requestOn }: ConsentsSectionProp
  * page load leaves nothing of the staff's screens in memory (or in history: it replaces this page).
  */
 async function lendTablet(queryClient: ReturnType<typeof useQueryClient>, requestId: string) {
-  await handOver(requestId);
+  const { redirectTo } = await handOver(requestId);
   queryClient.clear();
-  window.location.replace(paths.tablet.href());
+  // Through the identity provider's sign-out (ending the staff member's remembered sign-in), then to the form.
+  window.location.replace(redirectTo);
 }
 
 function OpenRequests({ performer: p, production }: { performer: PerformerDetail; production: { id: string; name: string } }) {
