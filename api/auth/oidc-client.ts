@@ -18,9 +18,8 @@ export function createOidcClient(config: Config['oidc']): OidcClient {
         .discovery(new URL(config.issuer), config.clientId, config.clientSecret, undefined, options)
         .catch((err: unknown) => {
           cached = null;
-          throw new ApiError('unavailable', 'The sign-in service is not reachable right now. Try again in a moment.', {
-            reason: err instanceof Error ? err.message : String(err),
-          });
+          console.error(`[plinth] identity provider discovery failed: ${err instanceof Error ? err.message : String(err)}`);
+          throw new ApiError('unavailable', 'The sign-in service is not reachable right now. Try again in a moment.');
         });
       return cached;
     },

@@ -9,7 +9,8 @@ import { linkPerformerByEmail, upsertUserFromClaims } from './users.ts';
 const LoginQuerySchema = z.object({
   returnTo: z
     .string()
-    .regex(/^\/(?!\/)[^\s]*$/, 'Must be a path on this site')
+    // A path on this site only: no "//host" or "/\host" (browsers read both as another site), no spaces.
+    .regex(/^\/(?![/\\])[^\s\\]*$/, 'Must be a path on this site')
     .max(500)
     .optional(),
   reauth: z.enum(['true', 'false']).optional(),
@@ -59,7 +60,7 @@ export const authRoutes = [
       const nonce = client.randomNonce();
       // Leaving the tablet's hand-back screen needs the staff member's own credentials, not a remembered sign-in.
       const forceLogin = Boolean(req.session.tablet) || query.reauth === 'true';
-      req.session.oidc = { codeVerifier, state, nonce, returnTo: query.returnTo ?? '/' };
+      req.session.oidc = { codeVerifier, state, nonce, returnTo: query.returnTo ?? '/', forceLogin, startedAt: Date.now() };
       await save(req);
       const url = client.buildAuthorizationUrl(configuration, {
         redirect_uri: ctx.config.oidc.redirectUri,
@@ -106,6 +107,11 @@ export const authRoutes = [
       }
       const claims = tokens.claims();
       if (!claims) return signInFailed(res, 'The identity provider sent no identity.');
+      // A forced sign-in (leaving the lent tablet) must really have been made just now, with credentials.
+      if (pending.forceLogin && (typeof claims.auth_time !== 'number' || claims.auth_time * 1000 < pending.startedAt - 2000)) {
+        delete req.session.oidc;
+        return signInFailed(res, 'Staff must enter their password again to leave the signing screen.');
+      }
       const user = await upsertUserFromClaims(ctx.db, {
         issuer: String(claims.iss),
         sub: claims.sub,
@@ -134,6 +140,14 @@ export const authRoutes = [
     async handler({ req, ctx }) {
       const idToken = req.session.idToken;
       const userId = req.session.userId;
+      const tablet = req.session.tablet;
+      if (tablet) {
+        // Signing out cannot unlock a lent tablet: the lock survives into the new session.
+        await regenerate(req);
+        req.session.tablet = tablet;
+        await save(req);
+        return { redirectTo: '/tablet' };
+      }
       await destroy(req);
       if (userId) await writeAudit(ctx.db, { actorUserId: userId, action: 'auth.sign_out', entityType: 'user', entityId: userId, req });
       let redirectTo = '/signin';

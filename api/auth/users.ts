@@ -65,6 +65,20 @@ export async function upsertUserFromClaims(db: Db, claims: IdClaims): Promise<{ 
 }
 
 /**
+ * Whether a sign-in may stand for a performer: never a studio administrator, never anyone with
+ * a staff role or a lead appointment. Otherwise staff could link themselves to a performer and
+ * read that performer's health details as "the performer".
+ */
+export async function mayActAsPerformer(db: Db, userId: string): Promise<boolean> {
+  const user = await db.selectFrom('users').select('is_admin').where('id', '=', userId).executeTakeFirst();
+  if (!user || user.is_admin) return false;
+  const staff = await db.selectFrom('memberships').select('id').where('user_id', '=', userId).where('role', '!=', 'performer').executeTakeFirst();
+  if (staff) return false;
+  const lead = await db.selectFrom('lead_appointments').select('id').where('user_id', '=', userId).executeTakeFirst();
+  return !lead;
+}
+
+/**
  * A performer record carrying the same verified e-mail, not yet linked to anyone, is linked to
  * this sign-in, with the performer role on each production they are engaged on. So a performer
  * the department registered can sign in and see their own record without anyone picking accounts.
@@ -73,6 +87,7 @@ export async function linkPerformerByEmail(db: Db, userId: string, email: string
   return db.transaction().execute(async (trx) => {
     const already = await trx.selectFrom('performers').select('id').where('user_id', '=', userId).executeTakeFirst();
     if (already) return null;
+    if (!(await mayActAsPerformer(trx, userId))) return null;
     const performer = await trx
       .selectFrom('performers')
       .select('id')

@@ -7,7 +7,7 @@ declare module 'express-session' {
   interface SessionData {
     userId?: string;
     idToken?: string;
-    oidc?: { codeVerifier: string; state: string; nonce: string; returnTo: string };
+    oidc?: { codeVerifier: string; state: string; nonce: string; returnTo: string; forceLogin?: boolean; startedAt: number };
     current?: { productionId: string | null; role: string };
     /** Set while the department's tablet is handed to a performer: the session can do nothing else. */
     tablet?: { requestId: string; staffUserId: string; phase: 'signing' | 'handback'; idempotencyKey: string };

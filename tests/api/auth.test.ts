@@ -83,9 +83,10 @@ describe('sign-in through the identity provider (authorization code + PKCE)', ()
 
   it('links a performer the department registered with the same verified e-mail, with the performer role', async () => {
     const performer = await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Halvard Imre Solberg').executeTakeFirstOrThrow();
-    await t.db.db.updateTable('performers').set({ email: 'artist2@plinth.test' }).where('id', '=', performer.id).execute();
+    // The newcomer has no role yet: a sign-in with no staff role may stand for a performer.
+    await t.db.db.updateTable('performers').set({ email: 'newcomer@plinth.test' }).where('id', '=', performer.id).execute();
     const { authUrl, cookie } = await startLogin();
-    const { callbackUrl } = await signInAtIdp(authUrl, idp.issuer, 'artist2@plinth.test', DEMO_PASSWORD);
+    const { callbackUrl } = await signInAtIdp(authUrl, idp.issuer, 'newcomer@plinth.test', DEMO_PASSWORD);
     const cb = await request(t.app).get(callbackUrl.slice(ORIGIN.length)).set('Cookie', cookie);
     const me = SessionSchema.parse((await request(t.app).get('/api/session').set('Cookie', sessionCookie(cb))).body);
     expect(me.performerIds).toEqual([performer.id]);

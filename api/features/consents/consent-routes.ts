@@ -1,7 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import type { Request } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import multer from 'multer';
 import { sql } from 'kysely';
 import { z } from 'zod';
 import { CONSENT_KIND_LABELS, consentState, withdrawalConsequences } from '#shared/domain/consent.ts';
@@ -24,6 +23,7 @@ import { readStoredFile, sha256Hex } from '../../files/store.ts';
 import { writeAudit } from '../../http/audit.ts';
 import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
+import { receiveFile } from '../../http/upload.ts';
 import { consentSummaryQuery, performerScope, toConsentSummary } from './repo.ts';
 import { hashToken } from './signing-routes.ts';
 
@@ -50,7 +50,9 @@ async function loadConsent(ctx: AppContext, id: string) {
     .where('c.id', '=', id)
     .executeTakeFirst();
   if (!row) throw notFound('That consent');
-  const scope = (await performerScope(ctx.db, row.performer_id))!;
+  const performer = (await performerScope(ctx.db, row.performer_id))!;
+  // A consent given to one production is that production's record: its staff and its lead, and the performer.
+  const scope = row.production_id ? { ...performer, productionIds: performer.productionIds.filter((p) => p === row.production_id) } : performer;
   return { row, scope };
 }
 
@@ -87,8 +89,6 @@ async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, 
   }
 }
 
-const verifyUpload = multer({ storage: multer.memoryStorage(), limits: { fileSize: VERIFY_MAX_BYTES, files: 1 } }).single('file');
-
 const linkLimiter = rateLimit({
   windowMs: 60_000,
   limit: (req: Request) => (req.app.get('env') === 'test' ? 10_000 : 10),
@@ -121,7 +121,12 @@ export const consentRoutes = [
       const scope = await performerScope(ctx.db, query.performerId);
       if (!scope || !canView(actor, scope)) throw forbidden("see this performer's consents");
       const rows = await consentSummaryQuery(ctx.db).where('c.performer_id', '=', query.performerId).orderBy('c.signed_at', 'desc').execute();
-      const items = rows.map((r) => toConsentSummary(r)).filter((c) => !query.state || c.state === query.state);
+      const self = can(actor, 'performer.self', resourceOf(scope));
+      const items = rows
+        .map((r) => toConsentSummary(r))
+        .filter((c) => !query.state || c.state === query.state)
+        // Staff see consents given to productions they work on; the performer sees all of theirs.
+        .filter((c) => self || c.productionId === null || can(actor, 'performers.view', { productionId: c.productionId }));
       return { items };
     },
   }),
@@ -141,7 +146,8 @@ export const consentRoutes = [
       const answers = await ctx.db.selectFrom('consent_answers').select(['question_id', 'question_label', 'medical', 'answer']).where('consent_id', '=', params.id).orderBy('id').execute();
       const hasMedical = answers.some((a) => a.medical);
       const shown = answers.filter((a) => !a.medical || medicalOk);
-      if (medicalOk && hasMedical) {
+      // A withdrawal reason may speak of health, so reading one counts as a medical read too.
+      if (medicalOk && (hasMedical || row.withdrawal_reason)) {
         await writeAudit(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'consent', entityId: params.id, productionId: row.production_id, req, details: { performerId: scope.id, fields: answers.filter((a) => a.medical).map((a) => a.question_id) } });
       }
       const summary = toConsentSummary(row);
@@ -210,12 +216,12 @@ export const consentRoutes = [
     tag: 'consents',
     auth: 'session',
     multipart: true,
-    before: [verifyUpload],
     response: VerifyResultSchema,
     errors: [403, 413],
-    async handler({ ctx, actor, req }) {
+    async handler({ ctx, actor, req, res }) {
       if (!actor.isAdmin && !canSomewhere(actor, 'performers.view')) throw forbidden('verify consent documents');
-      const file = req.file;
+      // Read only once the permission check has passed.
+      const file = await receiveFile(req, res, { field: 'file', maxBytes: VERIFY_MAX_BYTES });
       if (!file) throw invalid({ file: ['Choose a PDF to check'] });
       const sha256 = sha256Hex(file.buffer);
       const row = await consentSummaryQuery(ctx.db).where('c.pdf_sha256', '=', sha256).executeTakeFirst();

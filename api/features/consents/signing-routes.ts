@@ -197,7 +197,9 @@ export const signingRoutes = [
       authorize(actor, 'consents.request', { productionId: r.production_id });
       if (r.status !== 'open') throw conflict('Only an open request can be cancelled.');
       await ctx.db.transaction().execute(async (trx) => {
-        await trx.updateTable('signing_requests').set({ status: 'cancelled' }).where('id', '=', params.id).execute();
+        // Only while still open: a signing that lands first wins over a racing cancel.
+        const done = await trx.updateTable('signing_requests').set({ status: 'cancelled' }).where('id', '=', params.id).where('status', '=', 'open').executeTakeFirst();
+        if (Number(done.numUpdatedRows) !== 1) throw conflict('Only an open request can be cancelled.');
         await writeAudit(trx, { actorUserId: actor.userId, action: 'signing_request.cancel', entityType: 'signing_request', entityId: params.id, productionId: r.production_id, req });
       });
       return toSigningRequest({ ...r, status: 'cancelled' });
@@ -273,6 +275,8 @@ export const signingRoutes = [
     async handler({ ctx, req, body }) {
       const t = req.session?.tablet;
       if (!t) throw new ApiError('unauthenticated', 'This tablet is not lent for signing.');
+      if (t.phase !== 'signing') throw conflict('This form is closed. Hand the tablet back to the department.', { reason: 'handback' });
+      if (body.idempotencyKey !== t.idempotencyKey) throw invalid({ idempotencyKey: ['This submission does not belong to the form on this tablet.'] });
       const r = await ctx.db.selectFrom('signing_requests').selectAll().where('id', '=', t.requestId).executeTakeFirst();
       if (!r) throw notFound('The signing request');
       const result = await submitSignature(ctx, asOpenRequest(r), body, { ...clientMeta(req), method: 'tablet', staffUserId: t.staffUserId });
@@ -290,6 +294,7 @@ export const signingRoutes = [
     async handler({ ctx, req }) {
       const t = req.session?.tablet;
       if (!t) throw new ApiError('unauthenticated', 'This tablet is not lent for signing.');
+      if (t.phase !== 'signing') return { ok: true as const };
       t.phase = 'handback';
       await writeAudit(ctx.db, { actorUserId: t.staffUserId, action: 'tablet.declined', entityType: 'signing_request', entityId: t.requestId, req });
       return { ok: true as const };

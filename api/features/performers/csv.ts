@@ -246,6 +246,8 @@ export function checkImportRows(
   lines: readonly CsvLine[],
   productionId: string,
   existing: ReadonlyMap<string, { id: string; productionIds: readonly string[] }>,
+  /** Whether the importer already works with a performer on one of these productions. */
+  canSee: (productionIds: readonly string[]) => boolean = () => true,
 ): { rows: RowResult[]; plans: ImportPlan[] } {
   const firstLineOfEmail = new Map<string, number>();
   const rows: RowResult[] = [];
@@ -270,6 +272,11 @@ export function checkImportRows(
       else firstLineOfEmail.set(email, line);
     }
     const match = email ? existing.get(email) : undefined;
+    // An import never pulls in someone the importer does not already work with: that would open
+    // their record (and, to this production's lead, their health answers) without anyone agreeing.
+    if (match && !match.productionIds.includes(productionId) && !canSee(match.productionIds)) {
+      (errors.email ??= []).push('This e-mail belongs to a performer registered on another production. Leave this row out and ask the studio administrator.');
+    }
     const action = match ? (match.productionIds.includes(productionId) ? 'already_engaged' : 'engage_existing') : 'create';
     rows.push({ line, legalName: values.legal_name ?? '', email, action, errors });
     if (Object.keys(errors).length > 0 || !fields.success || !character.success) continue;

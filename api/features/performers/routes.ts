@@ -22,10 +22,11 @@ import { writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
+import { mayActAsPerformer } from '../../auth/users.ts';
 import { performerAccess, productionsWhere } from './access.ts';
 import { IMPORT_MAX_BYTES, checkImportRows, performersCsv, readImportFile } from './csv.ts';
 import { PORTRAIT_MAX_BYTES, processPortrait } from './portrait.ts';
-import { receiveFile } from './upload.ts';
+import { receiveFile } from '../../http/upload.ts';
 import {
   type EngagementValues,
   type PerformerFields,
@@ -97,7 +98,9 @@ type Loaded = Awaited<ReturnType<typeof loadForActor>>;
 /** The performer as this actor may see them: contact, linked sign-in, consents and bookings only where allowed. */
 async function detailFor(db: Db, { performer: p, engagements, access }: Loaded): Promise<PerformerDetail> {
   const named = { id: p.id, name: p.preferredName ?? p.legalName };
-  const consents = access.canView ? await listConsentSummaries(db, named, new Date()) : { summaries: [], times: [] };
+  const all = access.canView ? await listConsentSummaries(db, named, new Date()) : { summaries: [], times: [] };
+  // Staff see the consents given to productions they work on; the performer sees all of theirs.
+  const consents = { ...all, summaries: all.summaries.filter((c) => c.productionId === null || access.showsProduction(c.productionId)) };
   const bookings = access.canView ? await listUpcomingBookings(db, named, consents.times, access.showsProduction) : [];
   const linkedUser = p.userId && access.canSeeLinkedUser ? ((await findUser(db, p.userId)) ?? null) : null;
   return {
@@ -189,12 +192,13 @@ async function sendPortrait(ctx: AppContext, actor: Actor, id: string, which: 'p
 }
 
 /** Import: everything the preview shows, computed the same way for the commit. */
-async function planImport(db: Db, buf: Buffer, productionId: string) {
+async function planImport(db: Db, buf: Buffer, productionId: string, actor: Actor) {
   const parsed = readImportFile(buf);
   if (parsed.fileErrors.length) return { fileErrors: parsed.fileErrors, rows: [], plans: [] };
   const emails = parsed.lines.map((l) => l.values.email?.trim().toLowerCase()).filter((e): e is string => !!e);
   const existing = await findPerformersByEmails(db, [...new Set(emails)]);
-  return { fileErrors: [] as string[], ...checkImportRows(parsed.lines, productionId, existing) };
+  const viewable = new Set(productionsWhere(actor, 'performers.view'));
+  return { fileErrors: [] as string[], ...checkImportRows(parsed.lines, productionId, existing, (ids) => ids.some((p) => viewable.has(p))) };
 }
 
 function importResult(plan: Awaited<ReturnType<typeof planImport>>, committed: boolean): CsvImportResult {
@@ -281,7 +285,7 @@ export const performerRoutes: AnyRoute[] = [
       // Permission checked here, before a byte of the upload is read.
       authorize(actor, 'performers.manage', { productionId: query.productionId });
       const file = await receiveFileOr400(req, res, 'file', IMPORT_MAX_BYTES, 'Choose a CSV file to import.');
-      const preview = await planImport(ctx.db, file.buffer, query.productionId);
+      const preview = await planImport(ctx.db, file.buffer, query.productionId, actor);
       if (!query.commit) return importResult(preview, false);
       const before = importResult(preview, false);
       if (before.errorCount > 0) throw importRefused(before, 'Nothing was imported: fix the rows listed and try again.');
@@ -289,7 +293,7 @@ export const performerRoutes: AnyRoute[] = [
       try {
         const result = await ctx.db.transaction().execute(async (trx) => {
           // Checked again inside the transaction: someone may have added one of these e-mails since the preview.
-          const plan = await planImport(trx, file.buffer, query.productionId);
+          const plan = await planImport(trx, file.buffer, query.productionId, actor);
           const checked = importResult(plan, false);
           if (checked.errorCount > 0) throw importRefused(checked, 'Nothing was imported: the registry changed since the check. Review the rows listed.');
           const creates = plan.plans.flatMap((p) => (p.action === 'create' ? [{ ...p, id: randomUUID() }] : []));
@@ -466,6 +470,9 @@ export const performerRoutes: AnyRoute[] = [
           if (current.version !== body.version) throw staleEdit(current.version);
           if (body.userId) {
             if (!(await findUser(trx, body.userId))) throw invalid({ userId: ['That user does not exist.'] });
+            if (body.userId === actor.userId || !(await mayActAsPerformer(trx, body.userId))) {
+              throw invalid({ userId: ['Only a sign-in with no staff role may be linked to a performer (never your own, an administrator\'s or a lead\'s).'] });
+            }
             const other = await findPerformerLinkedTo(trx, body.userId);
             if (other && other.id !== params.id) throw invalid({ userId: ['This sign-in is already linked to another performer.'] });
           }

@@ -1,6 +1,6 @@
 import type { Request, Response } from 'express';
 import multer from 'multer';
-import { invalid } from '../../http/errors.ts';
+import { invalid } from './errors.ts';
 
 /**
  * Reads one uploaded file into memory, inside the handler, so the permission check has already
