@@ -23,20 +23,21 @@ export async function listBookings(db: Db, where: { productionId?: string; perfo
   const rows = await q.orderBy('b.starts_at').limit(500).execute();
   const performerIds = [...new Set(rows.map((r) => r.performer_id))];
   const consents = performerIds.length
-    ? await db.selectFrom('consents').select(['performer_id', 'kind', 'signed_at', 'expires_at', 'withdrawn_at']).where('performer_id', 'in', performerIds).execute()
+    ? await db.selectFrom('consents').select(['performer_id', 'production_id', 'kind', 'signed_at', 'expires_at', 'withdrawn_at']).where('performer_id', 'in', performerIds).execute()
     : [];
-  const byPerformer = new Map<string, (ConsentTimes & { kind: ConsentKind })[]>();
-  for (const c of consents) {
-    const list = byPerformer.get(c.performer_id) ?? [];
-    list.push({ kind: c.kind, signedAt: new Date(c.signed_at), expiresAt: c.expires_at, withdrawnAt: c.withdrawn_at });
-    byPerformer.set(c.performer_id, list);
+  // A session needs a consent given to its own production (or to none named).
+  const missing = new Set<string>();
+  for (const productionId of new Set(rows.map((r) => r.production_id))) {
+    const byPerformer = new Map<string, (ConsentTimes & { kind: ConsentKind })[]>();
+    for (const c of consents) {
+      if (c.production_id !== null && c.production_id !== productionId) continue;
+      const list = byPerformer.get(c.performer_id) ?? [];
+      list.push({ kind: c.kind, signedAt: new Date(c.signed_at), expiresAt: c.expires_at, withdrawnAt: c.withdrawn_at });
+      byPerformer.set(c.performer_id, list);
+    }
+    const due = rows.filter((r) => r.status === 'booked' && r.production_id === productionId);
+    for (const m of bookingsMissingConsent(due.map((r) => ({ id: r.id, performerId: r.performer_id, purpose: r.purpose, startsAt: new Date(r.starts_at) })), byPerformer)) missing.add(m.booking.id);
   }
-  const missing = new Set(
-    bookingsMissingConsent(
-      rows.filter((r) => r.status === 'booked').map((r) => ({ id: r.id, performerId: r.performer_id, purpose: r.purpose, startsAt: new Date(r.starts_at) })),
-      byPerformer,
-    ).map((m) => m.booking.id),
-  );
   return rows.map((r) => ({
     id: r.id,
     performerId: r.performer_id,

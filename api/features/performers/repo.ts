@@ -75,7 +75,12 @@ export const WORD_SIMILARITY_THRESHOLD = 0.3;
 /** A consent counts as active now: signed, not withdrawn, not expired (consentState in shared/domain/consent.ts). */
 const ACTIVE = sql`c.signed_at <= now() and (c.withdrawn_at is null or c.withdrawn_at > now()) and (c.expires_at is null or c.expires_at > now())`;
 const KIND_LIST = sql.join(CONSENT_KINDS.map((k) => sql.lit(k)));
-const ACTIVE_KIND_COUNT = sql<number>`(select count(distinct c.kind) from consents c where c.performer_id = performers.id and c.kind in (${KIND_LIST}) and ${ACTIVE})`;
+/** A consent counts for the productions in view: the one it was given to, or none named. */
+function consentFor(productionIds: readonly string[]) {
+  return sql`(c.production_id is null or c.production_id in (${sql.join([...productionIds])}))`;
+}
+const activeKindCount = (productionIds: readonly string[]) =>
+  sql<number>`(select count(distinct c.kind) from consents c where c.performer_id = performers.id and ${consentFor(productionIds)} and c.kind in (${KIND_LIST}) and ${ACTIVE})`;
 const EXPIRING_WITHIN_30 = sql`c.expires_at is not null and c.expires_at <= now() + interval '30 days'`;
 const WITHDRAWN = sql`c.withdrawn_at is not null and c.withdrawn_at <= now()`;
 
@@ -96,16 +101,16 @@ function listConditions(f: ListFilter): RawBuilder<boolean> {
   }
   switch (f.consent) {
     case 'complete':
-      conds.push(sql`${ACTIVE_KIND_COUNT} = ${CONSENT_KINDS.length}`);
+      conds.push(sql`${activeKindCount(f.productionIds)} = ${CONSENT_KINDS.length}`);
       break;
     case 'incomplete':
-      conds.push(sql`${ACTIVE_KIND_COUNT} < ${CONSENT_KINDS.length}`);
+      conds.push(sql`${activeKindCount(f.productionIds)} < ${CONSENT_KINDS.length}`);
       break;
     case 'expiring':
-      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${ACTIVE} and ${EXPIRING_WITHIN_30})`);
+      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${consentFor(f.productionIds)} and ${ACTIVE} and ${EXPIRING_WITHIN_30})`);
       break;
     case 'withdrawn':
-      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${WITHDRAWN})`);
+      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${consentFor(f.productionIds)} and ${WITHDRAWN})`);
       break;
     case 'any':
       break;
@@ -162,9 +167,9 @@ export async function listPerformers(
         'performers.preferred_name',
         'performers.pronouns',
         'performers.portrait_thumb_file_id',
-        sql<string[]>`array(select distinct c.kind from consents c where c.performer_id = performers.id and ${ACTIVE})`.as('active_kinds'),
-        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${ACTIVE} and ${EXPIRING_WITHIN_30})`.as('expiring_soon'),
-        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${WITHDRAWN})`.as('withdrawn'),
+        sql<string[]>`array(select distinct c.kind from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${ACTIVE})`.as('active_kinds'),
+        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${ACTIVE} and ${EXPIRING_WITHIN_30})`.as('expiring_soon'),
+        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${WITHDRAWN})`.as('withdrawn'),
       ])
       .where(where)
       .orderBy(orderings(q))
@@ -294,7 +299,7 @@ export async function findUser(db: Db, id: string): Promise<{ id: string; email:
 }
 
 /** The performer's signed consents, newest first, with the title and version of the text they signed. */
-export async function listConsentSummaries(db: Db, performer: { id: string; name: string }, now: Date): Promise<{ summaries: ConsentSummary[]; times: (ConsentTimes & { kind: ConsentKind })[] }> {
+export async function listConsentSummaries(db: Db, performer: { id: string; name: string }, now: Date): Promise<{ summaries: ConsentSummary[]; times: (ConsentTimes & { kind: ConsentKind; productionId: string | null })[] }> {
   const rows = await db
     .selectFrom('consents as c')
     .innerJoin('consent_template_versions as v', 'v.id', 'c.template_version_id')
@@ -317,6 +322,7 @@ export async function listConsentSummaries(db: Db, performer: { id: string; name
     .execute();
   const times = rows.map((r) => ({
     kind: r.kind,
+    productionId: r.production_id,
     signedAt: new Date(r.signed_at),
     expiresAt: r.expires_at ? new Date(r.expires_at) : null,
     withdrawnAt: r.withdrawn_at ? new Date(r.withdrawn_at) : null,
@@ -344,7 +350,7 @@ export async function listConsentSummaries(db: Db, performer: { id: string; name
 export async function listUpcomingBookings(
   db: Db,
   performer: { id: string; name: string },
-  consents: readonly (ConsentTimes & { kind: ConsentKind })[],
+  consents: readonly (ConsentTimes & { kind: ConsentKind; productionId: string | null })[],
   showsProduction: (productionId: string) => boolean,
 ): Promise<Booking[]> {
   const rows = await db
@@ -357,8 +363,15 @@ export async function listUpcomingBookings(
     .orderBy('id')
     .execute();
   const visible = rows.filter((r) => showsProduction(r.production_id));
-  const gates = visible.map((r) => ({ id: r.id, performerId: performer.id, purpose: r.purpose, startsAt: new Date(r.starts_at) }));
-  const missing = new Set(bookingsMissingConsent(gates, new Map([[performer.id, consents]])).map((m) => m.booking.id));
+  // Each session needs a consent given to its own production (or to none named).
+  const missing = new Set(
+    visible
+      .filter((r) => {
+        const own = consents.filter((c) => c.productionId === null || c.productionId === r.production_id);
+        return bookingsMissingConsent([{ id: r.id, performerId: performer.id, purpose: r.purpose, startsAt: new Date(r.starts_at) }], new Map([[performer.id, own]])).length > 0;
+      })
+      .map((r) => r.id),
+  );
   return visible.map((r) => ({
     id: r.id,
     performerId: performer.id,

@@ -13,6 +13,7 @@ async function consentTasks(ctx: AppContext, productionId: string): Promise<Task
     .selectFrom('consents as c')
     .innerJoin('engagements as e', (j) => j.onRef('e.performer_id', '=', 'c.performer_id').on('e.production_id', '=', productionId))
     .select((eb) => eb.fn.count<string>('c.id').distinct().as('n'))
+    .where((eb) => eb.or([eb('c.production_id', '=', productionId), eb('c.production_id', 'is', null)]))
     .where('c.withdrawn_at', 'is', null)
     .where('c.expires_at', '>', now)
     .where('c.expires_at', '<=', new Date(now.getTime() + 30 * DAY))
