@@ -42,6 +42,9 @@ export const PerformerFieldsSchema = z.object({
   notes: optionalText(4000),
 });
 
+/** The performer's own fields by name, for code that copies or lists them (client forms, change audits). */
+export const PERFORMER_FIELD_KEYS = PerformerFieldsSchema.keyof().options;
+
 export const CreatePerformerInputSchema = PerformerFieldsSchema.extend({
   engagements: z.array(EngagementInputSchema).min(1, 'Engage the performer on at least one production').max(50),
 });

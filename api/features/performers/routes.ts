@@ -14,6 +14,7 @@ import {
   PerformerListQuerySchema,
   PerformerPageSchema,
   UpdatePerformerInputSchema,
+  PERFORMER_FIELD_KEYS,
 } from '#shared/schemas/performers.ts';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
@@ -57,18 +58,7 @@ import {
 } from './repo.ts';
 
 const TAG = 'performers';
-const FIELD_KEYS: readonly (keyof PerformerFields)[] = [
-  'legalName',
-  'preferredName',
-  'pronouns',
-  'email',
-  'phone',
-  'emergencyContactName',
-  'emergencyContactPhone',
-  'agentName',
-  'agentContact',
-  'notes',
-];
+const FIELD_KEYS: readonly (keyof PerformerFields)[] = PERFORMER_FIELD_KEYS;
 
 function fieldsOf(body: PerformerFields): PerformerFields {
   return Object.fromEntries(FIELD_KEYS.map((k) => [k, body[k]])) as unknown as PerformerFields;

@@ -1,24 +1,13 @@
 import type { FieldErrors, Path, UseFormRegister } from 'react-hook-form';
 import type { z } from 'zod';
-import type { CreatePerformerInputSchema } from '#shared/schemas/performers.ts';
+import { type CreatePerformerInputSchema, PERFORMER_FIELD_KEYS } from '#shared/schemas/performers.ts';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { TextareaField } from '../../../components/ui/textarea-field.tsx';
 
 export type PerformerFormValues = z.input<typeof CreatePerformerInputSchema> & { version?: number };
 
 /** The performer's own fields, named as the API names them (so its field errors land here). */
-export const PERFORMER_FIELD_NAMES = [
-  'legalName',
-  'preferredName',
-  'pronouns',
-  'email',
-  'phone',
-  'emergencyContactName',
-  'emergencyContactPhone',
-  'agentName',
-  'agentContact',
-  'notes',
-] as const satisfies readonly Path<PerformerFormValues>[];
+export const PERFORMER_FIELD_NAMES: readonly Path<PerformerFormValues>[] = PERFORMER_FIELD_KEYS;
 
 /** Every field an engagement row has, for each row on the form. */
 export function engagementFieldNames(count: number): Path<PerformerFormValues>[] {
