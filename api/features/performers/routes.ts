@@ -137,6 +137,14 @@ function listScope(actor: Actor, productionId: string | undefined): { production
   return { productionIds: viewable, viewable: new Set(viewable) };
 }
 
+/** Locks a performer for a change and works out, inside the same transaction, what this actor may do with them. */
+async function lockForChange(trx: Db, actor: Actor, id: string) {
+  const current = await lockPerformer(trx, id);
+  if (!current) throw notFound('That performer');
+  const engagedOn = (await listEngagements(trx, [id])).get(id) ?? [];
+  return { current, engagedOn, access: performerAccess(actor, id, engagedOn.map((e) => e.productionId)) };
+}
+
 function changedFields(before: PerformerFields, after: PerformerFields): string[] {
   return FIELD_KEYS.filter((k) => before[k] !== after[k]);
 }
@@ -386,10 +394,7 @@ export const performerRoutes: AnyRoute[] = [
       await ctx.db
         .transaction()
         .execute(async (trx) => {
-          const current = await lockPerformer(trx, params.id);
-          if (!current) throw notFound('That performer');
-          const engagedOn = (await listEngagements(trx, [params.id])).get(params.id) ?? [];
-          const access = performerAccess(actor, params.id, engagedOn.map((e) => e.productionId));
+          const { current, engagedOn, access } = await lockForChange(trx, actor, params.id);
           if (!access.canManage) throw forbidden('edit this performer');
           if (current.version !== body.version) throw staleEdit(current.version);
           const dupes = duplicateProductions(body.engagements);
@@ -451,11 +456,8 @@ export const performerRoutes: AnyRoute[] = [
       await ctx.db
         .transaction()
         .execute(async (trx) => {
-          const current = await lockPerformer(trx, params.id);
-          if (!current) throw notFound('That performer');
-          const engagedOn = (await listEngagements(trx, [params.id])).get(params.id) ?? [];
+          const { current, engagedOn, access } = await lockForChange(trx, actor, params.id);
           const productionIds = engagedOn.map((e) => e.productionId);
-          const access = performerAccess(actor, params.id, productionIds);
           if (!access.canManage && !actor.isAdmin) throw forbidden('link a sign-in to this performer');
           if (current.version !== body.version) throw staleEdit(current.version);
           if (body.userId) {

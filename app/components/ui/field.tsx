@@ -1,4 +1,4 @@
-import type { ReactNode } from 'react';
+import { useId, type ReactNode } from 'react';
 
 /** The hint and error lines under a control, wired to it through aria-describedby. */
 export function FieldMessages({ hintId, errorId, hint, error }: { hintId: string; errorId: string; hint?: ReactNode; error?: string }) {
@@ -29,3 +29,40 @@ export const controlClasses =
   'aria-invalid:border-brick-700 aria-invalid:border-2 disabled:bg-sand-100 disabled:text-ink-600';
 
 export const labelClasses = 'block text-sm font-semibold text-ink-900';
+
+export interface ControlWiring {
+  id: string;
+  'aria-invalid': true | undefined;
+  'aria-describedby': string | undefined;
+}
+
+/**
+ * The frame every form control shares: a visible label, the control (given the id and ARIA
+ * wiring to spread on itself), then the hint and error lines it is described by.
+ */
+export function LabelledField({
+  label,
+  hint,
+  error,
+  className = '',
+  children,
+}: {
+  label: ReactNode;
+  hint?: ReactNode;
+  error?: string;
+  className?: string;
+  children: (wiring: ControlWiring) => ReactNode;
+}) {
+  const id = useId();
+  const hintId = `${id}-hint`;
+  const errorId = `${id}-error`;
+  return (
+    <div className={`flex flex-col gap-1 ${className}`}>
+      <label htmlFor={id} className={labelClasses}>
+        {label}
+      </label>
+      {children({ id, 'aria-invalid': error ? true : undefined, 'aria-describedby': describedBy(hintId, errorId, hint, error) })}
+      <FieldMessages hintId={hintId} errorId={errorId} hint={hint} error={error} />
+    </div>
+  );
+}
