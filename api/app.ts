@@ -1,11 +1,11 @@
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import express, { type Express, type RequestHandler } from 'express';
-import { rateLimit } from 'express-rate-limit';
 import helmet from 'helmet';
 import type { Config } from './config.ts';
 import type { AppContext } from './context.ts';
 import { ApiError, apiNotFound, errorHandler } from './http/errors.ts';
+import { RATE_LIMITS_SETTING, rateLimiter } from './http/rate-limit.ts';
 import { mountRoutes } from './http/route.ts';
 import { sessionMiddleware } from './http/session.ts';
 import { allRoutes } from './routes.ts';
@@ -36,7 +36,9 @@ export function createApp({ ctx, pool, serveClient = false, clientMiddleware }: 
   const { config } = ctx;
   const app = express();
   app.disable('x-powered-by');
+  // One reverse proxy in front: req.ip (audit entries, rate-limit keys) is the address it saw.
   if (config.trustProxy) app.set('trust proxy', 1);
+  app.set(RATE_LIMITS_SETTING, config.rateLimits);
 
   app.use(
     helmet({
@@ -61,13 +63,7 @@ export function createApp({ ctx, pool, serveClient = false, clientMiddleware }: 
   api.use(sameOriginWrites(config));
   api.use(
     '/auth',
-    rateLimit({
-      windowMs: 60_000,
-      limit: config.isTest ? 10_000 : 60,
-      standardHeaders: 'draft-8',
-      legacyHeaders: false,
-      handler: (_req, _res, next) => next(new ApiError('rate_limited', 'Too many sign-in attempts. Wait a minute and try again.')),
-    }),
+    rateLimiter({ windowMs: 60_000, limit: 60, message: 'Too many sign-in attempts. Wait a minute and try again.' }),
   );
   api.use(sessionMiddleware(config, pool));
   api.use((_req, res, next) => {

@@ -26,12 +26,18 @@ const EnvSchema = z
     MAIL_FROM: z.string().min(3).default('Plinth <plinth@plinth.test>'),
     STORAGE_DIR: z.string().default(path.join(root, 'storage')),
     MAIL_DIR: z.string().optional(),
-    START_FAKES: z.enum(['true', 'false']).default('true'),
+    // Unset means: start them in development and test, never in production.
+    START_FAKES: z.enum(['true', 'false']).optional(),
     TRUST_PROXY: z.enum(['true', 'false']).default('false'),
+    // Unset means on, except under NODE_ENV=test where tests that need them switch them on.
+    RATE_LIMITS: z.enum(['on', 'off']).optional(),
   })
   .superRefine((env, ctx) => {
-    if (env.NODE_ENV === 'production' && env.SESSION_SECRET === DEV_SESSION_SECRET && env.START_FAKES === 'false') {
+    if (env.NODE_ENV === 'production' && env.SESSION_SECRET === DEV_SESSION_SECRET) {
       ctx.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'must be set to a secret of your own in production' });
+    }
+    if (env.NODE_ENV === 'production' && env.START_FAKES === 'true') {
+      ctx.addIssue({ code: 'custom', path: ['START_FAKES'], message: 'must be false in production: the demo identity provider and mail catcher are for development only' });
     }
   });
 
@@ -56,6 +62,7 @@ export interface Config {
   mailDir: string;
   startFakes: boolean;
   trustProxy: boolean;
+  rateLimits: boolean;
   root: string;
 }
 
@@ -101,8 +108,9 @@ export function parseConfig(source: Record<string, string | undefined>): Config 
     mailFrom: env.MAIL_FROM,
     storageDir,
     mailDir: env.MAIL_DIR ? path.resolve(root, env.MAIL_DIR) : path.join(storageDir, 'mail'),
-    startFakes: env.START_FAKES === 'true',
+    startFakes: env.START_FAKES ? env.START_FAKES === 'true' : env.NODE_ENV !== 'production',
     trustProxy: env.TRUST_PROXY === 'true',
+    rateLimits: env.RATE_LIMITS ? env.RATE_LIMITS === 'on' : env.NODE_ENV !== 'test',
     root,
   };
 }

@@ -35,6 +35,10 @@ export interface RunningIdp {
 }
 
 export async function startIdp(opts: StartIdpOptions): Promise<RunningIdp> {
+  // Its accounts and keys are public knowledge: it must never stand in for a studio's real sign-in.
+  if (process.env.NODE_ENV === 'production') {
+    throw new Error('The demo identity provider does not run with NODE_ENV=production. Configure OIDC_ISSUER to point at your studio\'s identity provider.');
+  }
   const host = opts.host ?? '127.0.0.1';
   const keys = createDevelopmentKeys();
 

@@ -12,8 +12,6 @@ import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
 import { startServer } from '../api/server.ts';
 import { DEMO_PASSWORD, demoAccounts } from '../fake-idp/accounts.ts';
-import { startIdp } from '../fake-idp/server.ts';
-import { startMailCatcher } from './mail-catcher.ts';
 import { type Cluster, ensureDatabase, findPgBin, startCluster } from './pg.ts';
 import { assertPortFree } from './ports.ts';
 
@@ -91,13 +89,17 @@ async function main(): Promise<void> {
   try {
     const applied = await migrateToLatest(handle.db);
     if (applied.length) console.log(`Migrations applied: ${applied.join(', ')}`);
-    if (await seedDemo(handle.db, { storageDir: config.storageDir })) console.log('Loaded the demo scenario (The Lantern Keeper).');
+    // Demo people and records never enter a production database.
+    if (!config.isProduction && (await seedDemo(handle.db, { storageDir: config.storageDir }))) console.log('Loaded the demo scenario (The Lantern Keeper).');
   } finally {
     await handle.close();
   }
 
   await fs.mkdir(config.storageDir, { recursive: true });
   if (config.startFakes) {
+    // Loaded only here: a production install leaves these development fakes out.
+    const { startMailCatcher } = await import('./mail-catcher.ts');
+    const { startIdp } = await import('../fake-idp/server.ts');
     const catcher = await startMailCatcher({ port: config.smtpCatcherPort, dir: config.mailDir });
     closers.push(() => catcher.close());
     const idp = await startIdp({

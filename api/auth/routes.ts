@@ -4,7 +4,8 @@ import { LogoutResultSchema } from '#shared/schemas/session.ts';
 import { writeAudit } from '../http/audit.ts';
 import { defineRoute } from '../http/route.ts';
 import { client } from './oidc-client.ts';
-import { linkPerformerByEmail, upsertUserFromClaims } from './users.ts';
+import { linkConfirmedPerformerAtSignIn } from '../features/identity/service.ts';
+import { EmailBoundElsewhere, mayActAsPerformer, upsertUserFromClaims } from './users.ts';
 
 const LoginQuerySchema = z.object({
   returnTo: z
@@ -112,14 +113,22 @@ export const authRoutes = [
         delete req.session.oidc;
         return signInFailed(res, 'Staff must enter their password again to leave the signing screen.');
       }
-      const user = await upsertUserFromClaims(ctx.db, {
+      let user: Awaited<ReturnType<typeof upsertUserFromClaims>>;
+      try {
+        user = await upsertUserFromClaims(ctx.db, {
         issuer: String(claims.iss),
         sub: claims.sub,
         email: typeof claims.email === 'string' ? claims.email : null,
         emailVerified: claims.email_verified === true,
         name: typeof claims.name === 'string' ? claims.name : null,
-      });
-      if (claims.email_verified === true && typeof claims.email === 'string') await linkPerformerByEmail(ctx.db, user.id, claims.email);
+        });
+      } catch (err) {
+        if (!(err instanceof EmailBoundElsewhere)) throw err;
+        delete req.session.oidc;
+        await writeAudit(ctx.db, { actorUserId: err.userId, action: 'auth.sign_in_refused', entityType: 'user', entityId: err.userId, req, details: { reason: 'email_bound_to_other_subject', issuer: String(claims.iss) } });
+        return signInFailed(res, 'This e-mail address already belongs to another sign-in at Plinth. Ask the studio administrator to check your account.');
+      }
+      if (claims.email_verified === true && typeof claims.email === 'string') await linkConfirmedPerformerAtSignIn(ctx, user.id, claims.email, mayActAsPerformer);
       const returnTo = pending.returnTo;
       // A new session id at sign-in, so an id planted before sign-in is worthless after it.
       await regenerate(req);

@@ -1,6 +1,13 @@
 import { sql } from 'kysely';
 import type { Db } from '../db/index.ts';
 
+/** A sign-in whose e-mail already belongs to a Plinth user bound to another identity-provider subject. */
+export class EmailBoundElsewhere extends Error {
+  constructor(public readonly userId: string | null) {
+    super('email already linked to another sign-in');
+  }
+}
+
 export interface IdClaims {
   issuer: string;
   sub: string;
@@ -58,7 +65,8 @@ export async function upsertUserFromClaims(db: Db, claims: IdClaims): Promise<{ 
       .executeTakeFirst();
     if (!row) {
       // The e-mail belongs to a user already linked to another identity: refuse rather than merge.
-      throw new Error('email already linked to another sign-in');
+      const holder = await trx.selectFrom('users').select('id').where(sql`lower(email)`, '=', email.toLowerCase()).executeTakeFirst();
+      throw new EmailBoundElsewhere(holder?.id ?? null);
     }
     return { id: row.id, created: true };
   });
@@ -76,39 +84,4 @@ export async function mayActAsPerformer(db: Db, userId: string): Promise<boolean
   if (staff) return false;
   const lead = await db.selectFrom('lead_appointments').select('id').where('user_id', '=', userId).executeTakeFirst();
   return !lead;
-}
-
-/**
- * A performer record carrying the same verified e-mail, not yet linked to anyone, is linked to
- * this sign-in, with the performer role on each production they are engaged on. So a performer
- * the department registered can sign in and see their own record without anyone picking accounts.
- */
-export async function linkPerformerByEmail(db: Db, userId: string, email: string): Promise<string | null> {
-  return db.transaction().execute(async (trx) => {
-    const already = await trx.selectFrom('performers').select('id').where('user_id', '=', userId).executeTakeFirst();
-    if (already) return null;
-    if (!(await mayActAsPerformer(trx, userId))) return null;
-    const performer = await trx
-      .selectFrom('performers')
-      .select('id')
-      .where(sql`lower(email)`, '=', email.toLowerCase())
-      .where('user_id', 'is', null)
-      .forUpdate()
-      .executeTakeFirst();
-    if (!performer) return null;
-    await trx.updateTable('performers').set({ user_id: userId }).where('id', '=', performer.id).execute();
-    const engagements = await trx.selectFrom('engagements').select('production_id').where('performer_id', '=', performer.id).execute();
-    if (engagements.length) {
-      await trx
-        .insertInto('memberships')
-        .values(engagements.map((e) => ({ user_id: userId, production_id: e.production_id, role: 'performer' as const, created_by: null })))
-        .onConflict((oc) => oc.columns(['user_id', 'production_id', 'role']).doNothing())
-        .execute();
-    }
-    await trx
-      .insertInto('audit_log')
-      .values({ actor_user_id: userId, action: 'performer.link_on_sign_in', entity_type: 'performer', entity_id: performer.id, details: JSON.stringify({ productions: engagements.length }) })
-      .execute();
-    return performer.id;
-  });
 }

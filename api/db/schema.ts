@@ -62,6 +62,8 @@ export interface PerformersTable {
   notes: string | null;
   portrait_file_id: string | null;
   portrait_thumb_file_id: string | null;
+  /** When the performer confirmed `email` as theirs; null while unconfirmed (reset whenever it changes). */
+  email_confirmed_at: Date | null;
   created_at: Timestamp;
   updated_at: Timestamp;
   version: Generated<number>;
@@ -93,6 +95,8 @@ export interface AuditLogTable {
   production_id: string | null;
   details: ColumnType<Record<string, unknown>, string | undefined, string>;
   ip: string | null;
+  /** The performer who acted without a sign-in (through a one-time link). */
+  actor_performer_id: ColumnType<string | null, string | null | undefined, string | null>;
 }
 
 export interface FilesTable {
@@ -189,6 +193,29 @@ export interface WithdrawalLinksTable {
   created_at: Timestamp;
 }
 
+export interface EmailConfirmationsTable {
+  id: Generated<string>;
+  performer_id: string;
+  email: string;
+  token_hash: string;
+  expires_at: Timestamp;
+  created_by: string | null;
+  created_at: Timestamp;
+  used_at: Date | null;
+}
+
+export interface AccountInvitationsTable {
+  id: Generated<string>;
+  performer_id: string;
+  email: string;
+  token_hash: string;
+  expires_at: Timestamp;
+  created_by: string | null;
+  created_at: Timestamp;
+  accepted_at: Date | null;
+  accepted_user_id: string | null;
+}
+
 export interface BookingsTable {
   id: Generated<string>;
   performer_id: string;
@@ -210,6 +237,8 @@ export interface Database {
   consent_answers: ConsentAnswersTable;
   withdrawal_links: WithdrawalLinksTable;
   bookings: BookingsTable;
+  email_confirmations: EmailConfirmationsTable;
+  account_invitations: AccountInvitationsTable;
   users: UsersTable;
   productions: ProductionsTable;
   memberships: MembershipsTable;

@@ -22,13 +22,14 @@ export const DEMO_USERS = [
   { key: 'performer', email: 'performer@plinth.test', name: 'Juno Castellane', isAdmin: false },
 ] as const;
 
+// Each demo performer has confirmed their address; one entered or changed by staff starts unconfirmed.
 const DEMO_PERFORMERS = [
-  { legal: 'Juno Castellane', preferred: null, pronouns: 'she/her', email: 'performer@plinth.test', character: 'The Keeper', user: 'performer' },
-  { legal: 'Oswin Parfitt-Reyes', preferred: 'Oz Parfitt', pronouns: 'he/him', email: 'oz.parfitt@example.test', character: 'The Drowned Sailor', user: null },
-  { legal: 'Halvard Imre Solberg', preferred: null, pronouns: 'he/him', email: 'h.solberg@example.test', character: 'Harbourmaster Quill', user: null },
-  { legal: 'Beatrix Nwachukwu', preferred: 'Bea Nwachukwu', pronouns: 'she/her', email: 'bea.n@example.test', character: 'The Gull Widow', user: null },
-  { legal: 'Tamsin Achebe-Lowry', preferred: null, pronouns: 'they/them', email: 'tamsin.al@example.test', character: 'Young Keeper', user: null },
-  { legal: 'Corentin Malik Ashdown', preferred: 'Cory Ashdown', pronouns: null, email: 'cory.ashdown@example.test', character: 'The Lamp Ghost', user: null },
+  { legal: 'Juno Castellane', preferred: null, pronouns: 'she/her', email: 'performer@plinth.test', character: 'The Keeper', user: 'performer', confirmed: true },
+  { legal: 'Oswin Parfitt-Reyes', preferred: 'Oz Parfitt', pronouns: 'he/him', email: 'oz.parfitt@example.test', character: 'The Drowned Sailor', user: null, confirmed: true },
+  { legal: 'Halvard Imre Solberg', preferred: null, pronouns: 'he/him', email: 'h.solberg@example.test', character: 'Harbourmaster Quill', user: null, confirmed: true },
+  { legal: 'Beatrix Nwachukwu', preferred: 'Bea Nwachukwu', pronouns: 'she/her', email: 'bea.n@example.test', character: 'The Gull Widow', user: null, confirmed: true },
+  { legal: 'Tamsin Achebe-Lowry', preferred: null, pronouns: 'they/them', email: 'tamsin.al@example.test', character: 'Young Keeper', user: null, confirmed: true },
+  { legal: 'Corentin Malik Ashdown', preferred: 'Cory Ashdown', pronouns: null, email: 'cory.ashdown@example.test', character: 'The Lamp Ghost', user: null, confirmed: true },
 ] as const;
 
 /** Loads the demo scenario into an empty database; returns false (and touches nothing) otherwise. */
@@ -85,7 +86,7 @@ export async function seedDemo(db: Db, opts: { storageDir?: string } = {}): Prom
     for (const p of DEMO_PERFORMERS) {
       const row = await trx
         .insertInto('performers')
-        .values({ legal_name: p.legal, preferred_name: p.preferred, pronouns: p.pronouns, email: p.email, user_id: p.user ? id(p.user) : null, emergency_contact_name: 'Production office', emergency_contact_phone: '+44 20 7946 0000' })
+        .values({ legal_name: p.legal, preferred_name: p.preferred, pronouns: p.pronouns, email: p.email, email_confirmed_at: p.confirmed ? new Date() : null, user_id: p.user ? id(p.user) : null, emergency_contact_name: 'Production office', emergency_contact_phone: '+44 20 7946 0000' })
         .returning('id')
         .executeTakeFirstOrThrow();
       await trx

@@ -3,6 +3,8 @@ import type { Db } from '../db/index.ts';
 
 export interface AuditEvent {
   actorUserId: string | null;
+  /** The performer who acted through a one-time link, with no sign-in. */
+  actorPerformerId?: string | null;
   action: string;
   entityType: string;
   entityId?: string | null;
@@ -17,6 +19,7 @@ export async function writeAudit(db: Db, e: AuditEvent): Promise<void> {
     .insertInto('audit_log')
     .values({
       actor_user_id: e.actorUserId,
+      actor_performer_id: e.actorPerformerId ?? null,
       action: e.action,
       entity_type: e.entityType,
       entity_id: e.entityId ?? null,

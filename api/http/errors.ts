@@ -42,6 +42,9 @@ function fromPostgres(err: unknown): ApiError | null {
   if (e.code === '23505') return new ApiError('conflict', 'That would duplicate an existing record.');
   if (e.code === '23503') return new ApiError('conflict', 'That refers to a record that does not exist or is still in use.');
   if (e.code === '22P02' || e.code === '23514') return new ApiError('validation_failed', 'A value was not acceptable.', {});
+  // Text PostgreSQL cannot store (a NUL that got past the guard) and dates out of its range.
+  if (e.code === '22021' || e.code === '22P05') return new ApiError('validation_failed', 'Some text holds characters that cannot be stored.', {});
+  if (e.code === '22008' || e.code === '22007' || e.code === '22003') return new ApiError('validation_failed', 'A date or number is out of range.', {});
   return null;
 }
 
@@ -51,6 +54,12 @@ export function toApiError(err: unknown): ApiError {
   const e = err as { type?: string; status?: number; code?: string; name?: string } | null;
   if (e?.type === 'entity.too.large' || e?.code === 'LIMIT_FILE_SIZE') return new ApiError('payload_too_large', 'That is larger than allowed.');
   if (e?.type === 'entity.parse.failed') return new ApiError('validation_failed', 'The request body is not valid JSON.', { fields: {} });
+  if (e?.type === 'charset.unsupported') return new ApiError('unsupported_media_type', 'Send JSON encoded as UTF-8.');
+  if (e?.type === 'encoding.unsupported') return new ApiError('unsupported_media_type', 'That content encoding is not accepted; send the body uncompressed or gzip-compressed.');
+  // A body that claims a compression it does not have, or is cut short.
+  if (e?.type === 'request.aborted' || e?.code === 'Z_DATA_ERROR' || e?.code === 'Z_BUF_ERROR' || (e?.status === 400 && typeof e?.type === 'string')) {
+    return new ApiError('validation_failed', 'The request body could not be read.', { fields: {} });
+  }
   if (isDatabaseDown(err)) return new ApiError('unavailable', 'The database is not reachable right now. Try again in a moment.');
   const pgErr = fromPostgres(err);
   if (pgErr) return pgErr;
@@ -61,10 +70,20 @@ export function errorBody(err: ApiError): ErrorBody {
   return { error: { code: err.code, message: err.message, ...(err.details ? { details: err.details } : {}) } };
 }
 
+// One-time signing, withdrawal and confirmation tokens are the performer's alone: never written to a log.
+const TOKEN_PATHS = /(\/(?:api\/)?(?:signing|sign|withdrawal-links|withdraw|email-confirmations|confirm-email|account-invitations|join)\/)[^/?#]+/g;
+
+/** A URL fit for a log line: token path segments and the whole query string replaced. */
+export function redactUrl(url: string): string {
+  const [pathPart] = url.split(/[?#]/, 1);
+  const redacted = (pathPart ?? '').replace(TOKEN_PATHS, '$1[redacted]');
+  return url.length > (pathPart ?? '').length ? `${redacted}?[redacted]` : redacted;
+}
+
 export function errorHandler(log: (msg: string, err?: unknown) => void): ErrorRequestHandler {
   return (err, req, res, _next) => {
     const apiErr = toApiError(err);
-    if (apiErr.code === 'internal') log(`${req.method} ${req.originalUrl} failed`, err);
+    if (apiErr.code === 'internal') log(`${req.method} ${redactUrl(req.originalUrl)} failed`, err);
     if (res.headersSent) return;
     res.status(apiErr.status).json(errorBody(apiErr));
   };

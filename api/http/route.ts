@@ -6,6 +6,7 @@ import type { Action, Actor } from '#shared/policy.ts';
 import type { AppContext } from '../context.ts';
 import { ApiError, invalid, unauthenticated } from './errors.ts';
 import { fieldErrorsFromIssues } from '#shared/errors.ts';
+import { controlCharFields } from '#shared/schemas/common.ts';
 import { loadActor } from './actor.ts';
 import { authorize } from './authorize.ts';
 
@@ -70,6 +71,16 @@ function parseOr400<T>(schema: z.ZodType<T> | undefined, value: unknown, where: 
   return r.data;
 }
 
+/** Input guard for every route: a NUL or other control character never reaches a schema or PostgreSQL. */
+function refuseControlChars(req: Request): void {
+  const fields = {
+    ...controlCharFields(req.params),
+    ...controlCharFields(req.query),
+    ...(req.body && typeof req.body === 'object' ? controlCharFields(req.body) : {}),
+  };
+  if (Object.keys(fields).length) throw invalid(fields, 'Some text holds control characters, which Plinth does not accept.');
+}
+
 /** Mounts routes on a router: input parsed here (trust boundary), session checked, reply shaped by its schema. */
 export function mountRoutes(router: Router, routes: readonly AnyRoute[], ctx: AppContext): void {
   for (const route of routes) {
@@ -85,6 +96,7 @@ export function mountRoutes(router: Router, routes: readonly AnyRoute[], ctx: Ap
           throw unauthenticated();
         }
         if (route.requires) authorize(actor as Actor, route.requires);
+        refuseControlChars(req);
         const params = parseOr400(route.params, req.params, 'path');
         const query = parseOr400(route.query, req.query, 'query');
         const body = parseOr400(route.body, req.body, 'body');

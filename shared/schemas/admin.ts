@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { DisplayNameSchema, EmailSchema, IdSchema, VersionSchema, pageQuerySchema, pagedSchema } from './common.ts';
+import { CalendarDateSchema, DisplayNameSchema, EmailSchema, IdSchema, VersionSchema, pageQuerySchema, pagedSchema } from './common.ts';
 import { ProductionRoleSchema } from './session.ts';
 
 // ---- users
@@ -44,7 +44,7 @@ export const PRODUCTION_KIND_LABELS: Record<(typeof PRODUCTION_KINDS)[number], s
   other: 'Other',
 };
 
-const DateSchema = z.iso.date({ message: 'Use a date like 2027-03-01' });
+const DateSchema = CalendarDateSchema;
 
 export const ProductionSchema = z.object({
   id: IdSchema,

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { CONSENT_KINDS } from '../domain/consent.ts';
 import { QuestionsSchema } from '../domain/questionnaire.ts';
-import { IdSchema, VersionSchema } from './common.ts';
+import { IdSchema, MomentInputSchema, VersionSchema } from './common.ts';
 
 export const ConsentKindSchema = z.enum(CONSENT_KINDS, { message: 'Choose a consent kind' });
 export const ConsentStateSchema = z.enum(['active', 'expired', 'withdrawn']);
@@ -203,7 +203,7 @@ export const CreateBookingInputSchema = z.object({
   performerId: IdSchema,
   productionId: IdSchema,
   purpose: z.enum(['patch_test', 'life_cast', 'application'], { message: 'Choose what the session is for' }),
-  startsAt: z.iso.datetime({ offset: true, message: 'Choose a date and time' }),
+  startsAt: MomentInputSchema,
   location: z.string().trim().max(200).optional(),
 });
 export type CreateBookingInput = z.infer<typeof CreateBookingInputSchema>;

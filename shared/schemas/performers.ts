@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { CONSENT_KINDS } from '../domain/consent.ts';
-import { IdSchema, VersionSchema, pagedSchema } from './common.ts';
+import { CalendarDateSchema, IdSchema, VersionSchema, pagedSchema } from './common.ts';
 import { BookingSchema, ConsentSummarySchema } from './consents.ts';
 
 const optionalText = (max: number, message = `At most ${max} characters`) =>
@@ -13,7 +13,7 @@ const optionalText = (max: number, message = `At most ${max} characters`) =>
     .optional()
     .transform((v) => v ?? null);
 
-const DateSchema = z.iso.date({ message: 'Use a date like 2027-03-01' });
+const DateSchema = CalendarDateSchema;
 
 export const EngagementInputSchema = z
   .object({
@@ -52,7 +52,14 @@ export type CreatePerformerInput = z.infer<typeof CreatePerformerInputSchema>;
 export const UpdatePerformerInputSchema = CreatePerformerInputSchema.extend({ version: VersionSchema });
 export type UpdatePerformerInput = z.infer<typeof UpdatePerformerInputSchema>;
 
-export const LinkAccountInputSchema = z.object({ userId: IdSchema.nullable(), version: VersionSchema });
+/**
+ * Staff may only unlink a sign-in. Linking is the performer's own act: accepting an invitation
+ * sent to their confirmed address, or signing in with that confirmed address.
+ */
+export const LinkAccountInputSchema = z.object({
+  userId: z.null({ message: 'Staff can only unlink a sign-in. To link one, send the performer an invitation to their confirmed address.' }),
+  version: VersionSchema,
+});
 
 export const PERFORMER_CONSENT_FILTERS = ['any', 'complete', 'incomplete', 'expiring', 'withdrawn'] as const;
 export const PERFORMER_CONSENT_FILTER_LABELS: Record<(typeof PERFORMER_CONSENT_FILTERS)[number], string> = {
@@ -105,6 +112,8 @@ export const PerformerDetailSchema = z.object({
   contact: z
     .object({
       email: z.string().nullable(),
+      /** Whether the performer confirmed the address; until then it gets only the confirmation request. */
+      emailConfirmed: z.boolean(),
       phone: z.string().nullable(),
       emergencyContactName: z.string().nullable(),
       emergencyContactPhone: z.string().nullable(),

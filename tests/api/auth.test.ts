@@ -81,10 +81,10 @@ describe('sign-in through the identity provider (authorization code + PKCE)', ()
     expect((await request(t.app).get('/api/users').set('Cookie', sessionCookie(cb))).status).toBe(403);
   });
 
-  it('links a performer the department registered with the same verified e-mail, with the performer role', async () => {
+  it('links a performer whose confirmed e-mail is the verified e-mail of the sign-in, with the performer role', async () => {
     const performer = await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Halvard Imre Solberg').executeTakeFirstOrThrow();
-    // The newcomer has no role yet: a sign-in with no staff role may stand for a performer.
-    await t.db.db.updateTable('performers').set({ email: 'newcomer@plinth.test' }).where('id', '=', performer.id).execute();
+    // The newcomer has no role yet: a sign-in with no staff role may stand for a performer; the performer confirmed the address.
+    await t.db.db.updateTable('performers').set({ email: 'newcomer@plinth.test', email_confirmed_at: new Date() }).where('id', '=', performer.id).execute();
     const { authUrl, cookie } = await startLogin();
     const { callbackUrl } = await signInAtIdp(authUrl, idp.issuer, 'newcomer@plinth.test', DEMO_PASSWORD);
     const cb = await request(t.app).get(callbackUrl.slice(ORIGIN.length)).set('Cookie', cookie);

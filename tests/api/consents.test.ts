@@ -1,3 +1,4 @@
+import { afterResponseSettled } from '../../api/http/after-response.ts';
 import { createHash, randomUUID } from 'node:crypto';
 import { promises as fs } from 'node:fs';
 import path from 'node:path';
@@ -375,6 +376,8 @@ describe('withdrawal', () => {
     expect(known.status).toBe(202);
     // The same answer either way, so the form tells no one who is on record.
     expect(known.body).toEqual(unknown.body);
+    // The link is made and mailed after the reply has gone.
+    await afterResponseSettled();
     const mail = await lastMailTo('bea.n@example.test');
     const token = /\/withdraw\/([A-Za-z0-9_-]{40,60})/.exec(mail.text ?? '')![1]!;
     const view = await request(t.app).get(`/api/withdrawal-links/${token}`);
@@ -384,6 +387,9 @@ describe('withdrawal', () => {
     const res = await request(t.app).post(`/api/withdrawal-links/${token}/withdraw`).send({ consentId: active.id });
     expect(res.status).toBe(200);
     expect((await t.db.db.selectFrom('consents').select('withdrawn_via').where('id', '=', active.id).executeTakeFirstOrThrow()).withdrawn_via).toBe('link');
+    // The performer, not "nobody", is recorded as the one who withdrew.
+    const audit = await t.db.db.selectFrom('audit_log').select(['actor_performer_id', 'details']).where('action', '=', 'consent.withdraw').where('entity_id', '=', active.id).executeTakeFirstOrThrow();
+    expect(audit.actor_performer_id).toBe(await performerId('Beatrix Nwachukwu'));
     // Another performer's consent cannot be reached through this link.
     const other = await t.db.db.selectFrom('consents').select('id').where('performer_id', '=', await performerId('Juno Castellane')).executeTakeFirstOrThrow();
     expect((await request(t.app).post(`/api/withdrawal-links/${token}/withdraw`).send({ consentId: other.id })).status).toBe(404);

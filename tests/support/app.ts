@@ -19,6 +19,8 @@ export interface TestApp {
   config: Config;
   db: TestDb;
   mail: MailCatcher;
+  /** Every line the app logged, in order. */
+  logs: string[];
   /** A session for this user (by e-mail) made directly in the session store; returns the Cookie header. */
   sessionFor(email: string): Promise<string>;
   userId(email: string): Promise<string>;
@@ -65,6 +67,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
     config,
     db,
     mail,
+    logs: logged,
     userId,
     async sessionFor(email: string) {
       const id = await userId(email);

@@ -31,6 +31,17 @@ describe('parseConfig', () => {
   it('refuses the development session secret in production without the local fakes', () => {
     expect(() => parseConfig({ NODE_ENV: 'production', START_FAKES: 'false' })).toThrow(/SESSION_SECRET/);
   });
+  it('refuses the development session secret in production even with the local fakes asked for', () => {
+    expect(() => parseConfig({ NODE_ENV: 'production', START_FAKES: 'true' })).toThrow(/SESSION_SECRET/);
+    expect(() => parseConfig({ NODE_ENV: 'production' })).toThrow(/SESSION_SECRET/);
+  });
+  it('never starts the development fakes in production, and says so if asked to', () => {
+    const secret = 'a-production-secret-of-at-least-32-chars!';
+    expect(parseConfig({ NODE_ENV: 'production', SESSION_SECRET: secret }).startFakes).toBe(false);
+    expect(() => parseConfig({ NODE_ENV: 'production', SESSION_SECRET: secret, START_FAKES: 'true' })).toThrow(/START_FAKES/);
+    expect(parseConfig({}).startFakes).toBe(true);
+    expect(parseConfig({ START_FAKES: 'false' }).startFakes).toBe(false);
+  });
   it('treats empty variables as unset', () => {
     expect(parseConfig({ PORT: '' }).port).toBe(3000);
   });

@@ -1,6 +1,4 @@
-import { randomBytes } from 'node:crypto';
 import type { Request } from 'express';
-import { rateLimit } from 'express-rate-limit';
 import { sql } from 'kysely';
 import { z } from 'zod';
 import { CONSENT_KIND_LABELS, consentState, withdrawalConsequences } from '#shared/domain/consent.ts';
@@ -21,11 +19,14 @@ import {
 import type { AppContext } from '../../context.ts';
 import { readStoredFile, sha256Hex } from '../../files/store.ts';
 import { writeAudit } from '../../http/audit.ts';
-import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
+import { conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
+import { rateLimiter } from '../../http/rate-limit.ts';
+import { hashToken, newToken } from '../../http/tokens.ts';
 import { receiveFile } from '../../http/upload.ts';
+import { afterResponse } from '../../http/after-response.ts';
+import { findConfirmedEmail } from '../identity/repo.ts';
 import { consentSummaryQuery, performerScope, toConsentSummary } from './repo.ts';
-import { hashToken } from './signing-routes.ts';
 
 const WITHDRAWAL_LINK_HOURS = 24;
 
@@ -56,7 +57,7 @@ async function loadConsent(ctx: AppContext, id: string) {
   return { row, scope };
 }
 
-async function withdraw(ctx: AppContext, req: Request, consentId: string, opts: { reason?: string; version?: number; by: string | null; via: 'performer' | 'lead' | 'link' }) {
+async function withdraw(ctx: AppContext, req: Request, consentId: string, opts: { reason?: string; version?: number; by: string | null; byPerformer?: string; via: 'performer' | 'lead' | 'link' }) {
   return ctx.db.transaction().execute(async (trx) => {
     const c = await trx.selectFrom('consents').select(['id', 'performer_id', 'production_id', 'kind', 'version', 'withdrawn_at', 'signed_at', 'expires_at']).where('id', '=', consentId).forUpdate().executeTakeFirst();
     if (!c) throw notFound('That consent');
@@ -70,14 +71,14 @@ async function withdraw(ctx: AppContext, req: Request, consentId: string, opts: 
       .set({ withdrawn_at: new Date(), withdrawn_by_user_id: opts.by, withdrawn_via: opts.via, withdrawal_reason: opts.reason || null, version: sql`version + 1` })
       .where('id', '=', consentId)
       .execute();
-    await writeAudit(trx, { actorUserId: opts.by, action: 'consent.withdraw', entityType: 'consent', entityId: consentId, productionId: c.production_id, req, details: { via: opts.via, kind: c.kind } });
+    await writeAudit(trx, { actorUserId: opts.by, actorPerformerId: opts.byPerformer ?? null, action: 'consent.withdraw', entityType: 'consent', entityId: consentId, productionId: c.production_id, req, details: { via: opts.via, kind: c.kind } });
     return c;
   });
 }
 
 async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, kind: keyof typeof CONSENT_KIND_LABELS): Promise<void> {
-  const p = await ctx.db.selectFrom('performers').select(['email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where('id', '=', performerId).executeTakeFirst();
-  if (!p?.email) return;
+  const p = await findConfirmedEmail(ctx.db, performerId);
+  if (!p) return;
   try {
     await ctx.mailer.send({
       to: p.email,
@@ -89,19 +90,47 @@ async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, 
   }
 }
 
-const linkLimiter = rateLimit({
-  windowMs: 60_000,
-  limit: (req: Request) => (req.app.get('env') === 'test' ? 10_000 : 10),
-  standardHeaders: 'draft-8',
-  legacyHeaders: false,
-  handler: (_req, _res, next) => next(new ApiError('rate_limited', 'Too many attempts. Wait a minute and try again.')),
-});
+const linkLimiter = rateLimiter({ windowMs: 60_000, limit: 10, message: 'Too many attempts. Wait a minute and try again.' });
 
 async function linkByToken(ctx: AppContext, token: string) {
   const link = await ctx.db.selectFrom('withdrawal_links').selectAll().where('token_hash', '=', hashToken(token)).executeTakeFirst();
   if (!link) throw notFound('This withdrawal link');
   if (new Date(link.expires_at).getTime() <= Date.now()) throw conflict('This withdrawal link has expired. Request a new one.');
   return link;
+}
+
+/** At most this many withdrawal links go to one address in an hour, whoever asks and from wherever. */
+const LINKS_PER_ADDRESS_PER_HOUR = 3;
+
+async function sendWithdrawalLink(ctx: AppContext, req: Request, email: string): Promise<void> {
+  // Only an address the performer confirmed: a link to withdraw is the performer's power alone.
+  const p = await ctx.db
+    .selectFrom('performers')
+    .select(['id', 'email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')])
+    .where(sql`lower(email)`, '=', email)
+    .where('email_confirmed_at', 'is not', null)
+    .executeTakeFirst();
+  if (!p?.email) return;
+  const recent = await ctx.db
+    .selectFrom('withdrawal_links')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('performer_id', '=', p.id)
+    .where('created_at', '>', new Date(Date.now() - 3_600_000))
+    .executeTakeFirstOrThrow();
+  if (Number(recent.n) >= LINKS_PER_ADDRESS_PER_HOUR) {
+    await writeAudit(ctx.db, { actorUserId: null, action: 'withdrawal_link.capped', entityType: 'performer', entityId: p.id, req });
+    return;
+  }
+  const token = newToken();
+  await ctx.db.transaction().execute(async (trx) => {
+    await trx.insertInto('withdrawal_links').values({ performer_id: p.id, token_hash: hashToken(token), expires_at: new Date(Date.now() + WITHDRAWAL_LINK_HOURS * 3_600_000) }).execute();
+    await writeAudit(trx, { actorUserId: null, action: 'withdrawal_link.create', entityType: 'performer', entityId: p.id, req });
+  });
+  await ctx.mailer.send({
+    to: p.email,
+    subject: 'Your link to withdraw consents',
+    text: [`Hello ${p.name},`, '', 'You asked for a link to see and withdraw the consents you gave the make-up department:', '', `${ctx.config.appOrigin}/withdraw/${token}`, '', 'It works for 24 hours. If you did not ask for it, you can ignore this e-mail.'].join('\n'),
+  });
 }
 
 const TokenParams = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{40,60}$/, 'Not a withdrawal link') });
@@ -242,23 +271,10 @@ export const consentRoutes = [
     status: 202,
     before: [linkLimiter],
     errors: [429],
-    async handler({ ctx, body, req }) {
-      const message = 'If Plinth has consents for that address, a link to withdraw them is on its way. It works for 24 hours.';
-      const p = await ctx.db.selectFrom('performers').select(['id', 'email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where(sql`lower(email)`, '=', body.email).executeTakeFirst();
-      if (!p?.email) return { ok: true as const, message };
-      const token = randomBytes(32).toString('base64url');
-      await ctx.db.insertInto('withdrawal_links').values({ performer_id: p.id, token_hash: hashToken(token), expires_at: new Date(Date.now() + WITHDRAWAL_LINK_HOURS * 3_600_000) }).execute();
-      await writeAudit(ctx.db, { actorUserId: null, action: 'withdrawal_link.create', entityType: 'performer', entityId: p.id, req });
-      try {
-        await ctx.mailer.send({
-          to: p.email,
-          subject: 'Your link to withdraw consents',
-          text: [`Hello ${p.name},`, '', 'You asked for a link to see and withdraw the consents you gave the make-up department:', '', `${ctx.config.appOrigin}/withdraw/${token}`, '', 'It works for 24 hours. If you did not ask for it, you can ignore this e-mail.'].join('\n'),
-        });
-      } catch (err) {
-        ctx.log('withdrawal link not sent', err);
-      }
-      return { ok: true as const, message };
+    async handler({ ctx, body, req, res }) {
+      // The same reply, at once, whether or not the address is on file; the work happens after it.
+      afterResponse(res, ctx.log, 'withdrawal link', () => sendWithdrawalLink(ctx, req, body.email));
+      return { ok: true as const, message: 'If Plinth has consents for that address, a link to withdraw them is on its way. It works for 24 hours.' };
     },
   }),
   defineRoute({
@@ -297,7 +313,9 @@ export const consentRoutes = [
       const link = await linkByToken(ctx, params.token);
       const c = await ctx.db.selectFrom('consents').select(['performer_id']).where('id', '=', body.consentId).executeTakeFirst();
       if (!c || c.performer_id !== link.performer_id) throw notFound('That consent');
-      const done = await withdraw(ctx, req, body.consentId, { reason: body.reason, by: null, via: 'link' });
+      // The link is the performer's: the withdrawal is recorded as their act, through their sign-in if they have one.
+      const owner = await ctx.db.selectFrom('performers').select('user_id').where('id', '=', link.performer_id).executeTakeFirst();
+      const done = await withdraw(ctx, req, body.consentId, { reason: body.reason, by: owner?.user_id ?? null, byPerformer: link.performer_id, via: 'link' });
       await ctx.db.updateTable('withdrawal_links').set({ used_at: sql`coalesce(used_at, now())` }).where('id', '=', link.id).execute();
       await sendWithdrawalConfirmation(ctx, done.performer_id, done.kind);
       return { ok: true as const };

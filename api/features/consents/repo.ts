@@ -130,13 +130,18 @@ export function toConsentSummary(r: ConsentSummaryRow, now = new Date()): Consen
 }
 
 /** Productions a performer is engaged on: the scope every permission question about them uses. */
-export async function performerScope(db: Db, performerId: string): Promise<{ id: string; name: string; email: string | null; productionIds: string[] } | undefined> {
+export async function performerScope(
+  db: Db,
+  performerId: string,
+): Promise<{ id: string; name: string; email: string | null; emailUnconfirmed: boolean; productionIds: string[] } | undefined> {
   const p = await db
     .selectFrom('performers')
-    .select(['id', sql<string>`coalesce(preferred_name, legal_name)`.as('name'), 'email'])
+    .select(['id', sql<string>`coalesce(preferred_name, legal_name)`.as('name'), 'email', 'email_confirmed_at'])
     .where('id', '=', performerId)
     .executeTakeFirst();
   if (!p) return undefined;
   const e = await db.selectFrom('engagements').select('production_id').where('performer_id', '=', performerId).execute();
-  return { id: p.id, name: p.name, email: p.email, productionIds: e.map((x) => x.production_id) };
+  // `email` is the address mail may go to: only one the performer confirmed.
+  const confirmed = p.email !== null && p.email_confirmed_at !== null;
+  return { id: p.id, name: p.name, email: confirmed ? p.email : null, emailUnconfirmed: p.email !== null && !confirmed, productionIds: e.map((x) => x.production_id) };
 }

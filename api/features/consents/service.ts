@@ -13,6 +13,7 @@ import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
 import { findTemplateVersion, type TemplateVersionRow } from './repo.ts';
 import { acceptSignature } from './signature.ts';
+import { findConfirmedEmail } from '../identity/repo.ts';
 
 export interface SignedConsentParams {
   performerId: string;
@@ -227,8 +228,9 @@ export async function submitSignature(
 
 /** E-mails the performer their signed copy; a failed send is logged and does not undo the signing. */
 export async function sendConsentCopy(ctx: AppContext, performerId: string, template: Pick<TemplateVersionRow, 'title' | 'kind'>, pdf: Buffer, consentId: string): Promise<string | null> {
-  const performer = await ctx.db.selectFrom('performers').select(['email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where('id', '=', performerId).executeTakeFirst();
-  if (!performer?.email) return null;
+  // The copy carries the answers: it goes only to an address the performer confirmed as theirs.
+  const performer = await findConfirmedEmail(ctx.db, performerId);
+  if (!performer) return null;
   try {
     await ctx.mailer.send({
       to: performer.email,

@@ -1,6 +1,5 @@
-import { createHash, randomBytes, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
 import type { Request } from 'express';
-import { rateLimit } from 'express-rate-limit';
 import { sql } from 'kysely';
 import { z } from 'zod';
 import { CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
@@ -23,15 +22,13 @@ import { writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { ApiError, conflict, invalid, notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
+import { rateLimiter } from '../../http/rate-limit.ts';
+import { hashToken, newToken } from '../../http/tokens.ts';
 import { findCurrentTemplateVersion, performerScope } from './repo.ts';
 import { submitSignature, type OpenRequest } from './service.ts';
 
 const TABLET_REQUEST_HOURS = 2;
 const LINK_REQUEST_DAYS = 7;
-
-export function hashToken(token: string): string {
-  return createHash('sha256').update(token).digest('hex');
-}
 
 const TokenParamsSchema = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{40,60}$/, 'Not a signing link') });
 
@@ -99,13 +96,7 @@ async function requestByToken(ctx: AppContext, token: string): Promise<RequestRo
   return r;
 }
 
-const publicLimiter = rateLimit({
-  windowMs: 60_000,
-  limit: (req: Request) => (req.app.get('env') === 'test' ? 10_000 : 30),
-  standardHeaders: 'draft-8',
-  legacyHeaders: false,
-  handler: (_req, _res, next) => next(new ApiError('rate_limited', 'Too many attempts. Wait a minute and try again.')),
-});
+const publicLimiter = rateLimiter({ windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
 
 function clientMeta(req: Request) {
   return { ip: req.ip ?? null, userAgent: req.get('user-agent')?.slice(0, 400) ?? null };
@@ -145,8 +136,16 @@ export const signingRoutes = [
       if (!performer || !performer.productionIds.includes(body.productionId)) throw invalid({ performerId: ['This performer is not engaged on this production.'] });
       const template = await ctx.db.selectFrom('consent_templates').select(['id', 'archived']).where('id', '=', body.templateId).executeTakeFirst();
       if (!template || template.archived) throw invalid({ templateId: ['Choose a current form.'] });
-      if (body.mode === 'link' && !performer.email) throw invalid({ mode: ['This performer has no e-mail address on record. Add one, or sign on the tablet.'] });
-      const token = body.mode === 'link' ? randomBytes(32).toString('base64url') : null;
+      if (body.mode === 'link' && !performer.email) {
+        throw invalid({
+          mode: [
+            performer.emailUnconfirmed
+              ? 'The performer has not yet confirmed their e-mail address, so no signing link can go to it. Sign on the tablet, or ask them to confirm it first.'
+              : 'This performer has no e-mail address on record. Add one, or sign on the tablet.',
+          ],
+        });
+      }
+      const token = body.mode === 'link' ? newToken() : null;
       const expiresAt = new Date(Date.now() + (body.mode === 'link' ? LINK_REQUEST_DAYS * 86_400_000 : TABLET_REQUEST_HOURS * 3_600_000));
       const id = await ctx.db.transaction().execute(async (trx) => {
         const r = await trx

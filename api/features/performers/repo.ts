@@ -23,6 +23,8 @@ export interface PerformerFields {
 export interface PerformerRecord extends PerformerFields {
   id: string;
   userId: string | null;
+  /** The performer confirmed `email` as theirs (only then does their mail go there). */
+  emailConfirmed: boolean;
   portraitFileId: string | null;
   portraitThumbFileId: string | null;
   createdAt: string;
@@ -58,6 +60,7 @@ const PERFORMER_COLUMNS = [
   'performers.agent_contact',
   'performers.notes',
   'performers.user_id',
+  'performers.email_confirmed_at',
   'performers.portrait_file_id',
   'performers.portrait_thumb_file_id',
   'performers.created_at',
@@ -236,6 +239,7 @@ function toRecord(r: PerformerDbRow): PerformerRecord {
     agentContact: r.agent_contact,
     notes: r.notes,
     userId: r.user_id,
+    emailConfirmed: r.email !== null && r.email_confirmed_at !== null,
     portraitFileId: r.portrait_file_id,
     portraitThumbFileId: r.portrait_thumb_file_id,
     createdAt: new Date(r.created_at).toISOString(),

@@ -23,7 +23,8 @@ import { writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
-import { mayActAsPerformer } from '../../auth/users.ts';
+import { deliverAll } from '../../mail/deliver.ts';
+import { assertPerformerAddress, recordEmailChange, startConfirmation, unlinkNotices } from '../identity/service.ts';
 import { performerAccess, productionsWhere } from './access.ts';
 import { IMPORT_MAX_BYTES, checkImportRows, performersCsv, readImportFile } from './csv.ts';
 import { PORTRAIT_MAX_BYTES, processPortrait } from './portrait.ts';
@@ -36,7 +37,6 @@ import {
   deleteFileRows,
   findPerformer,
   findPerformerIdByEmail,
-  findPerformerLinkedTo,
   findPerformersByEmails,
   findUser,
   insertEngagements,
@@ -101,6 +101,7 @@ async function detailFor(db: Db, { performer: p, engagements, access }: Loaded):
     contact: access.canSeeContact
       ? {
           email: p.email,
+          emailConfirmed: p.emailConfirmed,
           phone: p.phone,
           emergencyContactName: p.emergencyContactName,
           emergencyContactPhone: p.emergencyContactPhone,
@@ -364,7 +365,8 @@ export const performerRoutes: AnyRoute[] = [
       if (Object.keys(dupes).length) throw invalid(dupes);
       const fields = fieldsOf(body);
       if (fields.email && (await findPerformerIdByEmail(ctx.db, fields.email))) throw emailTaken();
-      const id = await ctx.db
+      await assertPerformerAddress(ctx.db, fields.email);
+      const { id, mails } = await ctx.db
         .transaction()
         .execute(async (trx) => {
           const newId = await insertPerformer(trx, fields);
@@ -373,9 +375,12 @@ export const performerRoutes: AnyRoute[] = [
           for (const e of body.engagements) {
             await writeAudit(trx, { actorUserId: actor.userId, action: 'engagement.add', entityType: 'performer', entityId: newId, productionId: e.productionId, req, details: { characterName: e.characterName } });
           }
-          return newId;
+          // An address staff entered is unconfirmed: it gets the confirmation request and nothing else.
+          const confirm = fields.email ? [await startConfirmation(trx, ctx, { id: newId, name: fields.preferredName ?? fields.legalName }, fields.email, actor.userId)] : [];
+          return { id: newId, mails: confirm };
         })
         .catch(duplicateToField);
+      await deliverAll(ctx, mails);
       return buildDetail(ctx.db, actor, id);
     },
   }),
@@ -401,6 +406,8 @@ export const performerRoutes: AnyRoute[] = [
           if (Object.keys(dupes).length) throw invalid(dupes);
           const fields = fieldsOf(body);
           if (fields.email && (await findPerformerIdByEmail(trx, fields.email, params.id))) throw emailTaken();
+          const emailChanged = (fields.email ?? null) !== (current.email?.toLowerCase() ?? null);
+          if (emailChanged) await assertPerformerAddress(trx, fields.email);
 
           const managed = new Set(access.managedProductionIds);
           const existing = new Map(engagedOn.map((e) => [e.productionId, e]));
@@ -418,7 +425,10 @@ export const performerRoutes: AnyRoute[] = [
           }
           const toRemove = [...managed].filter((p) => !wanted.has(p));
 
-          if (!(await updatePerformerAtVersion(trx, params.id, fields, body.version))) throw staleEdit(current.version);
+          if (!(await updatePerformerAtVersion(trx, params.id, emailChanged ? fields : { ...fields, email: current.email }, body.version))) throw staleEdit(current.version);
+          const mails = emailChanged
+            ? await recordEmailChange(trx, ctx, { performerId: params.id, before: { email: current.email, confirmed: current.emailConfirmed }, after: fields.email, actor, req })
+            : [];
           for (const e of toUpdate) await updateEngagement(trx, params.id, e);
           await deleteEngagements(trx, params.id, toRemove);
           await insertEngagements(trx, toAdd.map((e) => ({ ...e, performerId: params.id })));
@@ -436,8 +446,10 @@ export const performerRoutes: AnyRoute[] = [
             const removed = await removePerformerMemberships(trx, current.userId, toRemove);
             await auditMemberships(trx, req, actor, current.userId, added, removed, params.id);
           }
+          return mails;
         })
-        .catch(duplicateToField);
+        .catch(duplicateToField)
+        .then((mails) => deliverAll(ctx, mails));
       return buildDetail(ctx.db, actor, params.id);
     },
   }),
@@ -445,7 +457,8 @@ export const performerRoutes: AnyRoute[] = [
     method: 'put',
     path: '/api/performers/:id/account',
     summary:
-      "Link a sign-in to the performer (or unlink with userId null). The sign-in gets the performer role on the performer's productions that you manage (every one, for the studio administrator)",
+      "Unlink the performer's sign-in (userId null); its performer role goes on the productions you manage (every one, for the studio administrator). " +
+      'Linking is the performer\'s own act (an invitation they accept, or signing in with the address they confirmed), never a staff action',
     tag: TAG,
     auth: 'session',
     params: IdParamsSchema,
@@ -453,39 +466,23 @@ export const performerRoutes: AnyRoute[] = [
     response: PerformerDetailSchema,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, body, req }) {
-      await ctx.db
-        .transaction()
-        .execute(async (trx) => {
-          const { current, engagedOn, access } = await lockForChange(trx, actor, params.id);
-          const productionIds = engagedOn.map((e) => e.productionId);
-          if (!access.canManage && !actor.isAdmin) throw forbidden('link a sign-in to this performer');
-          if (current.version !== body.version) throw staleEdit(current.version);
-          if (body.userId) {
-            if (!(await findUser(trx, body.userId))) throw invalid({ userId: ['That user does not exist.'] });
-            if (body.userId === actor.userId || !(await mayActAsPerformer(trx, body.userId))) {
-              throw invalid({ userId: ['Only a sign-in with no staff role may be linked to a performer (never your own, an administrator\'s or a lead\'s).'] });
-            }
-            const other = await findPerformerLinkedTo(trx, body.userId);
-            if (other && other.id !== params.id) throw invalid({ userId: ['This sign-in is already linked to another performer.'] });
-          }
-          // The administrator may give roles anywhere; a head or lead only where they manage performers.
-          const where = actor.isAdmin ? productionIds : access.managedProductionIds;
-          if (!(await setPerformerUserAtVersion(trx, params.id, body.userId, body.version))) throw staleEdit(current.version);
-          const previous = current.userId;
-          if (previous && previous !== body.userId) {
-            const removed = await removePerformerMemberships(trx, previous, where);
-            await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.account_unlink', entityType: 'performer', entityId: params.id, req, details: { userId: previous } });
-            await auditMemberships(trx, req, actor, previous, [], removed, params.id);
-          }
-          if (body.userId) {
-            const added = await addPerformerMemberships(trx, body.userId, where, actor.userId);
-            if (previous !== body.userId) {
-              await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.account_link', entityType: 'performer', entityId: params.id, req, details: { userId: body.userId } });
-            }
-            await auditMemberships(trx, req, actor, body.userId, added, [], params.id);
-          }
-        })
-        .catch(duplicateToField);
+      const mails = await ctx.db.transaction().execute(async (trx) => {
+        const { current, engagedOn, access } = await lockForChange(trx, actor, params.id);
+        const productionIds = engagedOn.map((e) => e.productionId);
+        if (!access.canManage && !actor.isAdmin) throw forbidden('unlink the sign-in of this performer');
+        if (current.version !== body.version) throw staleEdit(current.version);
+        const previous = current.userId;
+        if (!previous) return [];
+        // The administrator may take roles anywhere; a head or lead only where they manage performers.
+        const where = actor.isAdmin ? productionIds : access.managedProductionIds;
+        if (!(await setPerformerUserAtVersion(trx, params.id, null, body.version))) throw staleEdit(current.version);
+        const removed = await removePerformerMemberships(trx, previous, where);
+        await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.account_unlink', entityType: 'performer', entityId: params.id, req, details: { before: previous, after: null } });
+        await auditMemberships(trx, req, actor, previous, [], removed, params.id);
+        const me = await findUser(trx, actor.userId);
+        return unlinkNotices(trx, params.id, me?.displayName ?? 'A member of staff');
+      });
+      await deliverAll(ctx, mails);
       return buildDetail(ctx.db, actor, params.id);
     },
   }),

@@ -1,0 +1,151 @@
+import { sql } from 'kysely';
+import type { Db } from '../../db/index.ts';
+
+/** The identity facts of one performer: contact address, whether they confirmed it, their sign-in. */
+export interface PerformerIdentity {
+  id: string;
+  name: string;
+  email: string | null;
+  emailConfirmed: boolean;
+  userId: string | null;
+  productionIds: string[];
+}
+
+export async function findPerformerIdentity(db: Db, performerId: string, opts: { lock?: boolean } = {}): Promise<PerformerIdentity | undefined> {
+  let q = db
+    .selectFrom('performers')
+    .select([
+      'id',
+      sql<string>`coalesce(preferred_name, legal_name)`.as('name'),
+      'email',
+      'email_confirmed_at',
+      'user_id',
+      sql<string[]>`array(select e.production_id::text from engagements e where e.performer_id = performers.id)`.as('production_ids'),
+    ])
+    .where('id', '=', performerId);
+  if (opts.lock) q = q.forUpdate();
+  const row = await q.executeTakeFirst();
+  if (!row) return undefined;
+  return { id: row.id, name: row.name, email: row.email, emailConfirmed: row.email !== null && row.email_confirmed_at !== null, userId: row.user_id, productionIds: row.production_ids };
+}
+
+/** The address mail for the performer may go to: only one the performer confirmed. */
+export async function findConfirmedEmail(db: Db, performerId: string): Promise<{ email: string; name: string } | null> {
+  const row = await db
+    .selectFrom('performers')
+    .select(['email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')])
+    .where('id', '=', performerId)
+    .where('email', 'is not', null)
+    .where('email_confirmed_at', 'is not', null)
+    .executeTakeFirst();
+  return row?.email ? { email: row.email, name: row.name } : null;
+}
+
+/** Whether an address is the sign-in of an administrator, a lead or anyone with a staff role. */
+export async function isStaffAddress(db: Db, email: string): Promise<boolean> {
+  const row = await db
+    .selectFrom('users as u')
+    .select('u.id')
+    .where(sql`lower(u.email)`, '=', email.toLowerCase())
+    .where((eb) =>
+      eb.or([
+        eb('u.is_admin', '=', true),
+        eb.exists(eb.selectFrom('memberships as m').select('m.id').whereRef('m.user_id', '=', 'u.id').where('m.role', '!=', 'performer')),
+        eb.exists(eb.selectFrom('lead_appointments as l').select('l.id').whereRef('l.user_id', '=', 'u.id')),
+      ]),
+    )
+    .executeTakeFirst();
+  return Boolean(row);
+}
+
+/** The designated leads now in post on these productions, to be told of identity changes. */
+export async function findCurrentLeads(db: Db, productionIds: readonly string[]): Promise<{ email: string; name: string; productionId: string }[]> {
+  if (productionIds.length === 0) return [];
+  return db
+    .selectFrom('lead_appointments as l')
+    .innerJoin('users as u', 'u.id', 'l.user_id')
+    .select(['u.email', 'u.display_name as name', 'l.production_id as productionId'])
+    .where('l.production_id', 'in', [...productionIds])
+    .where('l.starts_at', '<=', sql<Date>`now()`)
+    .where((eb) => eb.or([eb('l.ends_at', 'is', null), eb('l.ends_at', '>', sql<Date>`now()`)]))
+    .execute();
+}
+
+export async function countRecentConfirmations(db: Db, performerId: string, since: Date): Promise<number> {
+  const row = await db.selectFrom('email_confirmations').select((eb) => eb.fn.countAll<string>().as('n')).where('performer_id', '=', performerId).where('created_at', '>', since).executeTakeFirstOrThrow();
+  return Number(row.n);
+}
+
+export async function insertConfirmation(db: Db, v: { performerId: string; email: string; tokenHash: string; expiresAt: Date; createdBy: string | null }): Promise<void> {
+  await db.insertInto('email_confirmations').values({ performer_id: v.performerId, email: v.email, token_hash: v.tokenHash, expires_at: v.expiresAt, created_by: v.createdBy }).execute();
+}
+
+export async function findConfirmationByHash(db: Db, tokenHash: string, opts: { lock?: boolean } = {}) {
+  let q = db.selectFrom('email_confirmations').selectAll().where('token_hash', '=', tokenHash);
+  if (opts.lock) q = q.forUpdate();
+  return q.executeTakeFirst();
+}
+
+export async function markConfirmationUsed(db: Db, id: string): Promise<void> {
+  await db.updateTable('email_confirmations').set({ used_at: sql`now()` }).where('id', '=', id).execute();
+}
+
+/** Confirms the address only if it is still the one the link was sent to. */
+export async function confirmPerformerEmail(db: Db, performerId: string, email: string): Promise<boolean> {
+  const res = await db
+    .updateTable('performers')
+    .set({ email_confirmed_at: sql`now()`, version: sql`version + 1`, updated_at: sql`now()` })
+    .where('id', '=', performerId)
+    .where(sql`lower(email)`, '=', email.toLowerCase())
+    .executeTakeFirst();
+  return Number(res.numUpdatedRows) === 1;
+}
+
+export async function insertInvitation(db: Db, v: { performerId: string; email: string; tokenHash: string; expiresAt: Date; createdBy: string | null }): Promise<void> {
+  await db.insertInto('account_invitations').values({ performer_id: v.performerId, email: v.email, token_hash: v.tokenHash, expires_at: v.expiresAt, created_by: v.createdBy }).execute();
+}
+
+export async function countRecentInvitations(db: Db, performerId: string, since: Date): Promise<number> {
+  const row = await db.selectFrom('account_invitations').select((eb) => eb.fn.countAll<string>().as('n')).where('performer_id', '=', performerId).where('created_at', '>', since).executeTakeFirstOrThrow();
+  return Number(row.n);
+}
+
+export async function findInvitationByHash(db: Db, tokenHash: string, opts: { lock?: boolean } = {}) {
+  let q = db.selectFrom('account_invitations').selectAll().where('token_hash', '=', tokenHash);
+  if (opts.lock) q = q.forUpdate();
+  return q.executeTakeFirst();
+}
+
+export async function markInvitationAccepted(db: Db, id: string, userId: string): Promise<void> {
+  await db.updateTable('account_invitations').set({ accepted_at: sql`now()`, accepted_user_id: userId }).where('id', '=', id).execute();
+}
+
+export async function findPerformerLinkedToUser(db: Db, userId: string): Promise<string | undefined> {
+  return (await db.selectFrom('performers').select('id').where('user_id', '=', userId).executeTakeFirst())?.id;
+}
+
+/** Links the sign-in (the performer's own act); gives it the performer role where they are engaged. */
+export async function linkUserToPerformer(db: Db, performerId: string, userId: string, productionIds: readonly string[]): Promise<string[]> {
+  await db.updateTable('performers').set({ user_id: userId, version: sql`version + 1`, updated_at: sql`now()` }).where('id', '=', performerId).execute();
+  if (productionIds.length === 0) return [];
+  const rows = await db
+    .insertInto('memberships')
+    .values(productionIds.map((p) => ({ user_id: userId, production_id: p, role: 'performer' as const, created_by: null })))
+    .onConflict((oc) => oc.columns(['user_id', 'production_id', 'role']).doNothing())
+    .returning('production_id')
+    .execute();
+  return rows.map((r) => r.production_id);
+}
+
+/** A performer record whose confirmed address is this one, not yet linked to anyone. */
+export async function findUnlinkedPerformerByConfirmedEmail(db: Db, email: string): Promise<string | undefined> {
+  const row = await db
+    .selectFrom('performers')
+    .select('id')
+    .where(sql`lower(email)`, '=', email.toLowerCase())
+    .where('email_confirmed_at', 'is not', null)
+    .where('user_id', 'is', null)
+    .forUpdate()
+    .executeTakeFirst();
+  return row?.id;
+}
