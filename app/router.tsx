@@ -45,9 +45,18 @@ const routes: RouteObject[] = [
         lazy: async () => ({ Component: (await import('./features/consents/routes/withdraw-link-page.tsx')).WithdrawLinkPage }),
       },
       {
+        path: paths.confirmEmail.pattern,
+        lazy: async () => ({ Component: (await import('./features/identity/routes/confirm-email-page.tsx')).ConfirmEmailPage }),
+      },
+      {
         Component: RequireSession,
         children: [
           { path: paths.noAccess.pattern, Component: NoAccessPage },
+          // Signed in, but perhaps with no role yet: accepting is what gives the performer one.
+          {
+            path: paths.join.pattern,
+            lazy: async () => ({ Component: (await import('./features/identity/routes/join-page.tsx')).JoinPage }),
+          },
           {
             Component: RequireSeat,
             children: [

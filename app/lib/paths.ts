@@ -58,6 +58,10 @@ export const paths = {
   signLink: { pattern: '/sign/:token', href: (token: string) => `/sign/${encodeURIComponent(token)}` },
   withdrawRequest: { pattern: '/withdraw', href: () => '/withdraw' },
   withdrawLink: { pattern: '/withdraw/:token', href: (token: string) => `/withdraw/${encodeURIComponent(token)}` },
+  /** The performer confirms the address staff entered is theirs. */
+  confirmEmail: { pattern: '/confirm-email/:token', href: (token: string) => `/confirm-email/${encodeURIComponent(token)}` },
+  /** The performer accepts an invitation to link a sign-in of their own (signed in, but maybe with no role yet). */
+  join: { pattern: '/join/:token', href: (token: string) => `/join/${encodeURIComponent(token)}` },
 } as const;
 
 /** Server addresses reached by full page navigation rather than fetch. */

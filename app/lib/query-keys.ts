@@ -17,3 +17,4 @@ export const bookingsKey = ['bookings'] as const;
 export const tabletKey = ['tablet'] as const;
 export const signingLinkKey = ['signing-link'] as const;
 export const withdrawalLinkKey = ['withdrawal-link'] as const;
+export const identityLinkKey = ['identity-link'] as const;

@@ -46,3 +46,19 @@ export function formatAnswer(q: Pick<Question, 'type'>, value: AnswerValue | und
   if (q.type === 'yes_no') return value === true ? 'Yes' : 'No';
   return String(value);
 }
+
+/** Every answer to a health-data form is a health detail, whatever a question's flag says. */
+export function isMedicalAnswer(formKind: string, flaggedMedical: boolean): boolean {
+  return flaggedMedical || formKind === 'health_data';
+}
+
+/** Questions of a form as they will be stored: on a health-data form each one is medical. */
+export function withMedicalFlags<Q extends { medical: boolean }>(formKind: string, questions: readonly Q[]): Q[] {
+  return questions.map((q) => ({ ...q, medical: isMedicalAnswer(formKind, q.medical) }));
+}
+
+/** Question ids that were medical in the earlier version and are not in the next one's flags. */
+export function questionsLosingMedicalFlag(before: readonly { id: string; medical: boolean }[], after: readonly { id: string; medical: boolean }[]): string[] {
+  const next = new Map(after.map((q) => [q.id, q.medical]));
+  return before.filter((q) => q.medical && next.get(q.id) === false).map((q) => q.id);
+}

@@ -180,6 +180,8 @@ export const WithdrawalLinkViewSchema = z.object({
 export const VerifyResultSchema = z.object({
   sha256: z.string(),
   match: z.boolean(),
+  /** A match on a production the checker does not work on: Plinth issued it, and says no more. */
+  elsewhere: z.boolean(),
   consent: z
     .object({ id: IdSchema, performerName: z.string(), kind: ConsentKindSchema, title: z.string(), templateVersion: z.number().int(), signedAt: z.iso.datetime(), state: ConsentStateSchema })
     .nullable(),

@@ -216,7 +216,7 @@ describe('a production sees its own consents, and imports pull in no strangers',
     const preview = await request(t.app).post(`/api/performers/import?productionId=${ashfall.id}&commit=false`).set('Cookie', await t.sessionFor('solo.head@plinth.test')).attach('file', Buffer.from(csv), { filename: 'p.csv', contentType: 'text/csv' });
     expect(preview.status).toBe(200);
     expect(preview.body.errorCount).toBe(1);
-    expect(preview.body.rows[0].errors.email[0]).toMatch(/registered on another production/);
+    expect(preview.body.rows[0].errors.email[0]).toMatch(/you do not manage/);
     // …while Juno, whom this head already works with, may be listed again without error.
     const again = await request(t.app).post(`/api/performers/import?productionId=${ashfall.id}&commit=false`).set('Cookie', await t.sessionFor('solo.head@plinth.test')).attach('file', Buffer.from('legal_name,email\nJuno Castellane,performer@plinth.test\n'), { filename: 'p.csv', contentType: 'text/csv' });
     expect(again.body.errorCount).toBe(0);

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { CONSENT_KIND_LABELS, consentState, withdrawalConsequences } from '#shared/domain/consent.ts';
 import { type Actor, can, canSomewhere } from '#shared/policy.ts';
 import { VERIFY_MAX_BYTES } from '#shared/limits.ts';
+import { isMedicalAnswer } from '#shared/domain/questionnaire.ts';
 import { IdParamsSchema } from '#shared/schemas/common.ts';
 import {
   ConsentDetailSchema,
@@ -103,29 +104,33 @@ async function linkByToken(ctx: AppContext, token: string) {
 const LINKS_PER_ADDRESS_PER_HOUR = 3;
 
 async function sendWithdrawalLink(ctx: AppContext, req: Request, email: string): Promise<void> {
-  // Only an address the performer confirmed: a link to withdraw is the performer's power alone.
-  const p = await ctx.db
-    .selectFrom('performers')
-    .select(['id', 'email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')])
-    .where(sql`lower(email)`, '=', email)
-    .where('email_confirmed_at', 'is not', null)
-    .executeTakeFirst();
-  if (!p?.email) return;
-  const recent = await ctx.db
-    .selectFrom('withdrawal_links')
-    .select((eb) => eb.fn.countAll<string>().as('n'))
-    .where('performer_id', '=', p.id)
-    .where('created_at', '>', new Date(Date.now() - 3_600_000))
-    .executeTakeFirstOrThrow();
-  if (Number(recent.n) >= LINKS_PER_ADDRESS_PER_HOUR) {
-    await writeAudit(ctx.db, { actorUserId: null, action: 'withdrawal_link.capped', entityType: 'performer', entityId: p.id, req });
-    return;
-  }
   const token = newToken();
-  await ctx.db.transaction().execute(async (trx) => {
+  const p = await ctx.db.transaction().execute(async (trx) => {
+    // Only an address the performer confirmed: a link to withdraw is the performer's power alone.
+    // The row lock makes concurrent requests for one address count one after another.
+    const p = await trx
+      .selectFrom('performers')
+      .select(['id', 'email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')])
+      .where(sql`lower(email)`, '=', email)
+      .where('email_confirmed_at', 'is not', null)
+      .forUpdate()
+      .executeTakeFirst();
+    if (!p?.email) return null;
+    const recent = await trx
+      .selectFrom('withdrawal_links')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .where('performer_id', '=', p.id)
+      .where('created_at', '>', new Date(Date.now() - 3_600_000))
+      .executeTakeFirstOrThrow();
+    if (Number(recent.n) >= LINKS_PER_ADDRESS_PER_HOUR) {
+      await writeAudit(trx, { actorUserId: null, action: 'withdrawal_link.capped', entityType: 'performer', entityId: p.id, req });
+      return null;
+    }
     await trx.insertInto('withdrawal_links').values({ performer_id: p.id, token_hash: hashToken(token), expires_at: new Date(Date.now() + WITHDRAWAL_LINK_HOURS * 3_600_000) }).execute();
     await writeAudit(trx, { actorUserId: null, action: 'withdrawal_link.create', entityType: 'performer', entityId: p.id, req });
+    return { email: p.email, name: p.name };
   });
+  if (!p) return;
   await ctx.mailer.send({
     to: p.email,
     subject: 'Your link to withdraw consents',
@@ -172,7 +177,8 @@ export const consentRoutes = [
       const { row, scope } = await loadConsent(ctx, params.id);
       if (!canView(actor, scope)) throw forbidden('see this consent');
       const medicalOk = can(actor, 'medical.read', resourceOf(scope));
-      const answers = await ctx.db.selectFrom('consent_answers').select(['question_id', 'question_label', 'medical', 'answer']).where('consent_id', '=', params.id).orderBy('id').execute();
+      const stored = await ctx.db.selectFrom('consent_answers').select(['question_id', 'question_label', 'medical', 'answer']).where('consent_id', '=', params.id).orderBy('id').execute();
+      const answers = stored.map((a) => ({ ...a, medical: isMedicalAnswer(row.kind, a.medical) }));
       const hasMedical = answers.some((a) => a.medical);
       const shown = answers.filter((a) => !a.medical || medicalOk);
       // A withdrawal reason may speak of health, so reading one counts as a medical read too.
@@ -207,8 +213,8 @@ export const consentRoutes = [
     async handler({ ctx, actor, params, req, res }) {
       const { row, scope } = await loadConsent(ctx, params.id);
       if (!canView(actor, scope)) throw forbidden('see this consent');
-      const medical = await ctx.db.selectFrom('consent_answers').select('id').where('consent_id', '=', params.id).where('medical', '=', true).executeTakeFirst();
-      if (medical) {
+      const answers = await ctx.db.selectFrom('consent_answers').select('medical').where('consent_id', '=', params.id).execute();
+      if (answers.some((a) => isMedicalAnswer(row.kind, a.medical))) {
         if (!can(actor, 'medical.read', resourceOf(scope))) throw forbidden('see health details');
         await writeAudit(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'consent_pdf', entityId: params.id, productionId: row.production_id, req, details: { performerId: scope.id } });
       }
@@ -255,9 +261,12 @@ export const consentRoutes = [
       const sha256 = sha256Hex(file.buffer);
       const row = await consentSummaryQuery(ctx.db).where('c.pdf_sha256', '=', sha256).executeTakeFirst();
       await writeAudit(ctx.db, { actorUserId: actor.userId, action: 'consent.verify', entityType: 'consent', entityId: row?.id ?? null, req, details: { sha256, match: Boolean(row) } });
-      if (!row) return { sha256, match: false, consent: null };
+      if (!row) return { sha256, match: false, elsewhere: false, consent: null };
+      // Who signed what is told only to those who may see that consent.
+      const { scope } = await loadConsent(ctx, row.id);
+      if (!canView(actor, scope)) return { sha256, match: true, elsewhere: true, consent: null };
       const s = toConsentSummary(row);
-      return { sha256, match: true, consent: { id: s.id, performerName: s.performerName, kind: s.kind, title: s.title, templateVersion: s.templateVersion, signedAt: s.signedAt, state: s.state } };
+      return { sha256, match: true, elsewhere: false, consent: { id: s.id, performerName: s.performerName, kind: s.kind, title: s.title, templateVersion: s.templateVersion, signedAt: s.signedAt, state: s.state } };
     },
   }),
   defineRoute({

@@ -145,3 +145,22 @@ export async function performerScope(
   const confirmed = p.email !== null && p.email_confirmed_at !== null;
   return { id: p.id, name: p.name, email: confirmed ? p.email : null, emailUnconfirmed: p.email !== null && !confirmed, productionIds: e.map((x) => x.production_id) };
 }
+
+/** Productions that have sent or signed this form: those whose lead may loosen its health questions. */
+export async function productionsUsingTemplate(db: Db, templateId: string): Promise<string[]> {
+  const rows = await db
+    .selectFrom('signing_requests')
+    .select('production_id')
+    .where('template_id', '=', templateId)
+    .where('production_id', 'is not', null)
+    .union(
+      db
+        .selectFrom('consents as c')
+        .innerJoin('consent_template_versions as v', 'v.id', 'c.template_version_id')
+        .select('c.production_id')
+        .where('v.template_id', '=', templateId)
+        .where('c.production_id', 'is not', null),
+    )
+    .execute();
+  return rows.map((r) => r.production_id!).filter(Boolean);
+}

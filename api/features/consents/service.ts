@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { sql } from 'kysely';
 import { CONSENT_KIND_LABELS, expiryFor } from '#shared/domain/consent.ts';
-import { answersSchemaFor, formatAnswer, type Question } from '#shared/domain/questionnaire.ts';
+import { answersSchemaFor, formatAnswer, isMedicalAnswer, type Question } from '#shared/domain/questionnaire.ts';
 import { fieldErrorsFromIssues } from '#shared/errors.ts';
 import type { SubmitSignatureInput } from '#shared/schemas/consents.ts';
 import type { AppContext } from '../../context.ts';
@@ -48,7 +48,7 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
   const answers = p.template.questions.map((q: Question) => ({
     questionId: q.id,
     label: q.label,
-    medical: q.medical,
+    medical: isMedicalAnswer(p.template.kind, q.medical),
     answer: p.answers[q.id] ?? null,
   }));
   const content: SignedContent = {
@@ -77,7 +77,7 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
     body: p.template.body,
     performerName: performer.name,
     productionName: production?.name ?? null,
-    answers: p.template.questions.map((q) => ({ label: q.label, answer: formatAnswer(q, p.answers[q.id]), medical: q.medical })),
+    answers: p.template.questions.map((q) => ({ label: q.label, answer: formatAnswer(q, p.answers[q.id]), medical: isMedicalAnswer(p.template.kind, q.medical) })),
     signerName: p.signerName,
     signedAt: p.signedAt,
     signingMethod: p.signingMethod,

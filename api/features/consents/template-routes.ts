@@ -5,7 +5,16 @@ import { CreateTemplateInputSchema, TemplateListSchema, TemplateSchema, Template
 import { writeAudit } from '../../http/audit.ts';
 import { conflict, forbidden, notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
-import { findTemplate, listTemplates } from './repo.ts';
+import { findCurrentTemplateVersion, findTemplate, listTemplates, productionsUsingTemplate } from './repo.ts';
+import { questionsLosingMedicalFlag, withMedicalFlags } from '#shared/domain/questionnaire.ts';
+import type { Actor } from '#shared/policy.ts';
+import type { Db } from '../../db/index.ts';
+
+/** The designated lead of a production that has used the form (or, for a form never used, any lead). */
+async function mayLowerMedicalFlag(db: Db, actor: Actor, templateId: string): Promise<boolean> {
+  const used = await productionsUsingTemplate(db, templateId);
+  return used.length ? used.some((p) => actor.leadOf.includes(p)) : actor.leadOf.length > 0;
+}
 
 export const templateRoutes = [
   defineRoute({
@@ -76,7 +85,7 @@ export const templateRoutes = [
         const t = await trx.insertInto('consent_templates').values({ kind: body.kind }).returning('id').executeTakeFirstOrThrow();
         await trx
           .insertInto('consent_template_versions')
-          .values({ template_id: t.id, version: 1, title: body.title, body: body.body, questions: JSON.stringify(body.questions), validity_days: body.validityDays, created_by: actor.userId })
+          .values({ template_id: t.id, version: 1, title: body.title, body: body.body, questions: JSON.stringify(withMedicalFlags(body.kind, body.questions)), validity_days: body.validityDays, created_by: actor.userId })
           .execute();
         await writeAudit(trx, { actorUserId: actor.userId, action: 'template.create', entityType: 'consent_template', entityId: t.id, req, details: { kind: body.kind, title: body.title } });
         return t.id;
@@ -102,13 +111,20 @@ export const templateRoutes = [
         if (t.current_version !== body.version) {
           throw conflict(`Someone published version ${t.current_version} of this form since you opened it. Reload to see it.`, { currentVersion: t.current_version });
         }
+        const questions = withMedicalFlags(body.kind, body.questions);
+        const previous = await findCurrentTemplateVersion(trx, t.id);
+        const lowered = previous ? questionsLosingMedicalFlag(previous.questions, questions) : [];
+        // Making a health question non-medical opens its answers to all staff: only a lead decides that.
+        if (lowered.length && !(await mayLowerMedicalFlag(trx, actor, t.id))) {
+          throw forbidden('mark a health question as not medical; only the designated lead of a production that uses this form may do that');
+        }
         const next = t.current_version + 1;
         await trx
           .insertInto('consent_template_versions')
-          .values({ template_id: t.id, version: next, title: body.title, body: body.body, questions: JSON.stringify(body.questions), validity_days: body.validityDays, created_by: actor.userId })
+          .values({ template_id: t.id, version: next, title: body.title, body: body.body, questions: JSON.stringify(questions), validity_days: body.validityDays, created_by: actor.userId })
           .execute();
         await trx.updateTable('consent_templates').set({ current_version: next, kind: body.kind }).where('id', '=', t.id).execute();
-        await writeAudit(trx, { actorUserId: actor.userId, action: 'template.publish', entityType: 'consent_template', entityId: t.id, req, details: { version: next } });
+        await writeAudit(trx, { actorUserId: actor.userId, action: 'template.publish', entityType: 'consent_template', entityId: t.id, req, details: { version: next, ...(lowered.length ? { madeNonMedical: lowered } : {}) } });
       });
       return (await findTemplate(ctx.db, params.id))!;
     },

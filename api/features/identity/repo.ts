@@ -43,10 +43,16 @@ export async function findConfirmedEmail(db: Db, performerId: string): Promise<{
 
 /** Whether an address is the sign-in of an administrator, a lead or anyone with a staff role. */
 export async function isStaffAddress(db: Db, email: string): Promise<boolean> {
-  const row = await db
+  return (await staffAddressesAmong(db, [email])).size > 0;
+}
+
+/** Which of these (lower-cased) addresses are staff sign-ins, in one query. */
+export async function staffAddressesAmong(db: Db, emails: readonly string[]): Promise<Set<string>> {
+  if (emails.length === 0) return new Set();
+  const rows = await db
     .selectFrom('users as u')
-    .select('u.id')
-    .where(sql`lower(u.email)`, '=', email.toLowerCase())
+    .select(sql<string>`lower(u.email)`.as('email'))
+    .where(sql`lower(u.email)`, 'in', emails.map((e) => e.toLowerCase()))
     .where((eb) =>
       eb.or([
         eb('u.is_admin', '=', true),
@@ -54,8 +60,8 @@ export async function isStaffAddress(db: Db, email: string): Promise<boolean> {
         eb.exists(eb.selectFrom('lead_appointments as l').select('l.id').whereRef('l.user_id', '=', 'u.id')),
       ]),
     )
-    .executeTakeFirst();
-  return Boolean(row);
+    .execute();
+  return new Set(rows.map((r) => r.email));
 }
 
 /** The designated leads now in post on these productions, to be told of identity changes. */

@@ -246,8 +246,10 @@ export function checkImportRows(
   lines: readonly CsvLine[],
   productionId: string,
   existing: ReadonlyMap<string, { id: string; productionIds: readonly string[] }>,
-  /** Whether the importer already works with a performer on one of these productions. */
-  canSee: (productionIds: readonly string[]) => boolean = () => true,
+  /** Whether the importer already manages a performer engaged on one of these productions. */
+  manages: (productionIds: readonly string[]) => boolean = () => true,
+  /** Addresses that are staff sign-ins: never a performer's contact address. */
+  staffAddresses: ReadonlySet<string> = new Set(),
 ): { rows: RowResult[]; plans: ImportPlan[] } {
   const firstLineOfEmail = new Map<string, number>();
   const rows: RowResult[] = [];
@@ -272,11 +274,13 @@ export function checkImportRows(
       else firstLineOfEmail.set(email, line);
     }
     const match = email ? existing.get(email) : undefined;
-    // An import never pulls in someone the importer does not already work with: that would open
-    // their record (and, to this production's lead, their health answers) without anyone agreeing.
-    if (match && !match.productionIds.includes(productionId) && !canSee(match.productionIds)) {
-      (errors.email ??= []).push('This e-mail belongs to a performer registered on another production. Leave this row out and ask the studio administrator.');
+    // An import never pulls in someone the importer does not already manage: merely seeing a
+    // performer on another production must not turn into editing their record, seeing their
+    // contact details or (to this production's lead) their health answers.
+    if (match && !match.productionIds.includes(productionId) && !manages(match.productionIds)) {
+      (errors.email ??= []).push('This e-mail belongs to a performer you do not manage. Leave this row out and ask the department head of their production or the studio administrator.');
     }
+    if (email && staffAddresses.has(email)) (errors.email ??= []).push("This address belongs to a member of staff's sign-in, not a performer.");
     const action = match ? (match.productionIds.includes(productionId) ? 'already_engaged' : 'engage_existing') : 'create';
     rows.push({ line, legalName: values.legal_name ?? '', email, action, errors });
     if (Object.keys(errors).length > 0 || !fields.success || !character.success) continue;

@@ -24,6 +24,7 @@ import { authorize } from '../../http/authorize.ts';
 import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { deliverAll } from '../../mail/deliver.ts';
+import { staffAddressesAmong } from '../identity/repo.ts';
 import { assertPerformerAddress, recordEmailChange, startConfirmation, unlinkNotices } from '../identity/service.ts';
 import { performerAccess, productionsWhere } from './access.ts';
 import { IMPORT_MAX_BYTES, checkImportRows, performersCsv, readImportFile } from './csv.ts';
@@ -195,9 +196,11 @@ async function planImport(db: Db, buf: Buffer, productionId: string, actor: Acto
   const parsed = readImportFile(buf);
   if (parsed.fileErrors.length) return { fileErrors: parsed.fileErrors, rows: [], plans: [] };
   const emails = parsed.lines.map((l) => l.values.email?.trim().toLowerCase()).filter((e): e is string => !!e);
-  const existing = await findPerformersByEmails(db, [...new Set(emails)]);
-  const viewable = new Set(productionsWhere(actor, 'performers.view'));
-  return { fileErrors: [] as string[], ...checkImportRows(parsed.lines, productionId, existing, (ids) => ids.some((p) => viewable.has(p))) };
+  const unique = [...new Set(emails)];
+  const existing = await findPerformersByEmails(db, unique);
+  const staff = await staffAddressesAmong(db, unique);
+  const managed = new Set(productionsWhere(actor, 'performers.manage'));
+  return { fileErrors: [] as string[], ...checkImportRows(parsed.lines, productionId, existing, (ids) => ids.some((p) => managed.has(p)), staff) };
 }
 
 function importResult(plan: Awaited<ReturnType<typeof planImport>>, committed: boolean): CsvImportResult {
@@ -322,9 +325,15 @@ export const performerRoutes: AnyRoute[] = [
             req,
             details: { created: creates.length, engaged: engages.length, alreadyEngaged: plan.plans.length - creates.length - engages.length },
           });
-          return importResult(plan, true);
+          // Each imported address is unconfirmed: it gets its confirmation request, once committed.
+          const mails = [];
+          for (const c of creates) {
+            if (c.fields.email) mails.push(await startConfirmation(trx, ctx, { id: c.id, name: c.fields.preferredName ?? c.fields.legalName }, c.fields.email, actor.userId));
+          }
+          return { result: importResult(plan, true), mails };
         });
-        return result;
+        await deliverAll(ctx, result.mails);
+        return result.result;
       } catch (err) {
         const e = err as { code?: string };
         if (e?.code === '23505') {

@@ -1,5 +1,7 @@
 import { ROLE_LABELS, type ActingRole } from '#shared/policy.ts';
 import type { AppContext } from '../../context.ts';
+import { deliverAll } from '../../mail/deliver.ts';
+import { findHeads } from './repo.ts';
 
 /** Tells a person they were given a role. Sent after the change is committed; a failed send is logged, not fatal. */
 export async function sendRoleNotice(ctx: AppContext, to: { email: string; displayName: string }, role: ActingRole, productionName: string): Promise<void> {
@@ -17,4 +19,17 @@ export async function sendRoleNotice(ctx: AppContext, to: { email: string; displ
   } catch (err) {
     ctx.log(`role notice to ${to.email} not sent`, err);
   }
+}
+
+/** Every change of designated lead is told to the production's heads: they should know who reads health data. */
+export async function sendLeadChangeToHeads(ctx: AppContext, productionId: string, productionName: string, sentence: string): Promise<void> {
+  const heads = await findHeads(ctx.db, productionId);
+  await deliverAll(
+    ctx,
+    heads.map((h) => ({
+      to: h.email,
+      subject: `Plinth: the designated lead on ${productionName} changed`,
+      text: [`Hello ${h.name},`, '', sentence, 'The designated lead is the only member of staff who sees performers’ health details on this production.', '', 'If you did not expect this, tell your studio administrator.'].join('\n'),
+    })),
+  );
 }

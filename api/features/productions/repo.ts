@@ -104,3 +104,34 @@ export async function lockProduction(db: Db, id: string) {
 export async function bumpProductionVersion(db: Db, id: string): Promise<void> {
   await db.updateTable('productions').set({ version: sql`version + 1`, updated_at: sql`now()` }).where('id', '=', id).execute();
 }
+
+/**
+ * Whether a user may be a production's designated lead: they hold a staff role there, and no
+ * performer record of theirs is engaged there (nor do they hold the performer role there).
+ */
+export async function leadFitness(db: Db, userId: string, productionId: string): Promise<{ staff: boolean; performer: boolean }> {
+  const roles = await db.selectFrom('memberships').select('role').where('user_id', '=', userId).where('production_id', '=', productionId).execute();
+  const engaged = await db
+    .selectFrom('performers as p')
+    .innerJoin('engagements as e', 'e.performer_id', 'p.id')
+    .select('p.id')
+    .where('p.user_id', '=', userId)
+    .where('e.production_id', '=', productionId)
+    .executeTakeFirst();
+  return { staff: roles.some((r) => r.role !== 'performer'), performer: roles.some((r) => r.role === 'performer') || Boolean(engaged) };
+}
+
+export async function displayNameOf(db: Db, userId: string): Promise<string> {
+  return (await db.selectFrom('users').select('display_name').where('id', '=', userId).executeTakeFirst())?.display_name ?? 'Someone';
+}
+
+/** The department heads of a production, to be told who holds the health data. */
+export async function findHeads(db: Db, productionId: string): Promise<{ email: string; name: string }[]> {
+  return db
+    .selectFrom('memberships as m')
+    .innerJoin('users as u', 'u.id', 'm.user_id')
+    .select(['u.email', 'u.display_name as name'])
+    .where('m.production_id', '=', productionId)
+    .where('m.role', '=', 'head')
+    .execute();
+}

@@ -14,8 +14,8 @@ import type { AppContext } from '../../context.ts';
 import { writeAudit } from '../../http/audit.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { defineRoute } from '../../http/route.ts';
-import { sendRoleNotice } from './notices.ts';
-import { bumpProductionVersion, findProduction, listLeadHistory, listMemberships, listProductions, lockProduction } from './repo.ts';
+import { sendLeadChangeToHeads, sendRoleNotice } from './notices.ts';
+import { bumpProductionVersion, displayNameOf, findProduction, leadFitness, listLeadHistory, listMemberships, listProductions, lockProduction } from './repo.ts';
 import { sql } from 'kysely';
 
 async function detail(ctx: AppContext, id: string) {
@@ -194,8 +194,11 @@ export const productionRoutes = [
         if (production.version !== body.version) throw staleProduction(production.version);
         const user = await trx.selectFrom('users').select(['id', 'email', 'display_name']).where('id', '=', body.userId).executeTakeFirst();
         if (!user) throw invalid({ userId: ['That user does not exist.'] });
-        const member = await trx.selectFrom('memberships').select('id').where('user_id', '=', body.userId).where('production_id', '=', params.id).executeTakeFirst();
-        if (!member) throw invalid({ userId: ['Give this person a role on the production first; the lead must be on the team.'] });
+        // Nobody holds the keys to every performer's health data alone: another administrator appoints you.
+        if (body.userId === actor.userId) throw invalid({ userId: ['You cannot appoint yourself. Another administrator must make this appointment.'] });
+        const fitness = await leadFitness(trx, body.userId, params.id);
+        if (!fitness.staff) throw invalid({ userId: ['Give this person a staff role on the production first; the lead must be on the team.'] });
+        if (fitness.performer) throw invalid({ userId: ['This person is a performer on this production; a performer cannot be the designated lead who reads performers’ health details.'] });
         const open = await trx.selectFrom('lead_appointments').select(['id', 'user_id']).where('production_id', '=', params.id).where('ends_at', 'is', null).executeTakeFirst();
         if (open?.user_id === body.userId) throw invalid({ userId: ['This person is already the designated lead.'] });
         if (open) {
@@ -207,6 +210,7 @@ export const productionRoutes = [
         return { user, productionName: production.name };
       });
       await sendRoleNotice(ctx, { email: user.email, displayName: user.display_name }, 'lead', productionName);
+      await sendLeadChangeToHeads(ctx, params.id, productionName, `${user.display_name} is now the designated lead on ${productionName}, appointed by ${await displayNameOf(ctx.db, actor.userId)}.`);
       return detail(ctx, params.id);
     },
   }),
@@ -222,7 +226,7 @@ export const productionRoutes = [
     response: ProductionDetailSchema,
     errors: [403, 404, 409],
     async handler({ ctx, actor, params, query, req }) {
-      await ctx.db.transaction().execute(async (trx) => {
+      const endedInfo = await ctx.db.transaction().execute(async (trx) => {
         const production = await lockProduction(trx, params.id);
         if (!production) throw notFound('That production');
         if (production.version !== query.version) throw staleProduction(production.version);
@@ -236,7 +240,9 @@ export const productionRoutes = [
         if (!ended) throw notFound('A current lead appointment');
         await bumpProductionVersion(trx, params.id);
         await writeAudit(trx, { actorUserId: actor.userId, action: 'lead.end', entityType: 'user', entityId: ended.user_id, productionId: params.id, req });
+        return { productionName: production.name, endedUser: ended.user_id };
       });
+      await sendLeadChangeToHeads(ctx, params.id, endedInfo.productionName, `${await displayNameOf(ctx.db, endedInfo.endedUser)} is no longer the designated lead on ${endedInfo.productionName}; nobody holds the appointment now. Ended by ${await displayNameOf(ctx.db, actor.userId)}.`);
       return detail(ctx, params.id);
     },
   }),

@@ -12,6 +12,7 @@ import {
   type PerformerListQuery,
   type UpdatePerformerInput,
 } from '#shared/schemas/performers.ts';
+import { IdentityMailSentSchema } from '#shared/schemas/identity.ts';
 import { api, isApiError, withQuery } from '../../lib/api-client.ts';
 import { bookingsKey, homeKey, performersKey, sessionKey } from '../../lib/query-keys.ts';
 
@@ -73,16 +74,27 @@ export function useUpdatePerformer(id: string) {
   });
 }
 
-export function useLinkAccount(id: string) {
+/** Staff only ever unlink: linking is the performer's own act (an invitation they accept). */
+export function useUnlinkAccount(id: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (input: { userId: string | null; version: number }) => api.put(performerPath(id, '/account'), input, PerformerDetailSchema),
+    mutationFn: (version: number) => api.put(performerPath(id, '/account'), { userId: null, version }, PerformerDetailSchema),
     onSuccess: async (detail) => {
       await performerWritten(queryClient, detail);
       // The linked person's roles changed; if that is the person signed in, their seats did too.
       await invalidate(queryClient, [sessionKey]);
     },
   });
+}
+
+/** Invites the performer to link a sign-in of their own, at their confirmed address. */
+export function useInviteToSignIn(id: string) {
+  return useMutation({ mutationFn: () => api.post(performerPath(id, '/account-invitation'), {}, IdentityMailSentSchema) });
+}
+
+/** Sends the confirmation request to the performer's unconfirmed address again. */
+export function useResendConfirmation(id: string) {
+  return useMutation({ mutationFn: () => api.post(performerPath(id, '/email-confirmation'), {}, IdentityMailSentSchema) });
 }
 
 /** The portrait upload (multipart field "portrait"), for useUpload().start; it answers with the fresh detail. */

@@ -17,6 +17,7 @@ import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { productionQueryOptions, useAppointLead, useEndLead } from '../api.ts';
 import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
 import { FormError } from '../../../components/ui/form-error.tsx';
+import { useSession } from '../../session/session-context.tsx';
 
 const AppointFormSchema = z.object({ userId: z.string().min(1, 'Choose a team member') });
 
@@ -25,6 +26,7 @@ function NotRecorded() {
 }
 
 export function LeadSection({ production }: { production: ProductionDetail }) {
+  const session = useSession();
   const queryClient = useQueryClient();
   const appoint = useAppointLead(production.id);
   const end = useEndLead(production.id);
@@ -38,12 +40,26 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
 
   const lead = production.lead;
   const current = production.leadHistory.find((a) => a.endsAt === null) ?? null;
-  // The lead must be on the team: one entry per person, however many roles they hold.
-  const candidates = [...new Map(production.memberships.map((m) => [m.userId, m])).values()].filter((m) => m.userId !== lead?.userId);
+  // The lead must be on the staff of the team, not a performer on it, and never the administrator
+  // appointing (another administrator does that). One entry per person, however many roles they hold.
+  const performerIds = new Set(production.memberships.filter((m) => m.role === 'performer').map((m) => m.userId));
+  const candidates = [...new Map(production.memberships.filter((m) => m.role !== 'performer').map((m) => [m.userId, m])).values()].filter(
+    (m) => m.userId !== lead?.userId && m.userId !== session.user.id && !performerIds.has(m.userId),
+  );
+  const [pendingAppoint, setPendingAppoint] = useState<string | null>(null);
+  const pendingName = candidates.find((m) => m.userId === pendingAppoint)?.displayName ?? 'This person';
 
-  const onAppoint = form.handleSubmit(async ({ userId }) => {
+  const onAppoint = form.handleSubmit(({ userId }) => {
     setFormError(null);
     setConflict(null);
+    // Who gains health access, and whose ends, is said aloud before anything changes.
+    setPendingAppoint(userId);
+  });
+
+  async function confirmAppoint() {
+    const userId = pendingAppoint;
+    if (!userId) return;
+    setPendingAppoint(null);
     try {
       // The version on screen: if another administrator appointed someone meanwhile, this is refused.
       await appoint.mutateAsync({ userId, version: production.version });
@@ -54,7 +70,7 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
       const hadFields = err instanceof ApiError && Object.keys(err.fields).length > leftover.length;
       setFormError(leftover.length ? leftover : hadFields ? null : [errorMessage(err)]);
     }
-  });
+  }
 
   function closeEnd() {
     setConfirmEnd(false);
@@ -127,7 +143,7 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
         <p className="text-ink-700">
           {production.memberships.length === 0
             ? 'Add people to the team first: the designated lead must be on the team.'
-            : 'No one else on the team can be appointed. Add someone to the team first.'}
+            : 'No one else on the team can be appointed: the lead must hold a staff role, must not be a performer here, and cannot be you. Add someone to the team first.'}
         </p>
       ) : (
         <form noValidate onSubmit={onAppoint} className="flex flex-col gap-4" aria-label="Appoint designated lead" data-testid="appoint-lead-form">
@@ -185,6 +201,25 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
           </tbody>
         </Table>
       )}
+
+      <ConfirmDialog
+        open={pendingAppoint !== null}
+        title={`Appoint ${pendingName} as designated lead?`}
+        confirmLabel="Appoint"
+        tone="primary"
+        pending={appoint.isPending}
+        onCancel={() => setPendingAppoint(null)}
+        onConfirm={() => void confirmAppoint()}
+      >
+        <p>
+          {pendingName} will be able to read and record the health details of every performer on {production.name}:
+          questionnaire answers, reaction grades, notes and photos. Every read is written to the audit log.
+        </p>
+        <p className="mt-2">
+          {lead ? `${lead.displayName}’s access to health details on ${production.name} ends at once.` : 'No one holds this access now.'} The production’s
+          department heads are told of the change by e-mail.
+        </p>
+      </ConfirmDialog>
 
       <ConfirmDialog
         open={confirmEnd}

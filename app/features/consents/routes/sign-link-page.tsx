@@ -7,7 +7,7 @@ import { ApiError, isApiError } from '../../../lib/api-client.ts';
 import { paths } from '../../../lib/paths.ts';
 import { forgetSigningKey, signingKeyFor } from '../../../lib/uuid.ts';
 import { signingLinkQueryOptions, submitByLink } from '../api.ts';
-import { PublicFrame } from '../components/public-frame.tsx';
+import { PublicFrame } from '../../../components/layout/public-frame.tsx';
 import { SigningFormView, type SubmitResult } from '../components/signing-form.tsx';
 
 /** A one-time signing link, opened on the performer's own device. */

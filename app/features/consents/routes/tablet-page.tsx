@@ -9,7 +9,7 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { paths, serverPaths } from '../../../lib/paths.ts';
 import { useDocumentTitle } from '../../../lib/use-document-title.ts';
 import { HANDBACK, declineOnTablet, submitOnTablet, tabletQueryOptions } from '../api.ts';
-import { PublicFrame } from '../components/public-frame.tsx';
+import { PublicFrame } from '../../../components/layout/public-frame.tsx';
 import { SigningFormView } from '../components/signing-form.tsx';
 
 /**

@@ -106,6 +106,14 @@ function VerifyOutcome({ result }: { result: VerifyResult }) {
             </Link>
           </span>
         </p>
+      ) : result.match ? (
+        <p className="flex items-start gap-2 text-lg text-ink-900">
+          <Icon name="check" className="mt-1 size-6 text-sage-800" />
+          <span>
+            <span className="font-bold">This is an unaltered consent Plinth issued</span>, for a production you do not work on. Ask that production’s department
+            head for its details.
+          </span>
+        </p>
       ) : (
         <p className="flex items-start gap-2 text-lg text-ink-900">
           <Icon name="blocked" className="mt-1 size-6 text-brick-800" />

@@ -14,7 +14,7 @@ import { formatDate, formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { useWithdrawByLink, withdrawalLinkQueryOptions } from '../api.ts';
 import { ConsentStateBadge } from '../components/consent-state.tsx';
-import { PublicFrame } from '../components/public-frame.tsx';
+import { PublicFrame } from '../../../components/layout/public-frame.tsx';
 import { WithdrawDialog } from '../components/withdraw-dialog.tsx';
 
 type LinkConsent = z.infer<typeof WithdrawalLinkViewSchema>['consents'][number];

@@ -7,7 +7,7 @@ import { FormError } from '../../../components/ui/form-error.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { useRequestWithdrawalLink } from '../api.ts';
-import { PublicFrame } from '../components/public-frame.tsx';
+import { PublicFrame } from '../../../components/layout/public-frame.tsx';
 
 /** Withdrawing without a sign-in: the performer asks for a link by e-mail. The answer never says whether the address is known. */
 export function WithdrawRequestPage() {

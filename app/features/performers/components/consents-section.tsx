@@ -205,6 +205,7 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
   const [lending, setLending] = useState(false);
   const groupId = useId();
   const email = p.contact?.email ?? null;
+  const unconfirmed = email !== null && p.contact?.emailConfirmed === false;
   const busy = create.isPending || lending;
 
   async function ask(mode: 'tablet' | 'link') {
@@ -293,7 +294,12 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
             <div className="flex flex-col gap-3 rounded-xl bg-sand-100 p-4">
               <p className="text-ink-900">
                 <span className="font-semibold">By e-mail:</span>{' '}
-                {email ? (
+                {email && unconfirmed ? (
+                  <>
+                    {displayName(p)} has not yet confirmed <span className="break-all">{email}</span> as their address, so no link can go there. Sign on the
+                    tablet, or ask them to confirm it first.
+                  </>
+                ) : email ? (
                   <>
                     a one-time link goes to <span className="break-all">{email}</span>, working for 7 days.
                   </>
@@ -306,7 +312,7 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
                 onClick={() => void ask('link')}
                 pending={create.isPending && create.variables?.mode === 'link'}
                 pendingLabel="Sending…"
-                disabled={busy || (p.contact !== null && !email)}
+                disabled={busy || (p.contact !== null && (!email || unconfirmed))}
                 data-testid="send-link"
               >
                 Send a link by e-mail

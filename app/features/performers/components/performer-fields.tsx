@@ -44,7 +44,14 @@ export function PerformerFields({ register, errors }: FieldsProps) {
           Optional. Seen only by those who manage performers and by the performer. The e-mail address is where signing links and signed copies go.
         </p>
         <div className="grid gap-4 md:grid-cols-2">
-          <TextField label="E-mail" type="email" autoComplete="off" error={errors.email?.message} {...register('email')} />
+          <TextField
+            label="E-mail"
+            type="email"
+            autoComplete="off"
+            hint="The performer's own address. A new or changed address is unconfirmed until they confirm it from the e-mail Plinth sends there."
+            error={errors.email?.message}
+            {...register('email')}
+          />
           <TextField label="Phone" type="tel" autoComplete="off" error={errors.phone?.message} {...register('phone')} />
           <TextField label="Emergency contact" autoComplete="off" error={errors.emergencyContactName?.message} {...register('emergencyContactName')} />
           <TextField label="Emergency contact’s phone" type="tel" autoComplete="off" error={errors.emergencyContactPhone?.message} {...register('emergencyContactPhone')} />

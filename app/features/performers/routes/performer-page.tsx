@@ -3,11 +3,13 @@ import { Link, useParams, type LoaderFunctionArgs } from 'react-router-dom';
 import { IdSchema } from '#shared/schemas/common.ts';
 import type { PerformerDetail } from '#shared/schemas/performers.ts';
 import { NotFoundPage } from '../../../components/layout/not-found-page.tsx';
-import { ButtonLink } from '../../../components/ui/button.tsx';
+import { Button, ButtonLink } from '../../../components/ui/button.tsx';
 import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { Section } from '../../../components/ui/section.tsx';
+import { StatusBadge } from '../../../components/ui/status-badge.tsx';
 import { isApiError } from '../../../lib/api-client.ts';
 import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
@@ -16,7 +18,7 @@ import { BookingForm } from '../../bookings/components/booking-form.tsx';
 import { BookingsTable } from '../../bookings/components/bookings-table.tsx';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../session/seat.ts';
 import { useSession } from '../../session/session-context.tsx';
-import { performerQueryOptions } from '../api.ts';
+import { performerQueryOptions, useResendConfirmation } from '../api.ts';
 import { ConsentsSection } from '../components/consents-section.tsx';
 import { LinkedAccount } from '../components/linked-account.tsx';
 import { displayName } from '../components/names.tsx';
@@ -115,7 +117,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
       {p.contact ? (
         <Section title="Contact" testId="contact-section">
           <dl className="grid gap-x-6 gap-y-3 sm:grid-cols-[max-content_1fr]">
-            <ContactRow label="E-mail" value={p.contact.email} />
+            <EmailRow performer={p} />
             <ContactRow label="Phone" value={p.contact.phone} />
             <ContactRow label="Emergency contact" value={[p.contact.emergencyContactName, p.contact.emergencyContactPhone].filter(Boolean).join(', ') || null} />
             <ContactRow label="Agent" value={[p.contact.agentName, p.contact.agentContact].filter(Boolean).join(', ') || null} />
@@ -170,6 +172,45 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
         <EmptyState title="Nothing recorded yet.">Recorded here once the department starts casting.</EmptyState>
       </Section>
     </div>
+  );
+}
+
+/** The address, and whether the performer confirmed it (only then does their mail go there). */
+function EmailRow({ performer: p }: { performer: PerformerDetail }) {
+  const resend = useResendConfirmation(p.id);
+  const email = p.contact?.email ?? null;
+  return (
+    <>
+      <dt className="font-semibold text-ink-700">E-mail</dt>
+      <dd className="flex flex-col gap-2">
+        {email ? (
+          <span className="flex flex-wrap items-center gap-2">
+            <span className="break-all">{email}</span>
+            {p.contact?.emailConfirmed ? (
+              <StatusBadge tone="good">Confirmed</StatusBadge>
+            ) : (
+              <StatusBadge tone="warning">Awaiting confirmation</StatusBadge>
+            )}
+          </span>
+        ) : (
+          <span className="text-ink-600">Not given</span>
+        )}
+        {email && !p.contact?.emailConfirmed ? (
+          <span className="flex flex-col gap-2 text-sm text-ink-700">
+            <span>Until {displayName(p)} confirms it, this address gets nothing but the confirmation request: no signed copies, no signing or withdrawal links.</span>
+            {p.canEdit ? (
+              <span className="flex flex-wrap items-center gap-3">
+                <Button variant="secondary" pending={resend.isPending} pendingLabel="Sending…" onClick={() => resend.mutate()}>
+                  Send the confirmation again
+                </Button>
+                {resend.isSuccess ? <output className="font-semibold text-sage-800">Sent.</output> : null}
+              </span>
+            ) : null}
+            {resend.isError ? <ErrorBanner error={resend.error} /> : null}
+          </span>
+        ) : null}
+      </dd>
+    </>
   );
 }
 

@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
-import { Wordmark } from '../../../components/layout/wordmark.tsx';
-import { useDocumentTitle } from '../../../lib/use-document-title.ts';
+import { Wordmark } from './wordmark.tsx';
+import { useDocumentTitle } from '../../lib/use-document-title.ts';
 
 /** Pages a performer opens without signing in: Plinth's mark, the page, and nothing of any staff session. */
 export function PublicFrame({ title, children, narrow = false }: { title: string; children: ReactNode; narrow?: boolean }) {
