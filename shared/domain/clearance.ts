@@ -79,6 +79,8 @@ export interface TestedProduct {
   productId: string;
   /** The formulation of the lot that was tested. */
   formulationId: string;
+  /** The lot tested; clearance does not depend on it, since a new lot of the same formulation needs no new test. */
+  lotId?: string | null;
   status: TestStatus;
   appliedAt: Date | null;
   /** From `requiredPointIds(protocol)` of the protocol the test was booked with. */

@@ -96,7 +96,8 @@ function candidates(name: string): string[] {
   const outside = name.replace(/\([^)]*\)/g, ' ').trim();
   if (outside && outside !== name) out.push(outside);
   for (const m of name.matchAll(/\(([^)]*)\)/g)) out.push(m[1]!);
-  if (name.includes('/')) out.push(...name.split('/'));
+  // "Aqua/Water" names one ingredient twice; a copolymer's slash joins monomers and must not resolve to one.
+  if (name.includes('/') && !/polymer/i.test(name)) out.push(...name.split('/'));
   return out;
 }
 
@@ -162,7 +163,12 @@ export interface LabelEntry {
 }
 
 const LEAD_WORD = /^\s*(?:ingredients|ingr[ée]dients|inci)\s*[:：.-]?\s*/i;
-const MAY_CONTAIN = /^\s*(\[)?\s*(?:may\s+contain|peut\s+contenir|\+\s*\/\s*-|±)\s*[:：]?\s*(?:\(\s*\+\s*\/\s*-\s*\)|\[\s*\+\s*\/\s*-\s*\])?\s*[:：]?\s*/i;
+/** "May contain", "+/-" or "±" opening the shade-range colourants, possibly in square brackets. */
+const MAY_CONTAIN = /(?:^|[\s.,;])(\[?)\s*(?:may\s+contain|peut\s+contenir|\+\s*\/\s*-|±)\s*(?:\(\s*\+\s*\/\s*-\s*\)|\[\s*\+\s*\/\s*-\s*\])?\s*[:：]?/i;
+/** The full stop closing the list, but not the one of "Alcohol Denat.". */
+const LIST_END = /(?<!\bdenat)[*†‡]*\.\s*$/i;
+/** A footnote after the list, such as ". *Fragrance allergen". */
+const FOOTNOTE = /\.\s+[*†‡]+\s*\p{L}[^,]*$/u;
 
 function splitTopLevel(s: string): string[] {
   const parts: string[] = [];
@@ -185,37 +191,40 @@ function splitTopLevel(s: string): string[] {
 
 function tidy(name: string): string {
   return name
-    .replace(/^[\s*†‡]+|[\s*†‡.]+$/g, '')
+    .replace(/^[\s*†‡]+|[\s*†‡]+$/g, '')
     .replace(/\s+/g, ' ')
     .trim();
 }
 
+function entries(text: string, mayContain: boolean): LabelEntry[] {
+  return splitTopLevel(text)
+    .map(tidy)
+    .filter((name) => name.length > 0)
+    .map((name) => ({ name, mayContain }));
+}
+
 /**
- * A printed ingredient list as entries in label order: the leading word "Ingredients" dropped, split on
- * commas outside brackets, footnote marks removed, and names after "may contain" or "+/-" marked as such.
+ * A printed ingredient list as entries in label order: the leading word "Ingredients" and any closing
+ * footnote dropped, split on commas outside brackets, footnote marks removed, and the colourants after
+ * "may contain" or "+/-" marked as such.
  */
 export function parseInciLabel(text: string): LabelEntry[] {
-  const body = text.normalize('NFKC').replace(/\s+/g, ' ').replace(LEAD_WORD, '');
-  const out: LabelEntry[] = [];
-  let mayContain = false;
-  let bracketed = false;
-  for (const raw of splitTopLevel(body)) {
-    let part = raw;
-    const marker = MAY_CONTAIN.exec(part);
-    if (marker) {
-      mayContain = true;
-      bracketed = marker[1] === '[';
-      part = part.slice(marker[0].length);
-    }
-    const closes = bracketed && part.includes(']');
-    const name = tidy(part.replace(/[[\]]/g, ''));
-    if (name) out.push({ name, mayContain });
-    if (closes) {
-      mayContain = false;
-      bracketed = false;
-    }
+  const body = text
+    .normalize('NFKC')
+    .replace(/\s+/g, ' ')
+    .replace(LEAD_WORD, '')
+    .replace(FOOTNOTE, '')
+    .replace(LIST_END, '');
+  const marker = MAY_CONTAIN.exec(body);
+  if (!marker) return entries(body, false);
+  const main = body.slice(0, marker.index);
+  let rest = body.slice(marker.index + marker[0].length);
+  let after = '';
+  if (marker[1] === '[') {
+    const close = rest.indexOf(']');
+    if (close >= 0) [rest, after] = [rest.slice(0, close), rest.slice(close + 1)];
   }
-  return out;
+  return [...entries(main, false), ...entries(rest, true), ...entries(after, false)];
 }
 
 /** The names of a printed ingredient list in label order, "may contain" colourants included. */
@@ -227,18 +236,18 @@ export function parseInciList(text: string): string[] {
 export type DeclaredAllergy = { kind: 'ingredient'; key: string; name: string } | { kind: 'group'; group: AllergenGroup };
 
 /**
- * The vocabulary link for an allergy typed in words: a known ingredient first, then a group by its id or
- * label. "Other" is no group anyone is allergic to, so it never matches.
+ * The vocabulary link for an allergy typed in words: an allergen group by its id or label first, since
+ * "fragrance" or "latex" in a performer's words means the family, then a known ingredient. "Other" is no
+ * group anyone is allergic to, so it never matches.
  */
 export function resolveDeclaredAllergy(text: string, vocabulary: IngredientVocabulary): DeclaredAllergy | null {
-  const hit = resolveIngredient(text, vocabulary);
-  if (hit) return { kind: 'ingredient', key: normaliseInciName(hit.inci), name: hit.inci };
   const key = normaliseInciName(text);
   for (const g of ALLERGEN_GROUPS) {
     if (g === 'other') continue;
     if (normaliseInciName(g) === key || normaliseInciName(ALLERGEN_GROUP_LABELS[g]) === key) return { kind: 'group', group: g };
   }
-  return null;
+  const hit = resolveIngredient(text, vocabulary);
+  return hit ? { kind: 'ingredient', key: normaliseInciName(hit.inci), name: hit.inci } : null;
 }
 
 /** Whether an ingredient falls under a declared allergy; carriers count here, since a declared allergy is the performer's own word. */
