@@ -14,8 +14,10 @@ export const PRODUCT_CATEGORIES = [
   'powder',
   'other',
 ] as const;
+/** What a product is for in the department. */
 export type ProductCategory = (typeof PRODUCT_CATEGORIES)[number];
 
+/** Product categories in plain words. */
 export const PRODUCT_CATEGORY_LABELS: Record<ProductCategory, string> = {
   adhesive: 'Adhesive',
   remover: 'Remover',
@@ -33,8 +35,10 @@ export const PRODUCT_CATEGORY_LABELS: Record<ProductCategory, string> = {
 
 /** Whether a product stays on the skin or is washed or wiped off; fragrance-allergen labelling thresholds differ between them. */
 export const EXPOSURE_TYPES = ['leave_on', 'rinse_off'] as const;
+/** Leave-on or rinse-off. */
 export type ExposureType = (typeof EXPOSURE_TYPES)[number];
 
+/** Exposure types in plain words. */
 export const EXPOSURE_TYPE_LABELS: Record<ExposureType, string> = {
   leave_on: 'Leave-on',
   rinse_off: 'Rinse-off',

@@ -6,6 +6,7 @@ export interface CautionApproval {
   formulationId: string;
 }
 
+/** One planned product in the check, with whether it lets the application go ahead. */
 export interface VerdictItem {
   result: ClearanceResult;
   /** A Caution the lead has approved for this performer. */
@@ -13,6 +14,7 @@ export interface VerdictItem {
   go: boolean;
 }
 
+/** The whole check: go or stop, and which products hold it up. */
 export interface CheckVerdict {
   verdict: 'go' | 'stop';
   items: VerdictItem[];

@@ -11,9 +11,12 @@ import { isPositive, type GradedCode, type IcdrgCode } from './icdrg.ts';
 import { matchesAllergy, sharedNonTrivialIngredients, type DeclaredAllergy, type IngredientRef } from './ingredients.ts';
 import type { TestStatus } from './reading-schedule.ts';
 
+/** The five answers Plinth gives about a performer and a product formulation. */
 export const CLEARANCE_STATES = ['cleared', 'caution', 'do_not_use', 'pending', 'untested'] as const;
+/** One clearance answer. */
 export type ClearanceState = (typeof CLEARANCE_STATES)[number];
 
+/** The states' names as staff see them. */
 export const CLEARANCE_STATE_LABELS: Record<ClearanceState, string> = {
   cleared: 'Cleared',
   caution: 'Caution',
@@ -24,6 +27,7 @@ export const CLEARANCE_STATE_LABELS: Record<ClearanceState, string> = {
 
 /** Icon names of the app's status icon set, so each state reads by shape and word, not colour alone. */
 export type ClearanceIcon = 'check' | 'warning' | 'blocked' | 'clock' | 'missing';
+/** One icon per state, all different. */
 export const CLEARANCE_STATE_ICONS: Record<ClearanceState, ClearanceIcon> = {
   cleared: 'check',
   caution: 'warning',
@@ -37,8 +41,10 @@ export const CLEARANCE_SEVERITY: Record<ClearanceState, number> = { do_not_use: 
 
 /** The lead may set any state but Pending, which only outstanding readings can make. */
 export const OVERRIDE_STATES = ['cleared', 'caution', 'do_not_use', 'untested'] as const;
+/** A state the lead may set by override. */
 export type OverrideState = (typeof OVERRIDE_STATES)[number];
 
+/** Every reason Plinth gives, in non-medical words anyone on the production may read. */
 export const CLEARANCE_REASON_TEXTS = {
   lead_decision: 'set by the designated lead',
   override_lapsed: "the lead's earlier decision no longer applies",
@@ -57,8 +63,10 @@ export const CLEARANCE_REASON_TEXTS = {
   not_tested: 'not tested',
   ingredients_not_recorded: 'ingredients not recorded',
 } as const;
+/** A reason, by code. */
 export type ClearanceReasonCode = keyof typeof CLEARANCE_REASON_TEXTS;
 
+/** A reason with its words. */
 export interface ClearanceReason {
   code: ClearanceReasonCode;
   text: string;
@@ -88,6 +96,7 @@ export interface TestedProduct {
   readings: readonly { pointId: string; readAt: Date; code: IcdrgCode }[];
 }
 
+/** The lead's decision on one formulation for this performer. */
 export interface ClearanceOverride {
   formulationId: string;
   state: OverrideState;
@@ -99,6 +108,7 @@ export interface ClearanceOverride {
   expiresAt?: Date | null;
 }
 
+/** Everything one call needs for one performer, from a few list queries. */
 export interface PerformerClearanceInput {
   /** The formulations to answer for, usually each product's current one. */
   formulations: readonly FormulationFacts[];
@@ -114,6 +124,7 @@ export interface PerformerClearanceInput {
   validityMonths?: number;
 }
 
+/** The answer for one formulation, fit for staff without medical access. */
 export interface ClearanceResult {
   productId: string;
   formulationId: string;
@@ -129,6 +140,7 @@ export interface ClearanceResult {
   computedState: ClearanceState;
 }
 
+/** A clear test clears a formulation for 12 months unless the production sets otherwise. */
 export const DEFAULT_VALIDITY_MONTHS = 12;
 
 /** Calendar months later in UTC, the day clamped to the month's end (31 Jan + 1 month = 28 or 29 Feb). */

@@ -10,11 +10,13 @@
  */
 
 export const ICDRG_CODES = ['-', '?+', '+', '++', '+++', 'IR', 'NT'] as const;
+/** A code on the ICDRG scale, stored as its symbol. */
 export type IcdrgCode = (typeof ICDRG_CODES)[number];
 
 /** The codes that count as a result at a site: everything except "not tested". */
 export type GradedCode = Exclude<IcdrgCode, 'NT'>;
 
+/** Each code in plain words, for the lead and the performer. */
 export const ICDRG_LABELS: Record<IcdrgCode, string> = {
   '-': 'Negative',
   '?+': 'Doubtful',
@@ -25,6 +27,7 @@ export const ICDRG_LABELS: Record<IcdrgCode, string> = {
   NT: 'Not tested',
 };
 
+/** What the reader sees at the site for each code, without diagnosing anything. */
 export const ICDRG_DESCRIPTIONS: Record<IcdrgCode, string> = {
   '-': 'No reaction.',
   '?+': 'Faint redness only.',

@@ -16,8 +16,10 @@ export const ALLERGEN_GROUPS = [
   'pigments',
   'other',
 ] as const;
+/** The allergen family an ingredient belongs to; a declared allergy may name a whole family. */
 export type AllergenGroup = (typeof ALLERGEN_GROUPS)[number];
 
+/** Allergen groups in plain words. */
 export const ALLERGEN_GROUP_LABELS: Record<AllergenGroup, string> = {
   acrylates: 'Acrylates',
   rosin: 'Rosin (colophony)',
@@ -31,6 +33,7 @@ export const ALLERGEN_GROUP_LABELS: Record<AllergenGroup, string> = {
   other: 'Other',
 };
 
+/** One vocabulary entry, keyed by INCI name with synonyms and CAS number. */
 export interface Ingredient {
   /** The INCI name as it is written on a label, e.g. "Colophonium". */
   inci: string;
@@ -66,6 +69,7 @@ export function isValidCas(cas: string): boolean {
   return sum % 10 === Number(m[3]);
 }
 
+/** The vocabulary indexed for lookup by any of its names or CAS numbers. */
 export interface IngredientVocabulary {
   readonly byKey: ReadonlyMap<string, Ingredient>;
   readonly byCas: ReadonlyMap<string, Ingredient>;
@@ -156,6 +160,7 @@ export function sharedNonTrivialIngredients(a: readonly IngredientRef[], b: read
   return [...out.values()];
 }
 
+/** One name of a printed ingredient list. */
 export interface LabelEntry {
   name: string;
   /** Listed after "may contain" or "+/-": a shade-range colourant that may be present. */

@@ -4,8 +4,10 @@
  */
 
 export const TEST_KINDS = ['department_use', 'repeated_open', 'occluded_patch', 'short_contact'] as const;
+/** Every test records its kind, so a screening result is never taken for a diagnosis. */
 export type TestKind = (typeof TEST_KINDS)[number];
 
+/** Test kinds in plain words. */
 export const TEST_KIND_LABELS: Record<TestKind, string> = {
   department_use: 'Department use test',
   repeated_open: 'Repeated open application test (ROAT)',
@@ -18,12 +20,15 @@ export function isScreeningKind(kind: TestKind): boolean {
   return kind !== 'occluded_patch';
 }
 
+/** Shown beside every screening result. */
 export const SCREENING_NOTE = 'This test screens for reactions. It is not a medical diagnosis.';
 
 /** The moment a reading's offset counts from. */
 export const READING_ANCHORS = ['application', 'removal'] as const;
+/** Readings of an occluded test count from removal or application; open tests from application only. */
 export type ReadingAnchor = (typeof READING_ANCHORS)[number];
 
+/** One reading of a protocol: when it falls due and how long its window stays open. */
 export interface ReadingPoint {
   /** Stable within its protocol; recorded readings refer to it. Lower-case letters, digits and `_`. */
   id: string;
@@ -40,6 +45,7 @@ export interface ReadingPoint {
   optional: boolean;
 }
 
+/** How often the product goes on: once, or repeatedly on the same site for a repeated open test. */
 export interface ApplicationPlan {
   timesPerDay: number;
   days: number;
@@ -47,6 +53,7 @@ export interface ApplicationPlan {
   sameSite: boolean;
 }
 
+/** A test protocol as editable data; `protocolProblems` says whether an edit is sound. */
 export interface Protocol {
   /** Stable slug, for example "occluded-48h". */
   id: string;
@@ -70,6 +77,7 @@ export const MIN_MINUTES_AFTER_REMOVAL = 15;
 /** A reading must fall on D3 or later for an occluded test, so a D2-only protocol cannot be made. */
 export const LATEST_READING_MIN_MINUTES = 3 * DAY;
 
+/** One application, the plan of every test but the repeated open one. */
 export const SINGLE_APPLICATION: ApplicationPlan = { timesPerDay: 1, days: 1, sameSite: true };
 
 function point(p: Omit<ReadingPoint, 'optional'> & { optional?: boolean }): ReadingPoint {
@@ -133,6 +141,7 @@ export function nominalDueMinutes(protocol: Pick<Protocol, 'occlusionMinutes'>, 
   return p.from === 'removal' ? (protocol.occlusionMinutes ?? 0) + p.offsetMinutes : p.offsetMinutes;
 }
 
+/** One unsound part of a protocol, with the path of the field it concerns. */
 export interface ProtocolProblem {
   path: (string | number)[];
   message: string;

@@ -4,9 +4,12 @@
  */
 import { MIN_MINUTES_AFTER_REMOVAL, requiredPointIds, type Protocol, type ReadingPoint } from './protocols.ts';
 
+/** The life of a test: booked, applied and under reading, closed by the lead, or cancelled. */
 export const TEST_STATUSES = ['booked', 'applied', 'closed', 'cancelled'] as const;
+/** Where a test is in its life. */
 export type TestStatus = (typeof TEST_STATUSES)[number];
 
+/** Test statuses in plain words. */
 export const TEST_STATUS_LABELS: Record<TestStatus, string> = {
   booked: 'Booked',
   applied: 'Under reading',
@@ -17,6 +20,7 @@ export const TEST_STATUS_LABELS: Record<TestStatus, string> = {
 /** `done` is not computed here: the caller knows which readings were recorded. */
 export type ReadingStatus = 'not_open' | 'open' | 'overdue' | 'lapsed';
 
+/** Reading statuses in plain words, `done` included for the caller. */
 export const READING_STATUS_LABELS: Record<ReadingStatus | 'done', string> = {
   not_open: 'Not yet open',
   open: 'Open now',
@@ -25,6 +29,7 @@ export const READING_STATUS_LABELS: Record<ReadingStatus | 'done', string> = {
   done: 'Done',
 };
 
+/** One reading of one test, placed in time from the recorded application and removal. */
 export interface ScheduledReading {
   pointId: string;
   label: string;
@@ -40,6 +45,7 @@ export interface ScheduledReading {
   status: ReadingStatus;
 }
 
+/** The recorded moments a schedule counts from. */
 export interface TestTimes {
   appliedAt: Date;
   removedAt?: Date | null;
@@ -106,6 +112,7 @@ export function readingSchedule(protocol: Protocol, input: TestTimes & { now: Da
   return protocol.readings.map((p) => scheduleOne(protocol, p, input, input.now, input.timeZone ?? 'UTC'));
 }
 
+/** Why a reading cannot be recorded now. */
 export type ReadingRefusal =
   | 'unknown_point'
   | 'not_applied'
@@ -116,10 +123,12 @@ export type ReadingRefusal =
   | 'before_window'
   | 'in_future';
 
+/** A reading may be recorded (late or not), or is refused with a reason and a message. */
 export type ReadingTimeCheck =
   | { ok: true; reading: ScheduledReading; late: boolean }
   | { ok: false; reason: ReadingRefusal; message: string; opensAt?: Date };
 
+/** The facts `checkReadingTime` needs about one test and one reading. */
 export interface ReadingTimeInput {
   status: TestStatus;
   appliedAt: Date | null;
@@ -205,6 +214,7 @@ export interface TestUnderReading {
   takenPointIds: readonly string[];
 }
 
+/** One entry of the lead's reading lists: the caller's test row and the reading it waits for. */
 export interface ReadingTask<T> {
   test: T;
   reading: ScheduledReading;

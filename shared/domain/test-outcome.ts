@@ -5,6 +5,7 @@
  */
 import { icdrgStrength, strongestCode, type GradedCode, type IcdrgCode } from './icdrg.ts';
 
+/** How a reaction changed across readings, in Plinth's words; a hint, never a verdict. */
 export const READING_PATTERNS = [
   'no_readings',
   'single_reading',
@@ -15,8 +16,10 @@ export const READING_PATTERNS = [
   'fading_then_rising',
   'up_and_down',
 ] as const;
+/** One pattern across readings. */
 export type ReadingPattern = (typeof READING_PATTERNS)[number];
 
+/** Patterns in plain words. */
 export const READING_PATTERN_LABELS: Record<ReadingPattern, string> = {
   no_readings: 'No readings',
   single_reading: 'Single reading',
@@ -37,6 +40,7 @@ export const READING_PATTERN_TERMS: Partial<Record<ReadingPattern, string>> = {
   fading_then_rising: 'decrescendo–crescendo',
 };
 
+/** What each pattern tends to mean, worded as a hint for the lead. */
 export const READING_PATTERN_HINTS: Partial<Record<ReadingPattern, string>> = {
   rising: 'Stronger at later readings. This is more typical of allergy.',
   steady: 'The same at each reading.',
@@ -46,11 +50,13 @@ export const READING_PATTERN_HINTS: Partial<Record<ReadingPattern, string>> = {
   up_and_down: 'Changed direction more than once.',
 };
 
+/** One code recorded at one reading of one product. */
 export interface GradedReading {
   readAt: Date;
   code: IcdrgCode;
 }
 
+/** What the readings of one tested product add up to. */
 export interface ProductOutcome {
   /** Strongest code over the readings, `NT` ignored; null when none was graded. */
   strongest: GradedCode | null;

@@ -45,7 +45,7 @@ describe('the ICDRG code list', () => {
 
 describe('normaliseIcdrgCode', () => {
   it('reads +? as ?+', () => {
-    // check-values §1.2: "?+ (also +?)", Environ Health 2003;2:3 T1
+    // Environ Health 2003;2:3 T1: the doubtful grade, also written +?
     expect(normaliseIcdrgCode('+?')).toBe('?+');
     expect(normaliseIcdrgCode('?+')).toBe('?+');
   });

@@ -40,7 +40,7 @@ describe('readingSchedule for the occluded patch test', () => {
   });
 
   it('labels the later readings D4 and D7 from the application day', () => {
-    // ESCD 2015: D0 = application day, readings on D4 and D7 (from memory); check-values §1.3: labels from timestamps
+    // ESCD 2015: D0 = application day, readings on D4 and D7 (from memory); centres number days differently (Mayo "place on day 1")
     expect(at(0).map((r) => r.dayLabel)).toEqual(['D2', 'D4', 'D7']);
     expect(at(0)[1]!.dueAt.toISOString()).toBe('2026-03-06T09:00:00.000Z');
   });
@@ -75,7 +75,7 @@ describe('dayLabel', () => {
     expect(r.map((x) => x.dayLabel)).toEqual(['30 min', '60 min']);
   });
   it('counts hours on the application day, calendar days after it', () => {
-    // check-values §1.3 app rule: compute day labels from real timestamps, D0 = application day (ESCD, from memory)
+    // ESCD 2015: D0 = application day (from memory)
     expect(dayLabel(applied, new Date(applied.getTime() + 5 * HOUR))).toBe('5 h');
     const lateEvening = d('2026-03-02T22:00:00Z');
     expect(dayLabel(lateEvening, d('2026-03-03T08:00:00Z'))).toBe('D1');
