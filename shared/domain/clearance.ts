@@ -1,0 +1,306 @@
+/**
+ * Clearance of one performer for each product formulation: Cleared, Caution, Do not use, Pending or
+ * Untested, with reasons in plain words. The result is what staff without medical access may see, so it
+ * carries no grade, note or photo.
+ *
+ * Input shapes are built from a few list queries for one performer (their tested products with readings,
+ * the formulations those tests and the asked-for products name, declared allergies, overrides); one call
+ * answers every formulation asked about.
+ */
+import { isPositive, type GradedCode, type IcdrgCode } from './icdrg.ts';
+import { matchesAllergy, sharedNonTrivialIngredients, type DeclaredAllergy, type IngredientRef } from './ingredients.ts';
+import type { TestStatus } from './reading-schedule.ts';
+
+/** The five answers Plinth gives about a performer and a product formulation. */
+export const CLEARANCE_STATES = ['cleared', 'caution', 'do_not_use', 'pending', 'untested'] as const;
+/** One clearance answer. */
+export type ClearanceState = (typeof CLEARANCE_STATES)[number];
+
+/** The states' names as staff see them. */
+export const CLEARANCE_STATE_LABELS: Record<ClearanceState, string> = {
+  cleared: 'Cleared',
+  caution: 'Caution',
+  do_not_use: 'Do not use',
+  pending: 'Pending',
+  untested: 'Untested',
+};
+
+/** Icon names of the app's status icon set, so each state reads by shape and word, not colour alone. */
+export type ClearanceIcon = 'check' | 'warning' | 'blocked' | 'clock' | 'missing';
+/** One icon per state, all different. */
+export const CLEARANCE_STATE_ICONS: Record<ClearanceState, ClearanceIcon> = {
+  cleared: 'check',
+  caution: 'warning',
+  do_not_use: 'blocked',
+  pending: 'clock',
+  untested: 'missing',
+};
+
+/** Sort order for tables: what stops an application first. */
+export const CLEARANCE_SEVERITY: Record<ClearanceState, number> = { do_not_use: 0, caution: 1, pending: 2, untested: 3, cleared: 4 };
+
+/** The lead may set any state but Pending, which only outstanding readings can make. */
+export const OVERRIDE_STATES = ['cleared', 'caution', 'do_not_use', 'untested'] as const;
+/** A state the lead may set by override. */
+export type OverrideState = (typeof OVERRIDE_STATES)[number];
+
+/** Every reason Plinth gives, in non-medical words anyone on the production may read. */
+export const CLEARANCE_REASON_TEXTS = {
+  lead_decision: 'set by the designated lead',
+  override_lapsed: "the lead's earlier decision no longer applies",
+  reacted: 'reacted in testing',
+  declared_allergy: 'declared allergy to an ingredient',
+  shared_ingredient: 'shares an ingredient with a product that reacted',
+  doubtful_final: 'doubtful reading at the final check; retest advised',
+  doubtful_reading: 'doubtful reading in testing',
+  irritation: 'skin irritation in testing',
+  test_booked: 'test booked, not yet applied',
+  readings_outstanding: 'readings outstanding',
+  no_reaction: 'no reaction through the final reading',
+  last_test_expired: 'last test expired',
+  test_incomplete: 'last test not completed',
+  new_formulation: 'not tested since the formulation changed',
+  not_tested: 'not tested',
+  ingredients_not_recorded: 'ingredients not recorded',
+} as const;
+/** A reason, by code. */
+export type ClearanceReasonCode = keyof typeof CLEARANCE_REASON_TEXTS;
+
+/** A reason with its words. */
+export interface ClearanceReason {
+  code: ClearanceReasonCode;
+  text: string;
+}
+
+/** One formulation of a product: its own version of the ingredient list. A new lot is not a new formulation. */
+export interface FormulationFacts {
+  formulationId: string;
+  productId: string;
+  productName: string;
+  /** In label order, from `resolveIngredientList`; null or empty when the ingredients were never recorded. */
+  ingredients: readonly IngredientRef[] | null;
+}
+
+/** One product on one patch test (a test × tested-product row) with every reading recorded for it. */
+export interface TestedProduct {
+  testId: string;
+  productId: string;
+  /** The formulation of the lot that was tested. */
+  formulationId: string;
+  /** The lot tested; clearance does not depend on it, since a new lot of the same formulation needs no new test. */
+  lotId?: string | null;
+  status: TestStatus;
+  appliedAt: Date | null;
+  /** From `requiredPointIds(protocol)` of the protocol the test was booked with. */
+  requiredPointIds: readonly string[];
+  readings: readonly { pointId: string; readAt: Date; code: IcdrgCode }[];
+}
+
+/** The lead's decision on one formulation for this performer. */
+export interface ClearanceOverride {
+  formulationId: string;
+  state: OverrideState;
+  /** Who set it, as it should be shown (name or user id). */
+  by: string;
+  at: Date;
+  /** Required when setting an override; kept with the medical record and never returned here. */
+  note: string;
+  expiresAt?: Date | null;
+}
+
+/** Everything one call needs for one performer, from a few list queries. */
+export interface PerformerClearanceInput {
+  /** The formulations to answer for, usually each product's current one. */
+  formulations: readonly FormulationFacts[];
+  /** Ingredients of every formulation the tests name (may repeat `formulations`), so a reaction elsewhere can be traced. */
+  testedFormulations: readonly FormulationFacts[];
+  /** Every tested product of this performer, any product, any status. */
+  tests: readonly TestedProduct[];
+  declaredAllergies: readonly DeclaredAllergy[];
+  /** The overrides in force for this performer; the latest per formulation counts. */
+  overrides: readonly ClearanceOverride[];
+  now: Date;
+  /** How long a negative test clears a formulation; 12 months unless the production sets otherwise. */
+  validityMonths?: number;
+}
+
+/** The answer for one formulation, fit for staff without medical access. */
+export interface ClearanceResult {
+  productId: string;
+  formulationId: string;
+  productName: string;
+  state: ClearanceState;
+  /** In order of weight, the deciding reason first. Non-medical words only. */
+  reasons: ClearanceReason[];
+  validUntil: Date | null;
+  retestAdvised: boolean;
+  overridden: boolean;
+  override: { state: OverrideState; by: string; at: Date } | null;
+  /** What the readings and records say, underneath any override. */
+  computedState: ClearanceState;
+}
+
+/** A clear test clears a formulation for 12 months unless the production sets otherwise. */
+export const DEFAULT_VALIDITY_MONTHS = 12;
+
+/** Calendar months later in UTC, the day clamped to the month's end (31 Jan + 1 month = 28 or 29 Feb). */
+export function addMonths(at: Date, months: number): Date {
+  const d = new Date(at.getTime());
+  const day = d.getUTCDate();
+  d.setUTCDate(1);
+  d.setUTCMonth(d.getUTCMonth() + months);
+  const last = new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + 1, 0)).getUTCDate();
+  d.setUTCDate(Math.min(day, last));
+  return d;
+}
+
+interface TestFacts {
+  t: TestedProduct;
+  codes: GradedCode[];
+  start: number;
+  finalAt: number | null;
+  final: GradedCode | null;
+  complete: boolean;
+  finished: boolean;
+  positive: boolean;
+  allNegative: boolean;
+  pending: boolean;
+}
+
+function factsOf(t: TestedProduct): TestFacts {
+  const graded = t.readings.filter((r) => r.code !== 'NT').sort((a, b) => a.readAt.getTime() - b.readAt.getTime());
+  const codes = graded.map((r) => r.code as GradedCode);
+  const read = new Set(graded.map((r) => r.pointId));
+  const complete = t.requiredPointIds.length > 0 && t.requiredPointIds.every((id) => read.has(id));
+  const last = graded.at(-1);
+  return {
+    t,
+    codes,
+    start: t.appliedAt?.getTime() ?? graded[0]?.readAt.getTime() ?? Number.POSITIVE_INFINITY,
+    finalAt: last?.readAt.getTime() ?? null,
+    final: (last?.code as GradedCode | undefined) ?? null,
+    complete,
+    finished: complete || t.status === 'closed' || t.status === 'cancelled',
+    positive: codes.some(isPositive),
+    allNegative: codes.length > 0 && codes.every((c) => c === '-'),
+    pending: !complete && (t.status === 'booked' || t.status === 'applied'),
+  };
+}
+
+function reason(code: ClearanceReasonCode): ClearanceReason {
+  return { code, text: CLEARANCE_REASON_TEXTS[code] };
+}
+
+interface Prepared {
+  testsByFormulation: Map<string, TestFacts[]>;
+  testedProducts: Set<string>;
+  reacted: FormulationFacts[];
+  overrides: Map<string, ClearanceOverride>;
+  allergies: readonly DeclaredAllergy[];
+  now: Date;
+  months: number;
+}
+
+function prepare(input: PerformerClearanceInput): Prepared {
+  const testsByFormulation = new Map<string, TestFacts[]>();
+  const testedProducts = new Set<string>();
+  for (const t of input.tests) {
+    const list = testsByFormulation.get(t.formulationId) ?? testsByFormulation.set(t.formulationId, []).get(t.formulationId)!;
+    list.push(factsOf(t));
+    testedProducts.add(t.productId);
+  }
+  const known = new Map<string, FormulationFacts>();
+  for (const f of [...input.testedFormulations, ...input.formulations]) if (!known.has(f.formulationId)) known.set(f.formulationId, f);
+  const reacted = [...testsByFormulation]
+    .filter(([, facts]) => facts.some((x) => x.positive))
+    .flatMap(([id]) => (known.get(id)?.ingredients?.length ? [known.get(id)!] : []));
+  const overrides = new Map<string, ClearanceOverride>();
+  for (const o of input.overrides) {
+    const prev = overrides.get(o.formulationId);
+    if (!prev || prev.at.getTime() < o.at.getTime()) overrides.set(o.formulationId, o);
+  }
+  return { testsByFormulation, testedProducts, reacted, overrides, allergies: input.declaredAllergies, now: input.now, months: input.validityMonths ?? DEFAULT_VALIDITY_MONTHS };
+}
+
+function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; reasons: ClearanceReason[]; validUntil: Date | null; retestAdvised: boolean } {
+  const tests = p.testsByFormulation.get(f.formulationId) ?? [];
+  const ingredients = f.ingredients ?? [];
+  const recorded = ingredients.length > 0;
+
+  const stop: ClearanceReason[] = [];
+  if (tests.some((x) => x.positive)) stop.push(reason('reacted'));
+  if (ingredients.some((ing) => p.allergies.some((a) => matchesAllergy(ing, a)))) stop.push(reason('declared_allergy'));
+
+  // A doubtful or irritant result stands until a later complete test of the same formulation is negative throughout.
+  const cleanRuns = tests.filter((x) => x.complete && x.allNegative);
+  const standing = tests.filter((x) => !x.positive && !cleanRuns.some((c) => c.start > x.start));
+  const retestAdvised = standing.some((x) => x.finished && x.final === '?+');
+  const caution: ClearanceReason[] = [];
+  if (p.reacted.some((g) => g.formulationId !== f.formulationId && sharedNonTrivialIngredients(ingredients, g.ingredients ?? []).length > 0)) {
+    caution.push(reason('shared_ingredient'));
+  }
+  if (retestAdvised) caution.push(reason('doubtful_final'));
+  else if (standing.some((x) => x.codes.includes('?+'))) caution.push(reason('doubtful_reading'));
+  if (standing.some((x) => x.codes.includes('IR'))) caution.push(reason('irritation'));
+
+  const pending: ClearanceReason[] = [];
+  if (tests.some((x) => x.pending && x.t.status === 'booked')) pending.push(reason('test_booked'));
+  if (tests.some((x) => x.pending && x.t.status === 'applied')) pending.push(reason('readings_outstanding'));
+
+  const latestClean = cleanRuns.reduce<TestFacts | null>((best, x) => (best === null || (x.finalAt ?? 0) > (best.finalAt ?? 0) ? x : best), null);
+  const validUntil = latestClean?.finalAt != null ? addMonths(new Date(latestClean.finalAt), p.months) : null;
+  const valid = validUntil !== null && validUntil.getTime() > p.now.getTime();
+
+  const base: ClearanceReason[] = [];
+  if (tests.length === 0) base.push(reason(p.testedProducts.has(f.productId) ? 'new_formulation' : 'not_tested'));
+  else if (latestClean && !valid) base.push(reason('last_test_expired'));
+  else if (!latestClean && pending.length === 0 && caution.length === 0 && tests.some((x) => x.finished && !x.complete)) base.push(reason('test_incomplete'));
+  const records = recorded ? [] : [reason('ingredients_not_recorded')];
+
+  if (stop.length > 0) return { state: 'do_not_use', reasons: [...stop, ...records], validUntil: null, retestAdvised };
+  if (caution.length > 0) return { state: 'caution', reasons: [...caution, ...pending, ...base, ...records], validUntil: null, retestAdvised };
+  if (pending.length > 0) return { state: 'pending', reasons: [...pending, ...base, ...records], validUntil: null, retestAdvised };
+  if (valid && recorded) return { state: 'cleared', reasons: [reason('no_reaction')], validUntil, retestAdvised };
+  const why = [...base, ...records];
+  return { state: 'untested', reasons: why.length > 0 ? why : [reason('not_tested')], validUntil: null, retestAdvised };
+}
+
+/**
+ * Clearance of one formulation. Do not use: any `+` or stronger in a test of it, or a declared allergy to
+ * an ingredient. Caution: a doubtful or irritant reading and nothing stronger, or a non-trivial ingredient
+ * shared with another formulation that reacted. Pending: readings outstanding. Cleared: negative through
+ * the final reading, for the validity period. Untested otherwise, and always while ingredients are unrecorded.
+ * The lead's override wins until a later reading or its own end date sets it aside.
+ */
+function clearanceOf(f: FormulationFacts, p: Prepared): ClearanceResult {
+  const c = computed(f, p);
+  const head = { productId: f.productId, formulationId: f.formulationId, productName: f.productName };
+  const o = p.overrides.get(f.formulationId);
+  const readLater = (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.t.readings.some((r) => r.readAt.getTime() > (o?.at.getTime() ?? Infinity)));
+  const ended = o?.expiresAt != null && o.expiresAt.getTime() <= p.now.getTime();
+  if (o && !readLater && !ended) {
+    return {
+      ...head,
+      state: o.state,
+      reasons: [reason('lead_decision'), ...c.reasons],
+      validUntil: o.state === 'cleared' ? (o.expiresAt ?? null) : null,
+      retestAdvised: c.retestAdvised,
+      overridden: true,
+      override: { state: o.state, by: o.by, at: o.at },
+      computedState: c.state,
+    };
+  }
+  const reasons = o ? [...c.reasons, reason('override_lapsed')] : c.reasons;
+  return { ...head, ...c, reasons, overridden: false, override: null, computedState: c.state };
+}
+
+/** A performer's clearance for every formulation asked about, in the order given, from one set of list queries. */
+export function performerClearance(input: PerformerClearanceInput): ClearanceResult[] {
+  const p = prepare(input);
+  return input.formulations.map((f) => clearanceOf(f, p));
+}
+
+/** A performer's clearance for one formulation; for many, call `performerClearance` once instead. */
+export function formulationClearance(formulation: FormulationFacts, input: Omit<PerformerClearanceInput, 'formulations'>): ClearanceResult {
+  return performerClearance({ ...input, formulations: [formulation] })[0]!;
+}
