@@ -10,7 +10,8 @@ export type ArchiveQuery =
   | { kind: 'empty' }
   | { kind: 'label'; target: LabelTarget; code: string }
   | { kind: 'bad_label'; message: string }
-  | { kind: 'code_path'; path: string }
+  /** `text` is the entry as words, for when no place has that path ("face/hand" may be either). */
+  | { kind: 'code_path'; path: string; text: string; terms: string[] }
   | { kind: 'text'; text: string; terms: string[] };
 
 /** Case, accents and spacing never decide a match: "Renée" finds "renee". */
@@ -46,16 +47,19 @@ export function classifyArchiveQuery(raw: string, opts: { origin?: string } = {}
     if (parsed.ok) return { kind: 'label', target: parsed.target, code: parsed.code };
   }
 
+  const text = normaliseSearchText(trimmed);
+  const terms = [...new Set(text.split(' '))];
   if (trimmed.includes('/')) {
     const steps = trimmed
       .split('/')
-      .map(normaliseLocationCode)
+      .map((s) => s.trim())
       .filter((s) => s.length > 0);
-    if (steps.length > 0 && steps.every((s) => LOCATION_CODE_PATTERN.test(s))) return { kind: 'code_path', path: steps.join('/') };
+    const codes = steps.map(normaliseLocationCode);
+    if (steps.length > 0 && steps.every((s) => !/\s/.test(s)) && codes.every((c) => LOCATION_CODE_PATTERN.test(c))) {
+      return { kind: 'code_path', path: codes.join('/'), text, terms };
+    }
   }
-
-  const text = normaliseSearchText(trimmed);
-  return { kind: 'text', text, terms: [...new Set(text.split(' '))] };
+  return { kind: 'text', text, terms };
 }
 
 /** Every term must appear in at least one field: more words narrow the list, as people expect. */
