@@ -57,8 +57,9 @@ export function reviewDate(consent: Pick<ConsentTimes, 'signedAt' | 'expiresAt'>
 }
 
 /**
- * Of a performer's storage consents, the one that speaks for them now: their latest word, so a
- * withdrawal made after the newest signing wins, and a new signing after a withdrawal restores consent.
+ * Of the storage consents that cover a cast (its performer's, given to its production or naming
+ * none), the one that speaks now: the latest word, so a withdrawal after the newest signing wins
+ * and a new signing after a withdrawal restores consent.
  */
 export function governingStorageConsent<T extends ConsentTimes>(consents: readonly T[], now: Date): T | null {
   const t = now.getTime();
