@@ -1,9 +1,12 @@
 /** What a life cast is in the archive: its kind, region, status, where it is now, and its condition. */
 import type { FieldErrors } from '../errors.ts';
 
+/** Cast kinds: a mold is taken from the performer, positives and cores are poured from it. */
 export const CAST_KINDS = ['mold', 'positive', 'core', 'other'] as const;
+/** One of the cast kinds. */
 export type CastKind = (typeof CAST_KINDS)[number];
 
+/** Cast kinds in the product's words. */
 export const CAST_KIND_LABELS: Record<CastKind, string> = {
   mold: 'Mold',
   positive: 'Positive',
@@ -11,9 +14,12 @@ export const CAST_KIND_LABELS: Record<CastKind, string> = {
   other: 'Other',
 };
 
+/** Body regions a life cast is taken of; the archive is searched by them. */
 export const BODY_REGIONS = ['face', 'head', 'head_and_shoulders', 'torso', 'arm', 'hand', 'leg', 'foot', 'teeth', 'other'] as const;
+/** One of the body regions. */
 export type BodyRegion = (typeof BODY_REGIONS)[number];
 
+/** Body regions in the product's words. */
 export const BODY_REGION_LABELS: Record<BodyRegion, string> = {
   face: 'Face',
   head: 'Head',
@@ -42,9 +48,12 @@ export const CAST_MATERIAL_SUGGESTIONS = [
   'Wax',
 ] as const;
 
+/** Where a cast stands with the archive; the status decides which movements are allowed. */
 export const CAST_STATUSES = ['in_store', 'checked_out', 'on_loan', 'returned_to_performer', 'destroyed'] as const;
+/** One of the cast statuses. */
 export type CastStatus = (typeof CAST_STATUSES)[number];
 
+/** Cast statuses in the product's words. */
 export const CAST_STATUS_LABELS: Record<CastStatus, string> = {
   in_store: 'In store',
   checked_out: 'Checked out',
@@ -103,6 +112,7 @@ export function samePlace(a: CurrentPlace, b: CurrentPlace): boolean {
   }
 }
 
+/** What the poured-from rule needs to know about a cast. */
 export interface CastLink {
   id: string;
   kind: CastKind;
@@ -121,9 +131,12 @@ export function pouredFromRefusal(cast: CastLink, source: CastLink): string | nu
   return null;
 }
 
+/** Condition grades, from sound to damaged. */
 export const CONDITION_GRADES = ['good', 'fair', 'poor', 'damaged'] as const;
+/** One of the condition grades. */
 export type ConditionGrade = (typeof CONDITION_GRADES)[number];
 
+/** Condition grades in the product's words. */
 export const CONDITION_GRADE_LABELS: Record<ConditionGrade, string> = {
   good: 'Good',
   fair: 'Fair',
@@ -131,6 +144,7 @@ export const CONDITION_GRADE_LABELS: Record<ConditionGrade, string> = {
   damaged: 'Damaged',
 };
 
+/** One look at a cast: when, by whom, the grade, and what was seen. */
 export interface ConditionCheck {
   checkedOn: Date;
   checkedBy: string;

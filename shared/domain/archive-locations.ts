@@ -4,9 +4,12 @@
  */
 import type { FieldErrors } from '../errors.ts';
 
+/** The levels of the storage tree, from the top down. */
 export const LOCATION_LEVELS = ['site', 'room', 'rack', 'shelf', 'bin'] as const;
+/** One of the location levels. */
 export type LocationLevel = (typeof LOCATION_LEVELS)[number];
 
+/** Location levels in the product's words. */
 export const LOCATION_LEVEL_LABELS: Record<LocationLevel, string> = {
   site: 'Site',
   room: 'Room',
@@ -30,6 +33,7 @@ export const ALLOWED_PARENT_LEVELS: Record<LocationLevel, readonly (LocationLeve
 /** Casts are placed only where a hand can find them: on a shelf or in a bin, never "somewhere in room 2". */
 export const STORAGE_LEVELS: readonly LocationLevel[] = ['shelf', 'bin'];
 
+/** A storage place: its level, its parent, its short code and its environment notes. */
 export interface LocationNode {
   id: string;
   parentId: string | null;
@@ -78,6 +82,7 @@ export function castPlacementRefusal(level: LocationLevel): string | null {
   return `Casts go on a shelf or in a bin, not straight into a ${LOCATION_LEVEL_LABELS[level].toLowerCase()}: choose the exact place.`;
 }
 
+/** Each place's parent id, as a map or a lookup function. */
 export type ParentLookup = ReadonlyMap<string, string | null> | ((id: string) => string | null | undefined);
 
 function lookup(parentOf: ParentLookup, id: string): string | null | undefined {
@@ -209,6 +214,7 @@ export function reparentRefusal(
   return null;
 }
 
+/** What is inside a place, which decides whether it may be removed. */
 export interface LocationContents {
   /** Places directly inside this one. */
   childCount: number;

@@ -7,9 +7,12 @@ import type { FieldErrors } from '../errors.ts';
 import { castPlacementRefusal, type LocationLevel } from './archive-locations.ts';
 import { CAST_STATUS_LABELS, samePlace, type CastStatus, type CurrentPlace } from './archive-casts.ts';
 
+/** The kinds of movement a cast can have. */
 export const MOVEMENT_KINDS = ['check_out', 'check_in', 'relocation', 'loan', 'return_to_performer', 'destruction'] as const;
+/** One of the movement kinds. */
 export type MovementKind = (typeof MOVEMENT_KINDS)[number];
 
+/** Movement kinds in the product's words. */
 export const MOVEMENT_KIND_LABELS: Record<MovementKind, string> = {
   check_out: 'Check-out',
   check_in: 'Check-in',
@@ -62,6 +65,7 @@ interface MovementBase {
   note?: string | null;
 }
 
+/** A move as entered: who moved it, who authorised it, when, and what each kind needs besides. */
 export type Movement =
   | (MovementBase & { kind: 'check_out'; holder: string; reason: string; dueBackAt: Date | null })
   | (MovementBase & { kind: 'check_in'; to?: PlaceRef | null })
@@ -88,6 +92,7 @@ export interface MovementRecord {
   note: string | null;
 }
 
+/** A recorded move (new state and history line) or the field-keyed reasons it was refused. */
 export type MovementOutcome = { ok: true; state: CastState; record: MovementRecord } | { ok: false; errors: FieldErrors };
 
 /** A new cast enters the archive in store at a storage place, which also becomes its normal home. */
@@ -269,6 +274,7 @@ export function daysOverdue(cast: Pick<CastState, 'status' | 'dueBackAt'>, now: 
   return Math.floor((now.getTime() - cast.dueBackAt!.getTime()) / 86_400_000);
 }
 
+/** A stretch of a cast's history spent in one place. */
 export interface PlaceSpan {
   place: CurrentPlace;
   /** null: before the first recorded move. */

@@ -11,8 +11,10 @@ export const DEFAULT_RETENTION_YEARS = 5;
 /** How far ahead a coming review date is flagged, so there is time to ask the performer. */
 export const REVIEW_SOON_DAYS = 60;
 
+/** Kept, review soon, due for return or destruction, or no longer held. */
 export type RetentionState = 'kept' | 'review_soon' | 'due' | 'ended';
 
+/** Retention states in the product's words. */
 export const RETENTION_STATE_LABELS: Record<RetentionState, string> = {
   kept: 'Kept',
   review_soon: 'Review soon',
@@ -20,6 +22,7 @@ export const RETENTION_STATE_LABELS: Record<RetentionState, string> = {
   ended: 'No longer held',
 };
 
+/** A cast's retention state, why, and its review date. */
 export interface RetentionStatus {
   state: RetentionState;
   /** In the product's words, for the list of casts to review. */
@@ -28,6 +31,7 @@ export interface RetentionStatus {
   reviewOn: Date | null;
 }
 
+/** The studio's retention term and review-soon window, when it has changed the defaults. */
 export interface RetentionOptions {
   retentionYears?: number;
   soonDays?: number;

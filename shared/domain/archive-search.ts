@@ -6,6 +6,7 @@ import type { CurrentPlace } from './archive-casts.ts';
 import { descendantIds, LOCATION_CODE_PATTERN, normaliseLocationCode, type LocationSet } from './archive-locations.ts';
 import { labelCodeFromUrl, parseLabelCode, type LabelTarget } from './label-codes.ts';
 
+/** What a search entry turned out to be, so the box can open a record, a place, or list matches. */
 export type ArchiveQuery =
   | { kind: 'empty' }
   | { kind: 'label'; target: LabelTarget; code: string }

@@ -1,5 +1,5 @@
 /**
- * Printed label codes for casts and storage places, e.g. "C-7K3Q9X": a kind letter, five code
+ * Printed label codes for casts and storage places, e.g. "C-7K3Q9G": a kind letter, five code
  * characters and a Luhn mod N check character, so a code misread off a dusty label is caught
  * before it opens the wrong record. The QR on each label holds the URL that opens it.
  */
@@ -12,9 +12,12 @@ export const LABEL_ALPHABET = '0123456789ABCDEFGHJKMNPQRSTVWXYZ';
 
 /** Code characters before the check character: 32^5, about 33.5 million codes per kind. */
 export const LABEL_BODY_LENGTH = 5;
+/** How many distinct codes each kind has. */
 export const LABEL_CODE_SPACE = LABEL_ALPHABET.length ** LABEL_BODY_LENGTH;
 
+/** What a label can be stuck on. */
 export const LABEL_TARGETS = ['cast', 'location'] as const;
+/** A cast or a storage place. */
 export type LabelTarget = (typeof LABEL_TARGETS)[number];
 
 /** The kind letter printed first, so a person can tell a shelf label from a cast label at a glance. */
@@ -62,6 +65,7 @@ export function labelCodeFromNumber(target: LabelTarget, n: number): string {
   return `${LABEL_PREFIXES[target]}-${body}${luhnModNCheckCharacter(body, LABEL_ALPHABET)}`;
 }
 
+/** A read label code, or whether it was malformed or failed its check, in words. */
 export type ParsedLabel =
   | { ok: true; target: LabelTarget; code: string }
   | { ok: false; reason: 'format' | 'check'; message: string };
@@ -81,7 +85,7 @@ const LABEL_INPUT = /^([CL])[-\u2010-\u2015]?([0-9A-Z]{6})$/;
 export function parseLabelCode(raw: string): ParsedLabel {
   const squeezed = raw.trim().toUpperCase().replace(/\s+/g, '');
   const m = LABEL_INPUT.exec(squeezed);
-  if (!m) return { ok: false, reason: 'format', message: 'A label code is C or L, then six letters and digits, for example C-7K3Q9X.' };
+  if (!m) return { ok: false, reason: 'format', message: 'A label code is C or L, then six letters and digits, for example C-7K3Q9G.' };
   const prefix = m[1]!;
   const rest = foldLookAlikes(m[2]!);
   if ([...rest].some((ch) => !LABEL_ALPHABET.includes(ch))) {

@@ -95,7 +95,7 @@ describe('what the check character catches', () => {
 });
 
 describe('label codes', () => {
-  it('look like C-7K3Q9X: kind letter, hyphen, five characters and a check character', () => {
+  it('look like C-7K3Q9G: kind letter, hyphen, five characters and a check character', () => {
     expect(labelCodeFromNumber('cast', 0)).toMatch(/^C-[0-9A-HJKMNP-TV-Z]{6}$/);
     expect(labelCodeFromNumber('location', LABEL_CODE_SPACE - 1)).toMatch(/^L-ZZZZZ.$/);
     expect(labelCodeFromNumber('cast', 0)).toBe(`C-00000${reference(LABEL_ALPHABET, '00000')}`);
@@ -127,6 +127,11 @@ describe('parseLabelCode', () => {
   it('tells the kind apart by its letter', () => {
     const loc = labelCodeFromNumber('location', 4242);
     expect(parseLabelCode(loc)).toEqual({ ok: true, target: 'location', code: loc });
+  });
+  it('the example the format message gives is itself a valid code', () => {
+    const r = parseLabelCode('nonsense');
+    const example = r.ok ? '' : /for example (\S+?)\.$/.exec(r.message)?.[1];
+    expect(example && isValidLabelCode(example)).toBe(true);
   });
   it('says whether a code is malformed or fails its check', () => {
     expect(parseLabelCode('X-123456')).toMatchObject({ ok: false, reason: 'format' });
