@@ -159,8 +159,9 @@ describe('productions, memberships and the designated lead', () => {
 
     const audit = await t.db.db.selectFrom('audit_log').selectAll().where('action', '=', 'lead.appoint').execute();
     expect(audit).toHaveLength(1);
-    const [file] = await waitForMail(1);
-    expect((await simpleParser(await fs.readFile(file!))).subject).toBe('Plinth: you are now Designated lead on The Lantern Keeper');
+    // The new lead is told, and so are the production's heads.
+    const subjects = await Promise.all((await waitForMail(2)).map(async (f) => (await simpleParser(await fs.readFile(f))).subject));
+    expect(subjects.sort()).toEqual(['Plinth: the designated lead on The Lantern Keeper changed', 'Plinth: you are now Designated lead on The Lantern Keeper']);
   });
 
   it('refuses a lead appointment made on a stale view, and one for someone not on the team', async () => {

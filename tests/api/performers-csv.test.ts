@@ -207,7 +207,9 @@ describe('POST /api/performers/import', () => {
   });
 
   it('flags a repeated e-mail on the later line, and engages a performer already on file instead of duplicating them', async () => {
-    await makePerformer(t, 'Saltglass Regular', [{ productionId: saltglass }], { email: 'regular@example.test' });
+    // A production of the importer's own elsewhere: a performer they already manage there may be engaged here too.
+    const other = await makeProduction(t, 'Marta Elsewhere', [{ email: 'head@plinth.test', role: 'head' }]);
+    await makePerformer(t, 'Saltglass Regular', [{ productionId: other }], { email: 'regular@example.test' });
     const csv = [
       'legal_name,email,character_name',
       'First Copy,twin@example.test,A',
@@ -239,7 +241,7 @@ describe('POST /api/performers/import', () => {
       .execute();
     expect(regular).toEqual([
       { production_id: lantern, character_name: 'Lantern Cameo' },
-      { production_id: saltglass, character_name: null },
+      { production_id: other, character_name: null },
     ]);
   });
 

@@ -86,6 +86,15 @@ export async function insertConfirmation(db: Db, v: { performerId: string; email
   await db.insertInto('email_confirmations').values({ performer_id: v.performerId, email: v.email, token_hash: v.tokenHash, expires_at: v.expiresAt, created_by: v.createdBy }).execute();
 }
 
+export async function insertConfirmations(db: Db, rows: readonly { performerId: string; email: string; tokenHash: string; expiresAt: Date; createdBy: string | null }[]): Promise<void> {
+  for (let i = 0; i < rows.length; i += 500) {
+    await db
+      .insertInto('email_confirmations')
+      .values(rows.slice(i, i + 500).map((v) => ({ performer_id: v.performerId, email: v.email, token_hash: v.tokenHash, expires_at: v.expiresAt, created_by: v.createdBy })))
+      .execute();
+  }
+}
+
 export async function findConfirmationByHash(db: Db, tokenHash: string, opts: { lock?: boolean } = {}) {
   let q = db.selectFrom('email_confirmations').selectAll().where('token_hash', '=', tokenHash);
   if (opts.lock) q = q.forUpdate();

@@ -18,6 +18,7 @@ import {
   findPerformerLinkedToUser,
   findUnlinkedPerformerByConfirmedEmail,
   insertConfirmation,
+  insertConfirmations,
   insertInvitation,
   isStaffAddress,
   linkUserToPerformer,
@@ -74,6 +75,15 @@ export async function startConfirmation(trx: Db, ctx: AppContext, p: Pick<Perfor
   const token = newToken();
   await insertConfirmation(trx, { performerId: p.id, email, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + CONFIRMATION_DAYS * 86_400_000), createdBy });
   return confirmationMail(ctx, p, email, token);
+}
+
+/** Confirmation requests for many new performers at once (an import): one insert, the mails returned. */
+export async function startConfirmations(trx: Db, ctx: AppContext, list: readonly { id: string; name: string; email: string }[], createdBy: string | null): Promise<OutgoingMail[]> {
+  if (list.length === 0) return [];
+  const expiresAt = new Date(Date.now() + CONFIRMATION_DAYS * 86_400_000);
+  const withTokens = list.map((p) => ({ ...p, token: newToken() }));
+  await insertConfirmations(trx, withTokens.map((p) => ({ performerId: p.id, email: p.email, tokenHash: hashToken(p.token), expiresAt, createdBy })));
+  return withTokens.map((p) => confirmationMail(ctx, p, p.email, p.token));
 }
 
 /**

@@ -25,7 +25,8 @@ import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/err
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { deliverAll } from '../../mail/deliver.ts';
 import { staffAddressesAmong } from '../identity/repo.ts';
-import { assertPerformerAddress, recordEmailChange, startConfirmation, unlinkNotices } from '../identity/service.ts';
+import { assertPerformerAddress, recordEmailChange, startConfirmation, startConfirmations, unlinkNotices } from '../identity/service.ts';
+import { afterResponse } from '../../http/after-response.ts';
 import { performerAccess, productionsWhere } from './access.ts';
 import { IMPORT_MAX_BYTES, checkImportRows, performersCsv, readImportFile } from './csv.ts';
 import { PORTRAIT_MAX_BYTES, processPortrait } from './portrait.ts';
@@ -326,13 +327,11 @@ export const performerRoutes: AnyRoute[] = [
             details: { created: creates.length, engaged: engages.length, alreadyEngaged: plan.plans.length - creates.length - engages.length },
           });
           // Each imported address is unconfirmed: it gets its confirmation request, once committed.
-          const mails = [];
-          for (const c of creates) {
-            if (c.fields.email) mails.push(await startConfirmation(trx, ctx, { id: c.id, name: c.fields.preferredName ?? c.fields.legalName }, c.fields.email, actor.userId));
-          }
-          return { result: importResult(plan, true), mails };
+          const toConfirm = creates.flatMap((c) => (c.fields.email ? [{ id: c.id, name: c.fields.preferredName ?? c.fields.legalName, email: c.fields.email }] : []));
+          return { result: importResult(plan, true), mails: await startConfirmations(trx, ctx, toConfirm, actor.userId) };
         });
-        await deliverAll(ctx, result.mails);
+        // Possibly thousands of messages: sent after the reply, so the import answers at once.
+        afterResponse(res, ctx.log, 'import confirmation requests', async () => void (await deliverAll(ctx, result.mails)));
         return result.result;
       } catch (err) {
         const e = err as { code?: string };

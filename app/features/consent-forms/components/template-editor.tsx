@@ -286,6 +286,8 @@ interface QuestionEditorProps {
 function QuestionEditor({ index: i, count, control, register, setValue, errors, onMove, onRemove }: QuestionEditorProps) {
   const type = useWatch({ control, name: `questions.${i}.type` });
   const id = useWatch({ control, name: `questions.${i}.id` });
+  // Every answer to a health-data form is a health detail; the server stores it so whatever is sent.
+  const healthForm = useWatch({ control, name: 'kind' }) === 'health_data';
   const e = errors.questions?.[i];
   const n = i + 1;
   return (
@@ -324,7 +326,16 @@ function QuestionEditor({ index: i, count, control, register, setValue, errors, 
       </div>
       <div className="flex flex-wrap gap-x-6">
         <CheckboxField label="Required" error={e?.required?.message} {...register(`questions.${i}.required`)} />
-        <CheckboxField label="Health detail" hint="Seen only by the designated lead and the performer." error={e?.medical?.message} {...register(`questions.${i}.medical`)} />
+        {healthForm ? (
+          <p className="flex min-h-11 items-center text-sm font-semibold text-ink-800">Health detail: always, on a health-data form.</p>
+        ) : (
+          <CheckboxField
+            label="Health detail"
+            hint="Seen only by the designated lead and the performer. Once published, only a designated lead can turn this off."
+            error={e?.medical?.message}
+            {...register(`questions.${i}.medical`)}
+          />
+        )}
       </div>
       <div className="flex flex-wrap gap-2">
         <Button variant="secondary" disabled={i === 0} onClick={() => onMove(i - 1)} aria-label={`Move question ${n} up`}>
