@@ -40,7 +40,7 @@ export function qrMatrix(text: string, opts: QrOptions = {}): QrMatrix {
 }
 
 /** A black-on-white PNG of the code; `scale` is pixels per module. */
-export function qrPng(text: string, opts: QrOptions & { scale?: number } = {}): Promise<Buffer> {
+export async function qrPng(text: string, opts: QrOptions & { scale?: number } = {}): Promise<Buffer> {
   const { errorCorrection, quietZone } = resolve(opts);
   return QRCode.toBuffer(text, {
     type: 'png',
@@ -52,7 +52,7 @@ export function qrPng(text: string, opts: QrOptions & { scale?: number } = {}): 
 }
 
 /** A scalable SVG document of the code, for pages and label sheets. */
-export function qrSvg(text: string, opts: QrOptions = {}): Promise<string> {
+export async function qrSvg(text: string, opts: QrOptions = {}): Promise<string> {
   const { errorCorrection, quietZone } = resolve(opts);
   return QRCode.toString(text, { type: 'svg', errorCorrectionLevel: errorCorrection, margin: quietZone, color: { dark: '#000000ff', light: '#ffffffff' } });
 }

@@ -10,6 +10,12 @@ const require = createRequire(import.meta.url);
 const jsQR = jsQRModule.default;
 const STANDARD_FONTS = `${path.join(path.dirname(require.resolve('pdfjs-dist/package.json')), 'standard_fonts')}${path.sep}`;
 
+export interface DecodedQr {
+  text: string;
+  /** QR version (1–40) as the decoder measured it from the symbol. */
+  version: number;
+}
+
 export interface RgbaImage {
   width: number;
   height: number;
@@ -74,14 +80,14 @@ function blocks(dark: Uint8Array, width: number, height: number): Box[] {
  * codes). jsQR reads one code per image, so the page is cut into blocks first and each block
  * that could hold a code (square, at least 21 pixels a side) is decoded on its own white margin.
  */
-export function decodeAllQr(image: RgbaImage): string[] {
+export function decodeAllQr(image: RgbaImage): DecodedQr[] {
   const { width, height, data } = image;
   const dark = new Uint8Array(width * height);
   for (let i = 0; i < dark.length; i++) {
     const luma = 0.299 * data[i * 4]! + 0.587 * data[i * 4 + 1]! + 0.114 * data[i * 4 + 2]!;
     dark[i] = luma < 128 ? 1 : 0;
   }
-  const found: string[] = [];
+  const found: DecodedQr[] = [];
   for (const box of blocks(dark, width, height)) {
     const w = box.x1 - box.x0;
     const h = box.y1 - box.y0;
@@ -95,7 +101,7 @@ export function decodeAllQr(image: RgbaImage): string[] {
       crop.set(data.subarray(from, from + w * 4), ((y + pad) * cw + pad) * 4);
     }
     const code = jsQR(crop, cw, ch, { inversionAttempts: 'dontInvert' });
-    if (code) found.push(code.data);
+    if (code) found.push({ text: code.data, version: code.version });
   }
   return found;
 }
@@ -122,12 +128,17 @@ export async function renderPdfPage(bytes: Buffer, pageNumber = 1, scale = 2): P
 
 /** The texts of every QR code drawn on one page of a PDF. */
 export async function pdfPageQrTexts(bytes: Buffer, pageNumber = 1, scale = 2): Promise<string[]> {
-  return decodeAllQr(await renderPdfPage(bytes, pageNumber, scale));
+  return decodeAllQr(await renderPdfPage(bytes, pageNumber, scale)).map((c) => c.text);
 }
 
-/** The texts of every QR code in a PNG, JPEG or SVG image, decoded to pixels by sharp first. */
-export async function imageQrTexts(bytes: Buffer | string, density = 144): Promise<string[]> {
+/** Every QR code in a PNG, JPEG or SVG image, decoded to pixels by sharp first. */
+export async function imageQrCodes(bytes: Buffer | string, density = 144): Promise<DecodedQr[]> {
   const input = typeof bytes === 'string' ? Buffer.from(bytes) : bytes;
   const { data, info } = await sharp(input, { density }).flatten({ background: '#ffffff' }).ensureAlpha().raw().toBuffer({ resolveWithObject: true });
   return decodeAllQr({ width: info.width, height: info.height, data: new Uint8ClampedArray(data.buffer, data.byteOffset, data.length) });
+}
+
+/** The texts of every QR code in a PNG, JPEG or SVG image. */
+export async function imageQrTexts(bytes: Buffer | string): Promise<string[]> {
+  return (await imageQrCodes(bytes)).map((c) => c.text);
 }

@@ -32,7 +32,7 @@ function Harness() {
   const [open, setOpen] = useState(false);
   const [results, setResults] = useState<string[]>([]);
   return (
-    <main className="mx-auto flex max-w-3xl flex-col gap-4 p-6">
+    <main className="mx-auto flex max-w-2xl flex-col gap-4 p-6">
       <h1 className="text-3xl font-bold text-ink-900">Scanner check</h1>
       {open ? <QrScanner label="Scan a label" onResult={(text) => setResults((r) => [...r, text])} /> : null}
       <div>
