@@ -8,8 +8,9 @@ type Decode = (image: ImageData) => string;
 
 type ScanState = { kind: 'starting' } | { kind: 'scanning' } | { kind: 'read' } | { kind: 'unavailable'; problem: CameraProblem };
 
-// Frames are shrunk to this many pixels on their long side before decoding: a label filling a
-// third of a 640-pixel frame still has several pixels per module, and each frame decodes quickly.
+// Larger camera frames are shrunk to this many pixels on their long side before decoding: a code
+// filling a quarter of the frame keeps several pixels per module, and a frame decodes well within
+// one screen refresh on a tablet.
 const MAX_DECODE_SIDE = 800;
 
 /** The reader lives in its own chunk, fetched when a scanner first opens, so no other page carries it. */
