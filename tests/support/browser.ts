@@ -10,12 +10,15 @@ const AXE_SOURCE = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
 export const TABLET_LANDSCAPE = { width: 1024, height: 768 };
 export const TABLET_PORTRAIT = { width: 768, height: 1024 };
 
-/** Debian's Chromium, never a downloaded browser; flags keep it off the network and quiet. */
-export function launchBrowser(): Promise<Browser> {
+/**
+ * Debian's Chromium, never a downloaded browser; flags keep it off the network and quiet.
+ * `extraArgs` add switches for one test file, such as a fake camera (tests/support/fake-camera.ts).
+ */
+export function launchBrowser(extraArgs: readonly string[] = []): Promise<Browser> {
   return chromium.launch({
     executablePath: CHROMIUM,
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage', ...extraArgs],
   });
 }
 
