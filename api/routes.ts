@@ -1,7 +1,7 @@
 import { authRoutes } from './auth/routes.ts';
 import { auditRoutes } from './features/audit/routes.ts';
 import { healthRoutes } from './features/health/routes.ts';
-import { identityRoutes } from './features/identity/routes.ts';
+import { identityRoutes } from './features/performers/identity-routes.ts';
 import { outboxRoutes } from './features/outbox/routes.ts';
 import { performerRoutes } from './features/performers/routes.ts';
 import { bookingRoutes } from './features/bookings/routes.ts';

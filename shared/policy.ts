@@ -49,7 +49,16 @@ export type Action =
   | 'reactions.report'
   | 'casts.manage'
   | 'performer.self'
-  | 'templates.manage';
+  | 'performer.view'
+  | 'templates.manage'
+  | 'templates.read'
+  | 'sessions.view'
+  | 'sessions.book'
+  | 'consents.view'
+  | 'consents.withdraw'
+  | 'consents.verify'
+  | 'accounts.unlink'
+  | 'accounts.invite';
 
 export interface Resource {
   productionId?: string | null;
@@ -65,20 +74,32 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'performers.manage',
   'consents.manage',
   'consents.request',
+  'consents.view',
+  'performer.view',
   'catalogue.manage',
   'patchtests.book',
   'clearance.check',
+  'sessions.view',
+  'sessions.book',
+  'accounts.unlink',
+  'accounts.invite',
 ]);
-const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([...HEAD_ACTIONS, 'medical.read', 'medical.write']);
+// The lead alone among staff may withdraw a consent on the performer's behalf (and read what it holds).
+const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([...HEAD_ACTIONS, 'medical.read', 'medical.write', 'consents.withdraw']);
 const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'production.view',
   'performers.view',
+  'performer.view',
+  'consents.view',
+  'sessions.view',
   'clearance.check',
   'applications.log',
   'reactions.report',
 ]);
-const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'casts.manage']);
+const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'casts.manage']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
+/** What the performer may do with their own record, whatever production it is viewed through. */
+const SELF_ACTIONS: ReadonlySet<Action> = new Set<Action>(['performer.self', 'performer.view', 'medical.read', 'consents.view', 'consents.withdraw']);
 
 const ADMIN_ONLY: ReadonlySet<Action> = new Set<Action>([
   'users.manage',
@@ -129,24 +150,36 @@ function productionsOf(resource: Resource): string[] {
  */
 export function can(actor: Actor, action: Action, resource: Resource = {}): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
-  // Consent templates are studio-wide: kept by administrators and by any head or lead.
-  if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
+  const studioWide = STUDIO_WIDE[action];
+  if (studioWide) return studioWide(actor);
 
   const isSelf = resource.performerId != null && actor.performerIds.includes(resource.performerId);
-  if (action === 'performer.self') return isSelf;
-  if (action === 'medical.read' && isSelf) return true;
+  if (SELF_ACTIONS.has(action) && isSelf) return true;
+  if (action === 'performer.self') return false;
+  // Linking changes belong to whoever manages the performer, and to the administrator who keeps sign-ins.
+  if ((action === 'accounts.unlink' || action === 'accounts.invite') && actor.isAdmin && resource.performerId != null) return true;
 
   const productions = productionsOf(resource);
   return productions.some((p) => rolesOn(actor, p).some((r) => actionsOfRole(r).has(action)));
 }
 
+/**
+ * Actions on studio-wide things (the consent forms every production uses, the PDF checker): they
+ * hold no production, so the answer is whether any of the actor's roles grants the matching
+ * production action. Decided here, once; data routes ask can() like any other action.
+ */
+const STUDIO_WIDE: Partial<Record<Action, (actor: Actor) => boolean>> = {
+  'templates.manage': (actor) => actor.isAdmin || canSomewhere(actor, 'consents.manage'),
+  'templates.read': (actor) => actor.isAdmin || canSomewhere(actor, 'consents.request'),
+  'consents.verify': (actor) => actor.isAdmin || canSomewhere(actor, 'performers.view'),
+};
+
 /** Does any of this actor's roles grant the action somewhere? Only for showing navigation, never for data. */
 export function canSomewhere(actor: Actor, action: Action): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
-  if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
-  if (action === 'performer.self' || action === 'medical.read') {
-    if (actor.performerIds.length > 0) return true;
-  }
+  const studioWide = STUDIO_WIDE[action];
+  if (studioWide) return studioWide(actor);
+  if (SELF_ACTIONS.has(action) && actor.performerIds.length > 0) return true;
   const all = new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf]);
   return [...all].some((p) => rolesOn(actor, p).some((r) => actionsOfRole(r).has(action)));
 }

@@ -1,10 +1,10 @@
 import type { Request, Response } from 'express';
 import { z } from 'zod';
 import { LogoutResultSchema } from '#shared/schemas/session.ts';
-import { writeAudit } from '../http/audit.ts';
+import { recordEvent } from '../http/audit.ts';
 import { defineRoute } from '../http/route.ts';
 import { client } from './oidc-client.ts';
-import { linkConfirmedPerformerAtSignIn } from '../features/identity/service.ts';
+import { linkConfirmedPerformerAtSignIn } from '../features/performers/index.ts';
 import { EmailBoundElsewhere, mayActAsPerformer, upsertUserFromClaims } from './users.ts';
 
 const LoginQuerySchema = z.object({
@@ -125,7 +125,7 @@ export const authRoutes = [
       } catch (err) {
         if (!(err instanceof EmailBoundElsewhere)) throw err;
         delete req.session.oidc;
-        await writeAudit(ctx.db, { actorUserId: err.userId, action: 'auth.sign_in_refused', entityType: 'user', entityId: err.userId, req, details: { reason: 'email_bound_to_other_subject', issuer: String(claims.iss) } });
+        await recordEvent(ctx.db, { actorUserId: err.userId, action: 'auth.sign_in_refuse', entityType: 'user', entityId: err.userId, req, details: { reason: 'email_bound_to_other_subject', issuer: String(claims.iss) } });
         return signInFailed(res, 'This e-mail address already belongs to another sign-in at Plinth. Ask the studio administrator to check your account.');
       }
       if (claims.email_verified === true && typeof claims.email === 'string') await linkConfirmedPerformerAtSignIn(ctx, user.id, claims.email, mayActAsPerformer);
@@ -135,7 +135,7 @@ export const authRoutes = [
       req.session.userId = user.id;
       req.session.idToken = tokens.id_token;
       await save(req);
-      await writeAudit(ctx.db, { actorUserId: user.id, action: 'auth.sign_in', entityType: 'user', entityId: user.id, req, details: { created: user.created } });
+      await recordEvent(ctx.db, { actorUserId: user.id, action: 'auth.sign_in', entityType: 'user', entityId: user.id, req, details: { created: user.created } });
       res.set('Cache-Control', 'no-store').redirect(302, returnTo);
     },
   }),
@@ -158,7 +158,7 @@ export const authRoutes = [
         return { redirectTo: '/tablet' };
       }
       await destroy(req);
-      if (userId) await writeAudit(ctx.db, { actorUserId: userId, action: 'auth.sign_out', entityType: 'user', entityId: userId, req });
+      if (userId) await recordEvent(ctx.db, { actorUserId: userId, action: 'auth.sign_out', entityType: 'user', entityId: userId, req });
       let redirectTo = '/signin';
       try {
         const configuration = await ctx.oidc.configuration();

@@ -3,8 +3,7 @@ import { pathToFileURL } from 'node:url';
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import type { ConsentKind } from '#shared/domain/consent.ts';
-import { findCurrentTemplateVersion } from '../features/consents/repo.ts';
-import { writeSignedConsent } from '../features/consents/service.ts';
+import { findCurrentTemplateVersion, writeSignedConsent } from '../features/consents/index.ts';
 import type { Db } from './index.ts';
 import { SEED_TEMPLATES } from './seed-templates.ts';
 

@@ -1,11 +1,17 @@
 import type { Request } from 'express';
+import type { Transaction } from 'kysely';
+import type { AuditAction } from '#shared/domain/audit.ts';
 import type { Db } from '../db/index.ts';
+import type { Database } from '../db/schema.ts';
+
+/** A database transaction: the only handle an audit entry may be written with. */
+export type Trx = Transaction<Database>;
 
 export interface AuditEvent {
   actorUserId: string | null;
   /** The performer who acted through a one-time link, with no sign-in. */
   actorPerformerId?: string | null;
-  action: string;
+  action: AuditAction;
   entityType: string;
   entityId?: string | null;
   productionId?: string | null;
@@ -13,9 +19,12 @@ export interface AuditEvent {
   req?: Request;
 }
 
-/** Appends to the audit log; pass the transaction so the record and its audit entry land together. */
-export async function writeAudit(db: Db, e: AuditEvent): Promise<void> {
-  await db
+/**
+ * Appends to the audit log inside the transaction of the change it records, so the record and its
+ * entry land together or not at all. Typed to refuse the pool itself.
+ */
+export async function writeAudit(trx: Trx, e: AuditEvent): Promise<void> {
+  await trx
     .insertInto('audit_log')
     .values({
       actor_user_id: e.actorUserId,
@@ -28,4 +37,12 @@ export async function writeAudit(db: Db, e: AuditEvent): Promise<void> {
       ip: e.req?.ip ?? null,
     })
     .execute();
+}
+
+/**
+ * An event that changes nothing else (a read of health details, a sign-in, a check): written in
+ * a transaction of its own.
+ */
+export async function recordEvent(db: Db, e: AuditEvent): Promise<void> {
+  await db.transaction().execute((trx) => writeAudit(trx, e));
 }

@@ -22,7 +22,16 @@ const ACTION_WORDS: Record<Action, string> = {
   'reactions.report': 'report reactions',
   'casts.manage': 'manage life casts',
   'performer.self': 'act for this performer',
+  'performer.view': 'see this performer',
   'templates.manage': 'edit consent templates',
+  'templates.read': 'see consent templates',
+  'sessions.view': 'see sessions',
+  'sessions.book': 'book sessions',
+  'consents.view': 'see this consent',
+  'consents.withdraw': 'withdraw this consent',
+  'consents.verify': 'verify consent documents',
+  'accounts.unlink': 'unlink the sign-in of this performer',
+  'accounts.invite': 'invite this performer to sign in',
 };
 
 /** Permission checked here: the only server wrapper around the policy. */

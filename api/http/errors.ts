@@ -92,3 +92,22 @@ export function errorHandler(log: (msg: string, err?: unknown) => void): ErrorRe
 export const apiNotFound: RequestHandler = (req, _res, next) => {
   next(new ApiError('not_found', `No API route ${req.method} ${req.path}.`));
 };
+
+/** Whether a database error is a unique-key violation (of this constraint, when named). */
+export function isUniqueViolation(err: unknown, constraint?: string): boolean {
+  const e = err as { code?: string; constraint?: string } | null;
+  return e?.code === '23505' && (constraint === undefined || e.constraint === constraint);
+}
+
+/**
+ * A duplicate that got past the checks answers as the check would have: the constraint's field
+ * message. Anything else goes on to the error handler unchanged.
+ */
+export function duplicateAsFields(fieldsByConstraint: Record<string, Record<string, string[]>>): (err: unknown) => never {
+  return (err: unknown) => {
+    for (const [constraint, fields] of Object.entries(fieldsByConstraint)) {
+      if (isUniqueViolation(err, constraint)) throw invalid(fields);
+    }
+    throw err;
+  };
+}

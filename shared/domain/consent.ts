@@ -64,52 +64,6 @@ export function expiringWithin<T extends ConsentTimes>(consents: readonly T[], n
   return consents.filter((c) => consentState(c, now) === 'active' && c.expiresAt != null && c.expiresAt.getTime() <= limit);
 }
 
-export const BOOKING_PURPOSES = ['patch_test', 'life_cast', 'application'] as const;
-export type BookingPurpose = (typeof BOOKING_PURPOSES)[number];
-export const BOOKING_PURPOSE_LABELS: Record<BookingPurpose, string> = {
-  patch_test: 'Patch test',
-  life_cast: 'Life cast',
-  application: 'Application',
-};
-
-/** The gate each kind of session has: no patch test, life cast or logged application without its consent. */
-export function consentKindNeeded(purpose: BookingPurpose): ConsentKind {
-  switch (purpose) {
-    case 'patch_test':
-      return 'patch_testing';
-    case 'life_cast':
-      return 'life_casting';
-    case 'application':
-      return 'application';
-  }
-}
-
-export interface BookingForGate {
-  id: string;
-  performerId: string;
-  purpose: BookingPurpose;
-  startsAt: Date;
-}
-
-/**
- * Upcoming bookings whose consent will not be in force when they start: none signed, withdrawn,
- * or expiring before the session. One entry per booking, naming the missing kind.
- */
-export function bookingsMissingConsent(
-  bookings: readonly BookingForGate[],
-  consentsByPerformer: ReadonlyMap<string, readonly (ConsentTimes & { kind: ConsentKind })[]>,
-): { booking: BookingForGate; kind: ConsentKind }[] {
-  const out: { booking: BookingForGate; kind: ConsentKind }[] = [];
-  for (const b of bookings) {
-    const kind = consentKindNeeded(b.purpose);
-    const consents = consentsByPerformer.get(b.performerId) ?? [];
-    // Signed later than now but before the session still counts: the performer may sign on the day.
-    const ok = consents.some((c) => c.kind === kind && consentState(c, b.startsAt) === 'active');
-    if (!ok) out.push({ booking: b, kind });
-  }
-  return out;
-}
-
 /** What withdrawing a consent of this kind sets in motion, in the words shown before confirming. */
 export function withdrawalConsequences(kind: ConsentKind): string[] {
   const common = 'Withdrawing does not undo what was done while the consent was in force.';

@@ -155,4 +155,6 @@ export const AuditQuerySchema = pageQuerySchema(['at'] as const).extend({
   dir: z.enum(['asc', 'desc']).default('desc'),
   action: z.string().max(80).optional(),
 });
+export type AuditQuery = z.infer<typeof AuditQuerySchema>;
 export const AuditPageSchema = pagedSchema(AuditEntrySchema);
+export type AuditPage = z.infer<typeof AuditPageSchema>;

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { CONSENT_KINDS } from '../domain/consent.ts';
 import { QuestionsSchema } from '../domain/questionnaire.ts';
-import { IdSchema, MomentInputSchema, VersionSchema } from './common.ts';
+import { IdSchema, VersionSchema } from './common.ts';
 
 export const ConsentKindSchema = z.enum(CONSENT_KINDS, { message: 'Choose a consent kind' });
 export const ConsentStateSchema = z.enum(['active', 'expired', 'withdrawn']);
@@ -37,6 +37,7 @@ export const TemplateListSchema = z.object({ items: z.array(TemplateSchema) });
 export const TemplateVersionListSchema = z.object({
   items: z.array(z.object({ versionId: IdSchema, version: z.number().int(), title: z.string(), createdAt: z.iso.datetime(), createdBy: z.string().nullable() })),
 });
+export type TemplateVersionList = z.infer<typeof TemplateVersionListSchema>;
 
 // ---- signing requests
 export const CreateSigningRequestInputSchema = z.object({
@@ -187,26 +188,3 @@ export const VerifyResultSchema = z.object({
     .nullable(),
 });
 export type VerifyResult = z.infer<typeof VerifyResultSchema>;
-
-// ---- bookings
-export const BookingSchema = z.object({
-  id: IdSchema,
-  performerId: IdSchema,
-  performerName: z.string(),
-  productionId: IdSchema,
-  purpose: z.enum(['patch_test', 'life_cast', 'application']),
-  startsAt: z.iso.datetime(),
-  location: z.string().nullable(),
-  status: z.enum(['booked', 'cancelled', 'done']),
-  consentMissing: z.boolean(),
-});
-export type Booking = z.infer<typeof BookingSchema>;
-export const CreateBookingInputSchema = z.object({
-  performerId: IdSchema,
-  productionId: IdSchema,
-  purpose: z.enum(['patch_test', 'life_cast', 'application'], { message: 'Choose what the session is for' }),
-  startsAt: MomentInputSchema,
-  location: z.string().trim().max(200).optional(),
-});
-export type CreateBookingInput = z.infer<typeof CreateBookingInputSchema>;
-export const BookingListSchema = z.object({ items: z.array(BookingSchema) });

@@ -1,7 +1,8 @@
 import { z } from 'zod';
 import { CONSENT_KINDS } from '../domain/consent.ts';
 import { CalendarDateSchema, IdSchema, VersionSchema, pagedSchema } from './common.ts';
-import { BookingSchema, ConsentSummarySchema } from './consents.ts';
+import { BookingSchema } from './bookings.ts';
+import { ConsentSummarySchema } from './consents.ts';
 
 const optionalText = (max: number, message = `At most ${max} characters`) =>
   z

@@ -185,7 +185,7 @@ describe('sign-in with an e-mail bound to another identity', () => {
     expect(cb.status).toBe(401);
     expect(cb.type).toBe('text/html');
     expect(cb.text).toContain('Sign-in was not completed');
-    const audit = await t.db.db.selectFrom('audit_log').select(['details']).where('action', '=', 'auth.sign_in_refused').executeTakeFirstOrThrow();
+    const audit = await t.db.db.selectFrom('audit_log').select(['details']).where('action', '=', 'auth.sign_in_refuse').executeTakeFirstOrThrow();
     expect(audit.details).toMatchObject({ reason: 'email_bound_to_other_subject' });
   });
 });

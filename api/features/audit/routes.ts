@@ -1,8 +1,8 @@
-import { sql } from 'kysely';
 import { AuditPageSchema, AuditQuerySchema } from '#shared/schemas/admin.ts';
-import { defineRoute } from '../../http/route.ts';
+import { type AnyRoute, defineRoute } from '../../http/route.ts';
+import { listAuditPage } from './repo.ts';
 
-export const auditRoutes = [
+export const auditRoutes: AnyRoute[] = [
   defineRoute({
     method: 'get',
     path: '/api/audit',
@@ -13,35 +13,6 @@ export const auditRoutes = [
     query: AuditQuerySchema,
     response: AuditPageSchema,
     errors: [403],
-    async handler({ ctx, query }) {
-      let q = ctx.db.selectFrom('audit_log as a').leftJoin('users as u', 'u.id', 'a.actor_user_id');
-      if (query.action) q = q.where('a.action', 'like', `${query.action.replace(/[\\%_]/g, (c) => `\\${c}`)}%`);
-      if (query.q) q = q.where((eb) => eb.or([eb('u.display_name', 'ilike', `%${query.q}%`), eb('a.entity_id', '=', query.q!)]));
-      const [rows, total] = await Promise.all([
-        q
-          .select(['a.id', 'a.at', 'u.display_name', 'a.action', 'a.entity_type', 'a.entity_id', 'a.production_id', 'a.details'])
-          .orderBy('a.at', query.dir)
-          .orderBy(sql.ref('a.id'), query.dir)
-          .limit(query.pageSize)
-          .offset((query.page - 1) * query.pageSize)
-          .execute(),
-        q.select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow(),
-      ]);
-      return {
-        items: rows.map((r) => ({
-          id: String(r.id),
-          at: new Date(r.at).toISOString(),
-          actor: r.display_name,
-          action: r.action,
-          entityType: r.entity_type,
-          entityId: r.entity_id,
-          productionId: r.production_id,
-          details: r.details,
-        })),
-        total: Number(total.n),
-        page: query.page,
-        pageSize: query.pageSize,
-      };
-    },
+    handler: ({ ctx, query }) => listAuditPage(ctx.db, query),
   }),
 ];

@@ -1,22 +1,10 @@
 import { z } from 'zod';
-import { canSomewhere } from '#shared/policy.ts';
 import { IdParamsSchema } from '#shared/schemas/common.ts';
 import { CreateTemplateInputSchema, TemplateListSchema, TemplateSchema, TemplateVersionListSchema, UpdateTemplateInputSchema } from '#shared/schemas/consents.ts';
-import { writeAudit } from '../../http/audit.ts';
-import { conflict, forbidden, notFound } from '../../http/errors.ts';
-import { defineRoute } from '../../http/route.ts';
-import { findCurrentTemplateVersion, findTemplate, listTemplates, productionsUsingTemplate } from './repo.ts';
-import { questionsLosingMedicalFlag, withMedicalFlags } from '#shared/domain/questionnaire.ts';
-import type { Actor } from '#shared/policy.ts';
-import type { Db } from '../../db/index.ts';
+import { type AnyRoute, defineRoute } from '../../http/route.ts';
+import { archiveTemplate, createTemplate, publishTemplate, templateFor, templatesFor, templateVersionsFor } from './template-service.ts';
 
-/** The designated lead of a production that has used the form (or, for a form never used, any lead). */
-async function mayLowerMedicalFlag(db: Db, actor: Actor, templateId: string): Promise<boolean> {
-  const used = await productionsUsingTemplate(db, templateId);
-  return used.length ? used.some((p) => actor.leadOf.includes(p)) : actor.leadOf.length > 0;
-}
-
-export const templateRoutes = [
+export const templateRoutes: AnyRoute[] = [
   defineRoute({
     method: 'get',
     path: '/api/consent-templates',
@@ -26,10 +14,7 @@ export const templateRoutes = [
     query: z.object({ archived: z.enum(['true', 'false']).default('false') }),
     response: TemplateListSchema,
     errors: [403],
-    async handler({ ctx, actor, query }) {
-      if (!canSomewhere(actor, 'consents.request') && !actor.isAdmin) throw forbidden('see consent templates');
-      return { items: await listTemplates(ctx.db, query.archived === 'true') };
-    },
+    handler: async ({ ctx, actor, query }) => ({ items: await templatesFor(ctx, actor, query.archived === 'true') }),
   }),
   defineRoute({
     method: 'get',
@@ -40,12 +25,7 @@ export const templateRoutes = [
     params: IdParamsSchema,
     response: TemplateSchema,
     errors: [403, 404],
-    async handler({ ctx, actor, params }) {
-      if (!canSomewhere(actor, 'consents.request') && !actor.isAdmin) throw forbidden('see consent templates');
-      const t = await findTemplate(ctx.db, params.id);
-      if (!t) throw notFound('That template');
-      return t;
-    },
+    handler: ({ ctx, actor, params }) => templateFor(ctx, actor, params.id),
   }),
   defineRoute({
     method: 'get',
@@ -56,18 +36,7 @@ export const templateRoutes = [
     params: IdParamsSchema,
     response: TemplateVersionListSchema,
     errors: [403, 404],
-    async handler({ ctx, actor, params }) {
-      if (!canSomewhere(actor, 'consents.request') && !actor.isAdmin) throw forbidden('see consent templates');
-      const rows = await ctx.db
-        .selectFrom('consent_template_versions as v')
-        .leftJoin('users as u', 'u.id', 'v.created_by')
-        .select(['v.id', 'v.version', 'v.title', 'v.created_at', 'u.display_name'])
-        .where('v.template_id', '=', params.id)
-        .orderBy('v.version', 'desc')
-        .execute();
-      if (!rows.length) throw notFound('That template');
-      return { items: rows.map((r) => ({ versionId: r.id, version: r.version, title: r.title, createdAt: new Date(r.created_at).toISOString(), createdBy: r.display_name })) };
-    },
+    handler: ({ ctx, actor, params }) => templateVersionsFor(ctx, actor, params.id),
   }),
   defineRoute({
     method: 'post',
@@ -80,18 +49,7 @@ export const templateRoutes = [
     response: TemplateSchema,
     status: 201,
     errors: [403],
-    async handler({ ctx, actor, body, req }) {
-      const id = await ctx.db.transaction().execute(async (trx) => {
-        const t = await trx.insertInto('consent_templates').values({ kind: body.kind }).returning('id').executeTakeFirstOrThrow();
-        await trx
-          .insertInto('consent_template_versions')
-          .values({ template_id: t.id, version: 1, title: body.title, body: body.body, questions: JSON.stringify(withMedicalFlags(body.kind, body.questions)), validity_days: body.validityDays, created_by: actor.userId })
-          .execute();
-        await writeAudit(trx, { actorUserId: actor.userId, action: 'template.create', entityType: 'consent_template', entityId: t.id, req, details: { kind: body.kind, title: body.title } });
-        return t.id;
-      });
-      return (await findTemplate(ctx.db, id))!;
-    },
+    handler: ({ ctx, actor, body, req }) => createTemplate(ctx, actor, body, req),
   }),
   defineRoute({
     method: 'put',
@@ -104,30 +62,7 @@ export const templateRoutes = [
     body: UpdateTemplateInputSchema,
     response: TemplateSchema,
     errors: [403, 404, 409],
-    async handler({ ctx, actor, params, body, req }) {
-      await ctx.db.transaction().execute(async (trx) => {
-        const t = await trx.selectFrom('consent_templates').select(['id', 'kind', 'current_version']).where('id', '=', params.id).forUpdate().executeTakeFirst();
-        if (!t) throw notFound('That template');
-        if (t.current_version !== body.version) {
-          throw conflict(`Someone published version ${t.current_version} of this form since you opened it. Reload to see it.`, { currentVersion: t.current_version });
-        }
-        const questions = withMedicalFlags(body.kind, body.questions);
-        const previous = await findCurrentTemplateVersion(trx, t.id);
-        const lowered = previous ? questionsLosingMedicalFlag(previous.questions, questions) : [];
-        // Making a health question non-medical opens its answers to all staff: only a lead decides that.
-        if (lowered.length && !(await mayLowerMedicalFlag(trx, actor, t.id))) {
-          throw forbidden('mark a health question as not medical; only the designated lead of a production that uses this form may do that');
-        }
-        const next = t.current_version + 1;
-        await trx
-          .insertInto('consent_template_versions')
-          .values({ template_id: t.id, version: next, title: body.title, body: body.body, questions: JSON.stringify(questions), validity_days: body.validityDays, created_by: actor.userId })
-          .execute();
-        await trx.updateTable('consent_templates').set({ current_version: next, kind: body.kind }).where('id', '=', t.id).execute();
-        await writeAudit(trx, { actorUserId: actor.userId, action: 'template.publish', entityType: 'consent_template', entityId: t.id, req, details: { version: next, ...(lowered.length ? { madeNonMedical: lowered } : {}) } });
-      });
-      return (await findTemplate(ctx.db, params.id))!;
-    },
+    handler: ({ ctx, actor, params, body, req }) => publishTemplate(ctx, actor, params.id, body, req),
   }),
   defineRoute({
     method: 'put',
@@ -140,16 +75,6 @@ export const templateRoutes = [
     body: z.object({ archived: z.boolean() }),
     response: TemplateSchema,
     errors: [403, 404],
-    async handler({ ctx, actor, params, body, req }) {
-      const res = await ctx.db.transaction().execute(async (trx) => {
-        const r = await trx.updateTable('consent_templates').set({ archived: body.archived }).where('id', '=', params.id).executeTakeFirst();
-        if (Number(r.numUpdatedRows) === 1) {
-          await writeAudit(trx, { actorUserId: actor.userId, action: body.archived ? 'template.archive' : 'template.restore', entityType: 'consent_template', entityId: params.id, req });
-        }
-        return r;
-      });
-      if (Number(res.numUpdatedRows) !== 1) throw notFound('That template');
-      return (await findTemplate(ctx.db, params.id))!;
-    },
+    handler: ({ ctx, actor, params, body, req }) => archiveTemplate(ctx, actor, params.id, body.archived, req),
   }),
 ];

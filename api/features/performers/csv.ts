@@ -2,7 +2,8 @@ import { CsvError, parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import { z } from 'zod';
 import { CSV_COLUMNS, type CsvColumn, EngagementInputSchema, PerformerFieldsSchema } from '#shared/schemas/performers.ts';
-import type { ExportRow, PerformerFields } from './repo.ts';
+import type { ExportRow } from './list-repo.ts';
+import type { PerformerFields } from './repo.ts';
 
 import { IMPORT_MAX_BYTES, IMPORT_MAX_ROWS } from '#shared/limits.ts';
 

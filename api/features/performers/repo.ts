@@ -1,7 +1,4 @@
-import { type RawBuilder, sql } from 'kysely';
-import { CONSENT_KINDS, type ConsentKind, type ConsentTimes, bookingsMissingConsent, consentState } from '#shared/domain/consent.ts';
-import type { Booking, ConsentSummary } from '#shared/schemas/consents.ts';
-import type { PerformerListItem, PerformerListQuery } from '#shared/schemas/performers.ts';
+import { sql } from 'kysely';
 import type { Db } from '../../db/index.ts';
 
 // ---- shapes
@@ -47,7 +44,7 @@ export interface EngagementValues {
   endsOn: string | null;
 }
 
-const PERFORMER_COLUMNS = [
+export const PERFORMER_COLUMNS = [
   'performers.id',
   'performers.legal_name',
   'performers.preferred_name',
@@ -67,157 +64,6 @@ const PERFORMER_COLUMNS = [
   'performers.version',
 ] as const;
 
-// ---- SQL pieces shared by the list, its count and the export
-
-/** The expression the trigram index is built on (performers_name_trgm_idx); keep it identical so the index is used. */
-const SEARCH_NAME = sql<string>`(coalesce(performers.preferred_name, '') || ' ' || performers.legal_name)`;
-const SORT_NAME = sql<string>`lower(coalesce(performers.preferred_name, performers.legal_name))`;
-/** Fuzzy-match cut-off for word_similarity; the `<%` operator reads the same value from the session setting. */
-export const WORD_SIMILARITY_THRESHOLD = 0.3;
-
-/** A consent counts as active now: signed, not withdrawn, not expired (consentState in shared/domain/consent.ts). */
-const ACTIVE = sql`c.signed_at <= now() and (c.withdrawn_at is null or c.withdrawn_at > now()) and (c.expires_at is null or c.expires_at > now())`;
-const KIND_LIST = sql.join(CONSENT_KINDS.map((k) => sql.lit(k)));
-/** A consent counts for the productions in view: the one it was given to, or none named. */
-function consentFor(productionIds: readonly string[]) {
-  return sql`(c.production_id is null or c.production_id in (${sql.join([...productionIds])}))`;
-}
-const activeKindCount = (productionIds: readonly string[]) =>
-  sql<number>`(select count(distinct c.kind) from consents c where c.performer_id = performers.id and ${consentFor(productionIds)} and c.kind in (${KIND_LIST}) and ${ACTIVE})`;
-const EXPIRING_WITHIN_30 = sql`c.expires_at is not null and c.expires_at <= now() + interval '30 days'`;
-const WITHDRAWN = sql`c.withdrawn_at is not null and c.withdrawn_at <= now()`;
-
-function likePattern(q: string): string {
-  return `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-}
-
-type ListFilter = Pick<PerformerListQuery, 'q' | 'consent'> & { productionIds: readonly string[] };
-
-/** The WHERE of the list, its count and the export: in scope, matching the search, passing the consent filter. */
-function listConditions(f: ListFilter): RawBuilder<boolean> {
-  const conds: RawBuilder<unknown>[] = [
-    sql`exists (select 1 from engagements e where e.performer_id = performers.id and e.production_id in (${sql.join([...f.productionIds])}))`,
-  ];
-  if (f.q) {
-    // `<%` lets PostgreSQL use the GIN trigram index; word_similarity() states the cut-off exactly.
-    conds.push(sql`((${f.q} <% ${SEARCH_NAME} and word_similarity(${f.q}, ${SEARCH_NAME}) > ${WORD_SIMILARITY_THRESHOLD}) or ${SEARCH_NAME} ilike ${likePattern(f.q)})`);
-  }
-  switch (f.consent) {
-    case 'complete':
-      conds.push(sql`${activeKindCount(f.productionIds)} = ${CONSENT_KINDS.length}`);
-      break;
-    case 'incomplete':
-      conds.push(sql`${activeKindCount(f.productionIds)} < ${CONSENT_KINDS.length}`);
-      break;
-    case 'expiring':
-      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${consentFor(f.productionIds)} and ${ACTIVE} and ${EXPIRING_WITHIN_30})`);
-      break;
-    case 'withdrawn':
-      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${consentFor(f.productionIds)} and ${WITHDRAWN})`);
-      break;
-    case 'any':
-      break;
-  }
-  return sql<boolean>`${sql.join(conds, sql` and `)}`;
-}
-
-function orderings(q: Pick<PerformerListQuery, 'q' | 'sort' | 'dir'>): RawBuilder<unknown> {
-  const dir = sql.raw(q.dir === 'desc' ? 'desc' : 'asc');
-  const key = q.sort === 'createdAt' ? sql`performers.created_at ${dir}` : sql`${SORT_NAME} ${dir}`;
-  const parts = [key, sql`performers.id ${dir}`];
-  if (q.q) parts.unshift(sql`word_similarity(${q.q}, ${SEARCH_NAME}) desc`);
-  return sql.join(parts);
-}
-
-/**
- * Runs a search in a transaction whose `pg_trgm.word_similarity_threshold` matches ours, so the
- * index-backed `<%` operator and the word_similarity() cut-off agree.
- */
-async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
-  if (!searching) return fn(db);
-  return db.transaction().execute(async (trx) => {
-    await sql`select set_config('pg_trgm.word_similarity_threshold', ${String(WORD_SIMILARITY_THRESHOLD)}, true)`.execute(trx);
-    return fn(trx);
-  });
-}
-
-function sortKinds(kinds: readonly string[]): ConsentKind[] {
-  return CONSENT_KINDS.filter((k) => kinds.includes(k));
-}
-
-// ---- list and export
-
-export function portraitUrl(performerId: string, fileId: string | null): string | null {
-  return fileId ? `/api/performers/${performerId}/portrait?v=${fileId}` : null;
-}
-export function thumbnailUrl(performerId: string, fileId: string | null): string | null {
-  return fileId ? `/api/performers/${performerId}/portrait/thumbnail?v=${fileId}` : null;
-}
-
-/** One page of the registry, limited to performers engaged on `productionIds`. */
-export async function listPerformers(
-  db: Db,
-  q: PerformerListQuery,
-  scope: { productionIds: readonly string[]; showsProduction: (productionId: string) => boolean },
-): Promise<{ items: PerformerListItem[]; total: number }> {
-  const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds });
-  const { rows, total } = await withSearchSettings(db, !!q.q, async (trx) => {
-    const rows = await trx
-      .selectFrom('performers')
-      .select([
-        'performers.id',
-        'performers.legal_name',
-        'performers.preferred_name',
-        'performers.pronouns',
-        'performers.portrait_thumb_file_id',
-        sql<string[]>`array(select distinct c.kind from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${ACTIVE})`.as('active_kinds'),
-        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${ACTIVE} and ${EXPIRING_WITHIN_30})`.as('expiring_soon'),
-        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${WITHDRAWN})`.as('withdrawn'),
-      ])
-      .where(where)
-      .orderBy(orderings(q))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute();
-    const count = await trx.selectFrom('performers').select(sql<number>`count(*)::int`.as('n')).where(where).executeTakeFirstOrThrow();
-    return { rows, total: count.n };
-  });
-  const engagements = await listEngagements(db, rows.map((r) => r.id));
-  return {
-    total,
-    items: rows.map((r) => ({
-      id: r.id,
-      legalName: r.legal_name,
-      preferredName: r.preferred_name,
-      pronouns: r.pronouns,
-      engagements: (engagements.get(r.id) ?? []).filter((e) => scope.showsProduction(e.productionId)),
-      activeKinds: sortKinds(r.active_kinds),
-      expiringSoon: r.expiring_soon,
-      withdrawn: r.withdrawn,
-      thumbnailUrl: thumbnailUrl(r.id, r.portrait_thumb_file_id),
-    })),
-  };
-}
-
-export interface ExportRow extends PerformerFields {
-  id: string;
-  engagements: EngagementRecord[];
-}
-
-/** Every performer the list would show with these filters (no paging), in the list's order. */
-export async function listPerformersForExport(
-  db: Db,
-  q: Omit<PerformerListQuery, 'page' | 'pageSize'>,
-  scope: { productionIds: readonly string[] },
-): Promise<ExportRow[]> {
-  const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds });
-  const rows = await withSearchSettings(db, !!q.q, (trx) =>
-    trx.selectFrom('performers').select(PERFORMER_COLUMNS).where(where).orderBy(orderings(q)).execute(),
-  );
-  const engagements = await listEngagements(db, rows.map((r) => r.id));
-  return rows.map((r) => ({ ...toRecord(r), engagements: engagements.get(r.id) ?? [] }));
-}
-
 // ---- one performer
 
 function selectPerformer(db: Db) {
@@ -225,7 +71,7 @@ function selectPerformer(db: Db) {
 }
 type PerformerDbRow = Awaited<ReturnType<ReturnType<typeof selectPerformer>['executeTakeFirstOrThrow']>>;
 
-function toRecord(r: PerformerDbRow): PerformerRecord {
+export function toRecord(r: PerformerDbRow): PerformerRecord {
   return {
     id: r.id,
     legalName: r.legal_name,
@@ -291,102 +137,53 @@ export async function listEngagements(db: Db, performerIds: readonly string[]): 
   return out;
 }
 
+export function portraitUrl(performerId: string, fileId: string | null): string | null {
+  return fileId ? `/api/performers/${performerId}/portrait?v=${fileId}` : null;
+}
+export function thumbnailUrl(performerId: string, fileId: string | null): string | null {
+  return fileId ? `/api/performers/${performerId}/portrait/thumbnail?v=${fileId}` : null;
+}
+
+/** Whether the performer is engaged on the production (a booking or a request needs it). */
+export async function isEngagedOn(db: Db, performerId: string, productionId: string): Promise<boolean> {
+  const row = await db.selectFrom('engagements').select('id').where('performer_id', '=', performerId).where('production_id', '=', productionId).executeTakeFirst();
+  return Boolean(row);
+}
+
+/**
+ * Who a performer is for permission questions and for mail: name, the address mail may go to
+ * (only one they confirmed), the linked sign-in and the productions they are engaged on.
+ */
+export interface PerformerScope {
+  id: string;
+  name: string;
+  email: string | null;
+  emailUnconfirmed: boolean;
+  userId: string | null;
+  productionIds: string[];
+}
+
+export async function findPerformerScope(db: Db, performerId: string): Promise<PerformerScope | undefined> {
+  const p = await db
+    .selectFrom('performers')
+    .select([
+      'id',
+      sql<string>`coalesce(preferred_name, legal_name)`.as('name'),
+      'email',
+      'email_confirmed_at',
+      'user_id',
+      sql<string[]>`array(select e.production_id::text from engagements e where e.performer_id = performers.id)`.as('production_ids'),
+    ])
+    .where('id', '=', performerId)
+    .executeTakeFirst();
+  if (!p) return undefined;
+  const confirmed = p.email !== null && p.email_confirmed_at !== null;
+  return { id: p.id, name: p.name, email: confirmed ? p.email : null, emailUnconfirmed: p.email !== null && !confirmed, userId: p.user_id, productionIds: p.production_ids };
+}
+
 export async function engagedProductionIds(db: Db, performerId: string): Promise<string[]> {
   const rows = await db.selectFrom('engagements').select('production_id').where('performer_id', '=', performerId).execute();
   return rows.map((r) => r.production_id);
-}
-
-/** A linked sign-in, for the detail view. */
-export async function findUser(db: Db, id: string): Promise<{ id: string; email: string; displayName: string } | undefined> {
-  const row = await db.selectFrom('users').select(['id', 'email', 'display_name']).where('id', '=', id).executeTakeFirst();
-  return row ? { id: row.id, email: row.email, displayName: row.display_name } : undefined;
-}
-
-/** The performer's signed consents, newest first, with the title and version of the text they signed. */
-export async function listConsentSummaries(db: Db, performer: { id: string; name: string }, now: Date): Promise<{ summaries: ConsentSummary[]; times: (ConsentTimes & { kind: ConsentKind; productionId: string | null })[] }> {
-  const rows = await db
-    .selectFrom('consents as c')
-    .innerJoin('consent_template_versions as v', 'v.id', 'c.template_version_id')
-    .select([
-      'c.id',
-      'c.production_id',
-      'c.kind',
-      'c.signed_at',
-      'c.expires_at',
-      'c.withdrawn_at',
-      'c.signer_name',
-      'c.signing_method',
-      'c.version',
-      'v.title',
-      'v.version as template_version',
-    ])
-    .where('c.performer_id', '=', performer.id)
-    .orderBy('c.signed_at', 'desc')
-    .orderBy('c.id')
-    .execute();
-  const times = rows.map((r) => ({
-    kind: r.kind,
-    productionId: r.production_id,
-    signedAt: new Date(r.signed_at),
-    expiresAt: r.expires_at ? new Date(r.expires_at) : null,
-    withdrawnAt: r.withdrawn_at ? new Date(r.withdrawn_at) : null,
-  }));
-  const summaries = rows.map((r, i) => ({
-    id: r.id,
-    performerId: performer.id,
-    performerName: performer.name,
-    productionId: r.production_id,
-    kind: r.kind,
-    title: r.title,
-    templateVersion: r.template_version,
-    signedAt: times[i]!.signedAt.toISOString(),
-    expiresAt: times[i]!.expiresAt?.toISOString() ?? null,
-    state: consentState(times[i]!, now),
-    signerName: r.signer_name,
-    signingMethod: r.signing_method,
-    withdrawnAt: times[i]!.withdrawnAt?.toISOString() ?? null,
-    version: r.version,
-  }));
-  return { summaries, times };
-}
-
-/** Booked sessions from now on, each marked when its consent will not be in force at the start. */
-export async function listUpcomingBookings(
-  db: Db,
-  performer: { id: string; name: string },
-  consents: readonly (ConsentTimes & { kind: ConsentKind; productionId: string | null })[],
-  showsProduction: (productionId: string) => boolean,
-): Promise<Booking[]> {
-  const rows = await db
-    .selectFrom('bookings')
-    .select(['id', 'production_id', 'purpose', 'starts_at', 'location', 'status'])
-    .where('performer_id', '=', performer.id)
-    .where('status', '=', 'booked')
-    .where('starts_at', '>=', sql<Date>`now()`)
-    .orderBy('starts_at')
-    .orderBy('id')
-    .execute();
-  const visible = rows.filter((r) => showsProduction(r.production_id));
-  // Each session needs a consent given to its own production (or to none named).
-  const missing = new Set(
-    visible
-      .filter((r) => {
-        const own = consents.filter((c) => c.productionId === null || c.productionId === r.production_id);
-        return bookingsMissingConsent([{ id: r.id, performerId: performer.id, purpose: r.purpose, startsAt: new Date(r.starts_at) }], new Map([[performer.id, own]])).length > 0;
-      })
-      .map((r) => r.id),
-  );
-  return visible.map((r) => ({
-    id: r.id,
-    performerId: performer.id,
-    performerName: performer.name,
-    productionId: r.production_id,
-    purpose: r.purpose,
-    startsAt: new Date(r.starts_at).toISOString(),
-    location: r.location,
-    status: r.status,
-    consentMissing: missing.has(r.id),
-  }));
 }
 
 // ---- writes
@@ -506,31 +303,6 @@ export async function setPerformerUserAtVersion(db: Db, id: string, userId: stri
   return Number(res.numUpdatedRows) === 1;
 }
 
-/** Gives the user the `performer` role on these productions where they lack it; returns where it was added. */
-export async function addPerformerMemberships(db: Db, userId: string, productionIds: readonly string[], createdBy: string): Promise<string[]> {
-  if (productionIds.length === 0) return [];
-  const rows = await db
-    .insertInto('memberships')
-    .values(productionIds.map((p) => ({ user_id: userId, production_id: p, role: 'performer' as const, created_by: createdBy })))
-    .onConflict((oc) => oc.columns(['user_id', 'production_id', 'role']).doNothing())
-    .returning('production_id')
-    .execute();
-  return rows.map((r) => r.production_id);
-}
-
-/** Takes the `performer` role on these productions away from the user; returns where it was removed. */
-export async function removePerformerMemberships(db: Db, userId: string, productionIds: readonly string[]): Promise<string[]> {
-  if (productionIds.length === 0) return [];
-  const rows = await db
-    .deleteFrom('memberships')
-    .where('user_id', '=', userId)
-    .where('role', '=', 'performer')
-    .where('production_id', 'in', [...productionIds])
-    .returning('production_id')
-    .execute();
-  return rows.map((r) => r.production_id);
-}
-
 /** Points the performer at a new portrait (or none); returns the files it pointed at before. */
 export async function setPortraitFiles(db: Db, id: string, portraitFileId: string | null, thumbFileId: string | null): Promise<string[]> {
   const before = await db.selectFrom('performers').select(['portrait_file_id', 'portrait_thumb_file_id']).where('id', '=', id).forUpdate().executeTakeFirstOrThrow();
@@ -545,8 +317,21 @@ export async function deleteFileRows(db: Db, ids: readonly string[]): Promise<{ 
   return rows.map((r) => ({ storagePath: r.storage_path }));
 }
 
-export async function productionNames(db: Db, ids: readonly string[]): Promise<Map<string, string>> {
-  if (ids.length === 0) return new Map();
-  const rows = await db.selectFrom('productions').select(['id', 'name']).where('id', 'in', [...ids]).execute();
-  return new Map(rows.map((r) => [r.id, r.name]));
+
+/** Performers whose engagement on the production has not ended. */
+export async function countEngagedNow(db: Db, productionId: string): Promise<number> {
+  const row = await db
+    .selectFrom('engagements')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('production_id', '=', productionId)
+    .where((eb) => eb.or([eb('ends_on', 'is', null), eb('ends_on', '>=', sql<string>`current_date`)]))
+    .executeTakeFirstOrThrow();
+  return Number(row.n);
+}
+
+/** Linked sign-ins of these performers (those without one are left out). */
+export async function findPerformerUserIds(db: Db, performerIds: readonly string[]): Promise<Map<string, string>> {
+  if (performerIds.length === 0) return new Map();
+  const rows = await db.selectFrom('performers').select(['id', 'user_id']).where('id', 'in', [...performerIds]).where('user_id', 'is not', null).execute();
+  return new Map(rows.map((r) => [r.id, r.user_id!]));
 }

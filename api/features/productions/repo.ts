@@ -135,3 +135,130 @@ export async function findHeads(db: Db, productionId: string): Promise<{ email: 
     .where('m.role', '=', 'head')
     .execute();
 }
+
+export async function findProductionName(db: Db, id: string): Promise<string | null> {
+  return (await db.selectFrom('productions').select('name').where('id', '=', id).executeTakeFirst())?.name ?? null;
+}
+
+export async function productionNames(db: Db, ids: readonly string[]): Promise<Map<string, string>> {
+  if (ids.length === 0) return new Map();
+  const rows = await db.selectFrom('productions').select(['id', 'name']).where('id', 'in', [...ids]).execute();
+  return new Map(rows.map((r) => [r.id, r.name]));
+}
+
+export async function isProductionNameTaken(db: Db, name: string, exceptId?: string): Promise<boolean> {
+  let q = db.selectFrom('productions').select('id').where(sql`lower(name)`, '=', name.toLowerCase());
+  if (exceptId) q = q.where('id', '!=', exceptId);
+  return Boolean(await q.executeTakeFirst());
+}
+
+export interface ProductionValues {
+  name: string;
+  kind: 'film' | 'television' | 'stage' | 'other';
+  startsOn: string | null;
+  endsOn: string | null;
+}
+
+export async function insertProduction(db: Db, v: ProductionValues): Promise<string> {
+  const row = await db.insertInto('productions').values({ name: v.name, kind: v.kind, starts_on: v.startsOn, ends_on: v.endsOn }).returning('id').executeTakeFirstOrThrow();
+  return row.id;
+}
+
+export async function updateProduction(db: Db, id: string, v: ProductionValues): Promise<void> {
+  await db
+    .updateTable('productions')
+    .set({ name: v.name, kind: v.kind, starts_on: v.startsOn, ends_on: v.endsOn, version: sql`version + 1`, updated_at: sql`now()` })
+    .where('id', '=', id)
+    .execute();
+}
+
+export async function hasMembership(db: Db, userId: string, productionId: string, role: string): Promise<boolean> {
+  const row = await db.selectFrom('memberships').select('id').where('user_id', '=', userId).where('production_id', '=', productionId).where('role', '=', role as never).executeTakeFirst();
+  return Boolean(row);
+}
+
+export async function insertMembership(db: Db, v: { userId: string; productionId: string; role: 'head' | 'artist' | 'archivist' | 'performer'; createdBy: string }): Promise<void> {
+  await db.insertInto('memberships').values({ user_id: v.userId, production_id: v.productionId, role: v.role, created_by: v.createdBy }).execute();
+}
+
+export async function deleteMembership(db: Db, id: string, productionId: string): Promise<{ userId: string; role: string } | undefined> {
+  const r = await db.deleteFrom('memberships').where('id', '=', id).where('production_id', '=', productionId).returning(['user_id', 'role']).executeTakeFirst();
+  return r ? { userId: r.user_id, role: r.role } : undefined;
+}
+
+/** The current lead appointment's row, if any. */
+export async function findOpenLeadAppointment(db: Db, productionId: string): Promise<{ id: string; userId: string } | undefined> {
+  const r = await db.selectFrom('lead_appointments').select(['id', 'user_id']).where('production_id', '=', productionId).where('ends_at', 'is', null).executeTakeFirst();
+  return r ? { id: r.id, userId: r.user_id } : undefined;
+}
+
+export async function endLeadAppointment(db: Db, id: string, endedBy: string): Promise<void> {
+  await db.updateTable('lead_appointments').set({ ends_at: sql`now()`, ended_by: endedBy }).where('id', '=', id).execute();
+}
+
+export async function endOpenLeadAppointment(db: Db, productionId: string, endedBy: string): Promise<string | undefined> {
+  const r = await db
+    .updateTable('lead_appointments')
+    .set({ ends_at: sql`now()`, ended_by: endedBy })
+    .where('production_id', '=', productionId)
+    .where('ends_at', 'is', null)
+    .returning('user_id')
+    .executeTakeFirst();
+  return r?.user_id;
+}
+
+export async function insertLeadAppointment(db: Db, productionId: string, userId: string, appointedBy: string): Promise<void> {
+  await db.insertInto('lead_appointments').values({ production_id: productionId, user_id: userId, appointed_by: appointedBy }).execute();
+}
+
+/** Productions with no lead now (the administrator's home). */
+export async function countProductionsWithoutLead(db: Db): Promise<number> {
+  const row = await db
+    .selectFrom('productions')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where((eb) => eb.not(eb.exists(eb.selectFrom('lead_appointments').select('id').whereRef('lead_appointments.production_id', '=', 'productions.id').where('ends_at', 'is', null))))
+    .executeTakeFirstOrThrow();
+  return Number(row.n);
+}
+
+// ---- the performer role, which follows a linked performer's engagements
+
+/** Gives the user the `performer` role on these productions where they lack it; returns where it was added. */
+export async function addPerformerMemberships(db: Db, userId: string, productionIds: readonly string[], createdBy: string | null): Promise<string[]> {
+  if (productionIds.length === 0) return [];
+  const rows = await db
+    .insertInto('memberships')
+    .values(productionIds.map((p) => ({ user_id: userId, production_id: p, role: 'performer' as const, created_by: createdBy })))
+    .onConflict((oc) => oc.columns(['user_id', 'production_id', 'role']).doNothing())
+    .returning('production_id')
+    .execute();
+  return rows.map((r) => r.production_id);
+}
+
+/** Takes the `performer` role on these productions away from the user; returns where it was removed. */
+export async function removePerformerMemberships(db: Db, userId: string, productionIds: readonly string[]): Promise<string[]> {
+  if (productionIds.length === 0) return [];
+  const rows = await db
+    .deleteFrom('memberships')
+    .where('user_id', '=', userId)
+    .where('role', '=', 'performer')
+    .where('production_id', 'in', [...productionIds])
+    .returning('production_id')
+    .execute();
+  return rows.map((r) => r.production_id);
+}
+
+
+/** The designated leads now in post on these productions, to be told of identity changes. */
+export async function findCurrentLeads(db: Db, productionIds: readonly string[]): Promise<{ email: string; name: string; productionId: string }[]> {
+  if (productionIds.length === 0) return [];
+  return db
+    .selectFrom('lead_appointments as l')
+    .innerJoin('users as u', 'u.id', 'l.user_id')
+    .select(['u.email', 'u.display_name as name', 'l.production_id as productionId'])
+    .where('l.production_id', 'in', [...productionIds])
+    .where('l.starts_at', '<=', sql<Date>`now()`)
+    .where((eb) => eb.or([eb('l.ends_at', 'is', null), eb('l.ends_at', '>', sql<Date>`now()`)]))
+    .execute();
+}
+

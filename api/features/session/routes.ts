@@ -4,24 +4,19 @@ import { HomeSchema, SelectSeatInputSchema, SessionSchema } from '#shared/schema
 import { chooseSeat, seatsFor } from '#shared/domain/seats.ts';
 import type { AppContext } from '../../context.ts';
 import { invalid, notFound } from '../../http/errors.ts';
-import { defineRoute } from '../../http/route.ts';
+import { type AnyRoute, defineRoute } from '../../http/route.ts';
+import { productionNames } from '../productions/index.ts';
+import { findUserSummary } from '../users/index.ts';
 import { homeTasks } from './home.ts';
 
 async function buildSession(ctx: AppContext, actor: Actor, req: Request) {
-  const user = await ctx.db
-    .selectFrom('users')
-    .select(['id', 'email', 'display_name', 'is_admin'])
-    .where('id', '=', actor.userId)
-    .executeTakeFirst();
+  const user = await findUserSummary(ctx.db, actor.userId);
   if (!user) throw notFound('Your user record');
   const ids = [...new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf])];
-  const productions = ids.length
-    ? await ctx.db.selectFrom('productions').select(['id', 'name']).where('id', 'in', ids).execute()
-    : [];
-  const seats = seatsFor(actor, new Map(productions.map((p) => [p.id, p.name])));
+  const seats = seatsFor(actor, await productionNames(ctx.db, ids));
   const current = chooseSeat(seats, req.session.current);
   return {
-    user: { id: user.id, email: user.email, displayName: user.display_name, isAdmin: user.is_admin },
+    user,
     memberships: [...actor.memberships],
     leadOf: [...actor.leadOf],
     performerIds: [...actor.performerIds],
@@ -30,7 +25,7 @@ async function buildSession(ctx: AppContext, actor: Actor, req: Request) {
   };
 }
 
-export const sessionRoutes = [
+export const sessionRoutes: AnyRoute[] = [
   defineRoute({
     method: 'get',
     path: '/api/session',

@@ -92,3 +92,53 @@ export async function countAdmins(db: Db): Promise<number> {
   const r = await db.selectFrom('users').select((eb) => eb.fn.countAll<string>().as('n')).where('is_admin', '=', true).executeTakeFirstOrThrow();
   return Number(r.n);
 }
+
+export async function isEmailTaken(db: Db, email: string): Promise<boolean> {
+  return Boolean(await db.selectFrom('users').select('id').where(sql`lower(email)`, '=', email.toLowerCase()).executeTakeFirst());
+}
+
+export async function lockUser(db: Db, id: string): Promise<{ id: string; isAdmin: boolean; version: number } | undefined> {
+  const r = await db.selectFrom('users').select(['id', 'is_admin', 'version']).where('id', '=', id).forUpdate().executeTakeFirst();
+  return r ? { id: r.id, isAdmin: r.is_admin, version: r.version } : undefined;
+}
+
+/** Name and address of a user, for notices and for who-is-linked views. */
+export async function findUserSummary(db: Db, id: string): Promise<{ id: string; email: string; displayName: string; isAdmin: boolean } | undefined> {
+  const r = await db.selectFrom('users').select(['id', 'email', 'display_name', 'is_admin']).where('id', '=', id).executeTakeFirst();
+  return r ? { id: r.id, email: r.email, displayName: r.display_name, isAdmin: r.is_admin } : undefined;
+}
+
+/** Signed-in people given no role anywhere yet (the administrator's home). */
+export async function countUsersWithoutAccess(db: Db): Promise<number> {
+  const r = await db
+    .selectFrom('users')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('is_admin', '=', false)
+    .where((eb) => eb.not(eb.exists(eb.selectFrom('memberships').select('id').whereRef('memberships.user_id', '=', 'users.id'))))
+    .executeTakeFirstOrThrow();
+  return Number(r.n);
+}
+
+/** Whether an address is the sign-in of an administrator, a lead or anyone with a staff role. */
+export async function isStaffAddress(db: Db, email: string): Promise<boolean> {
+  return (await staffAddressesAmong(db, [email])).size > 0;
+}
+
+/** Which of these (lower-cased) addresses are staff sign-ins, in one query. */
+export async function staffAddressesAmong(db: Db, emails: readonly string[]): Promise<Set<string>> {
+  if (emails.length === 0) return new Set();
+  const rows = await db
+    .selectFrom('users as u')
+    .select(sql<string>`lower(u.email)`.as('email'))
+    .where(sql`lower(u.email)`, 'in', emails.map((e) => e.toLowerCase()))
+    .where((eb) =>
+      eb.or([
+        eb('u.is_admin', '=', true),
+        eb.exists(eb.selectFrom('memberships as m').select('m.id').whereRef('m.user_id', '=', 'u.id').where('m.role', '!=', 'performer')),
+        eb.exists(eb.selectFrom('lead_appointments as l').select('l.id').whereRef('l.user_id', '=', 'u.id')),
+      ]),
+    )
+    .execute();
+  return new Set(rows.map((r) => r.email));
+}
+

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import { BookingListSchema, BookingSchema, type CreateBookingInput } from '#shared/schemas/consents.ts';
+import { BookingListSchema, BookingSchema, type CreateBookingInput } from '#shared/schemas/bookings.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
 import { bookingsKey, homeKey, performersKey } from '../../lib/query-keys.ts';
 

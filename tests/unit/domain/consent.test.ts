@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { bookingsMissingConsent, consentKindNeeded, sessionsMissingConsent } from '#shared/domain/bookings.ts';
 import {
-  bookingsMissingConsent,
-  consentKindNeeded,
   consentState,
   coversMoment,
   expiringWithin,
@@ -64,6 +63,18 @@ describe('gates', () => {
       { id: 'b4', performerId: 'p3', purpose: 'application' as const, startsAt: d('2026-03-01T09:00:00Z') },
     ];
     expect(bookingsMissingConsent(bookings, consents).map((m) => `${m.booking.id}:${m.kind}`)).toEqual(['b2:patch_testing', 'b3:life_casting', 'b4:application']);
+  });
+  it('sessionsMissingConsent counts only consents given to the session’s own production, or to none', () => {
+    const signed = { kind: 'life_casting' as const, signedAt: d('2026-01-01T00:00:00Z'), expiresAt: null, withdrawnAt: null, performerId: 'p1' };
+    const sessions = [
+      { id: 's1', performerId: 'p1', productionId: 'A', purpose: 'life_cast' as const, startsAt: d('2026-03-01T09:00:00Z'), status: 'booked' },
+      { id: 's2', performerId: 'p1', productionId: 'B', purpose: 'life_cast' as const, startsAt: d('2026-03-01T09:00:00Z'), status: 'booked' },
+      { id: 's3', performerId: 'p1', productionId: 'B', purpose: 'life_cast' as const, startsAt: d('2026-03-01T09:00:00Z'), status: 'cancelled' },
+    ];
+    // Given to production A: covers A's session only; a cancelled session needs nothing.
+    expect([...sessionsMissingConsent(sessions, [{ ...signed, productionId: 'A' }])]).toEqual(['s2']);
+    // Naming no production: covers every one.
+    expect([...sessionsMissingConsent(sessions, [{ ...signed, productionId: null }])]).toEqual([]);
   });
   it('expiringWithin lists active consents ending inside the window only', () => {
     const now = d('2026-06-01T00:00:00Z');

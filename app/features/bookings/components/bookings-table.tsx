@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import type { Booking } from '#shared/schemas/consents.ts';
+import type { Booking } from '#shared/schemas/bookings.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { ConfirmDialog } from '../../../components/ui/dialog.tsx';
 import { Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';

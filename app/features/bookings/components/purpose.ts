@@ -1,4 +1,5 @@
-import { BOOKING_PURPOSE_LABELS, CONSENT_KIND_LABELS, consentKindNeeded, type BookingPurpose } from '#shared/domain/consent.ts';
+import { BOOKING_PURPOSE_LABELS, consentKindNeeded, type BookingPurpose } from '#shared/domain/bookings.ts';
+import { CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
 
 export { BOOKING_PURPOSE_LABELS };
 

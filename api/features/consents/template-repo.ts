@@ -1,7 +1,7 @@
 import { sql } from 'kysely';
-import { consentState, type ConsentKind } from '#shared/domain/consent.ts';
-import type { Question } from '#shared/domain/questionnaire.ts';
-import type { ConsentSummary, Template } from '#shared/schemas/consents.ts';
+import type { ConsentKind } from '#shared/domain/consent.ts';
+import { type Question, QuestionsSchema } from '#shared/domain/questionnaire.ts';
+import type { Template, TemplateVersionList } from '#shared/schemas/consents.ts';
 import type { Db } from '../../db/index.ts';
 
 export interface TemplateVersionRow {
@@ -15,6 +15,11 @@ export interface TemplateVersionRow {
   validityDays: number | null;
 }
 
+/** The questionnaire column, read back through its schema: what was stored is what the form defines. */
+function questionsOf(raw: unknown): Question[] {
+  return QuestionsSchema.parse(raw);
+}
+
 export async function findTemplateVersion(db: Db, versionId: string): Promise<TemplateVersionRow | undefined> {
   const r = await db
     .selectFrom('consent_template_versions as v')
@@ -23,7 +28,7 @@ export async function findTemplateVersion(db: Db, versionId: string): Promise<Te
     .where('v.id', '=', versionId)
     .executeTakeFirst();
   return r
-    ? { versionId: r.id, templateId: r.template_id, kind: r.kind, version: r.version, title: r.title, body: r.body, questions: r.questions as Question[], validityDays: r.validity_days }
+    ? { versionId: r.id, templateId: r.template_id, kind: r.kind, version: r.version, title: r.title, body: r.body, questions: questionsOf(r.questions), validityDays: r.validity_days }
     : undefined;
 }
 
@@ -65,7 +70,7 @@ function toTemplate(r: TemplateRow): Template {
     version: r.current_version,
     title: r.title,
     body: r.body,
-    questions: r.questions as Question[],
+    questions: questionsOf(r.questions),
     validityDays: r.validity_days,
     archived: r.archived,
     updatedAt: new Date(r.created_at).toISOString(),
@@ -84,66 +89,49 @@ export async function findTemplate(db: Db, id: string): Promise<Template | undef
   return r ? toTemplate(r) : undefined;
 }
 
-export function consentSummaryQuery(db: Db) {
-  return db
-    .selectFrom('consents as c')
-    .innerJoin('consent_template_versions as v', 'v.id', 'c.template_version_id')
-    .innerJoin('performers as p', 'p.id', 'c.performer_id')
-    .select([
-      'c.id',
-      'c.performer_id',
-      sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
-      'c.production_id',
-      'c.kind',
-      'v.title',
-      'v.version as template_version',
-      'c.signed_at',
-      'c.expires_at',
-      'c.withdrawn_at',
-      'c.signer_name',
-      'c.signing_method',
-      'c.version',
-    ]);
-}
-export type ConsentSummaryRow = Awaited<ReturnType<ReturnType<typeof consentSummaryQuery>['executeTakeFirstOrThrow']>>;
-
-export function toConsentSummary(r: ConsentSummaryRow, now = new Date()): ConsentSummary {
-  const signedAt = new Date(r.signed_at);
-  const expiresAt = r.expires_at ? new Date(r.expires_at) : null;
-  const withdrawnAt = r.withdrawn_at ? new Date(r.withdrawn_at) : null;
-  return {
-    id: r.id,
-    performerId: r.performer_id,
-    performerName: r.performer_name,
-    productionId: r.production_id,
-    kind: r.kind,
-    title: r.title,
-    templateVersion: r.template_version,
-    signedAt: signedAt.toISOString(),
-    expiresAt: expiresAt?.toISOString() ?? null,
-    state: consentState({ signedAt, expiresAt, withdrawnAt }, now),
-    signerName: r.signer_name,
-    signingMethod: r.signing_method,
-    withdrawnAt: withdrawnAt?.toISOString() ?? null,
-    version: r.version,
-  };
+export async function listTemplateVersions(db: Db, templateId: string): Promise<TemplateVersionList['items']> {
+  const rows = await db
+    .selectFrom('consent_template_versions as v')
+    .leftJoin('users as u', 'u.id', 'v.created_by')
+    .select(['v.id', 'v.version', 'v.title', 'v.created_at', 'u.display_name'])
+    .where('v.template_id', '=', templateId)
+    .orderBy('v.version', 'desc')
+    .execute();
+  return rows.map((r) => ({ versionId: r.id, version: r.version, title: r.title, createdAt: new Date(r.created_at).toISOString(), createdBy: r.display_name }));
 }
 
-/** Productions a performer is engaged on: the scope every permission question about them uses. */
-export async function performerScope(
+/** Whether a form may be sent now: it exists and is not archived. */
+export async function isTemplateSendable(db: Db, templateId: string): Promise<boolean> {
+  const t = await db.selectFrom('consent_templates').select('archived').where('id', '=', templateId).executeTakeFirst();
+  return Boolean(t && !t.archived);
+}
+
+export async function lockTemplate(db: Db, id: string): Promise<{ id: string; kind: ConsentKind; currentVersion: number } | undefined> {
+  const t = await db.selectFrom('consent_templates').select(['id', 'kind', 'current_version']).where('id', '=', id).forUpdate().executeTakeFirst();
+  return t ? { id: t.id, kind: t.kind, currentVersion: t.current_version } : undefined;
+}
+
+export async function insertTemplate(db: Db, kind: ConsentKind): Promise<string> {
+  return (await db.insertInto('consent_templates').values({ kind }).returning('id').executeTakeFirstOrThrow()).id;
+}
+
+export async function insertTemplateVersion(
   db: Db,
-  performerId: string,
-): Promise<{ id: string; name: string; email: string | null; emailUnconfirmed: boolean; productionIds: string[] } | undefined> {
-  const p = await db
-    .selectFrom('performers')
-    .select(['id', sql<string>`coalesce(preferred_name, legal_name)`.as('name'), 'email', 'email_confirmed_at'])
-    .where('id', '=', performerId)
-    .executeTakeFirst();
-  if (!p) return undefined;
-  const e = await db.selectFrom('engagements').select('production_id').where('performer_id', '=', performerId).execute();
-  // `email` is the address mail may go to: only one the performer confirmed.
-  const confirmed = p.email !== null && p.email_confirmed_at !== null;
-  return { id: p.id, name: p.name, email: confirmed ? p.email : null, emailUnconfirmed: p.email !== null && !confirmed, productionIds: e.map((x) => x.production_id) };
+  v: { templateId: string; version: number; title: string; body: string; questions: readonly Question[]; validityDays: number | null; createdBy: string },
+): Promise<void> {
+  await db
+    .insertInto('consent_template_versions')
+    .values({ template_id: v.templateId, version: v.version, title: v.title, body: v.body, questions: JSON.stringify(v.questions), validity_days: v.validityDays, created_by: v.createdBy })
+    .execute();
+}
+
+export async function setTemplateCurrentVersion(db: Db, id: string, version: number, kind: ConsentKind): Promise<void> {
+  await db.updateTable('consent_templates').set({ current_version: version, kind }).where('id', '=', id).execute();
+}
+
+export async function setTemplateArchived(db: Db, id: string, archived: boolean): Promise<boolean> {
+  const r = await db.updateTable('consent_templates').set({ archived }).where('id', '=', id).executeTakeFirst();
+  return Number(r.numUpdatedRows) === 1;
 }
 
 /** Productions that have sent or signed this form: those whose lead may loosen its health questions. */
@@ -162,5 +150,5 @@ export async function productionsUsingTemplate(db: Db, templateId: string): Prom
         .where('c.production_id', 'is not', null),
     )
     .execute();
-  return rows.map((r) => r.production_id!).filter(Boolean);
+  return rows.flatMap((r) => (r.production_id ? [r.production_id] : []));
 }

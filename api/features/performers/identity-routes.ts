@@ -4,24 +4,24 @@ import { IdParamsSchema } from '#shared/schemas/common.ts';
 import { AccountInvitationAcceptedSchema, AccountInvitationViewSchema, EmailConfirmationViewSchema, IdentityMailSentSchema } from '#shared/schemas/identity.ts';
 import { mayActAsPerformer } from '../../auth/users.ts';
 import type { AppContext } from '../../context.ts';
-import { forbidden, notFound } from '../../http/errors.ts';
+import { authorize } from '../../http/authorize.ts';
+import { notFound } from '../../http/errors.ts';
 import { rateLimiter } from '../../http/rate-limit.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { TOKEN_PATTERN } from '../../http/tokens.ts';
 import { deliverAll } from '../../mail/deliver.ts';
-import { performerAccess } from '../performers/access.ts';
-import { findPerformerIdentity } from './repo.ts';
-import { acceptInvitation, confirmEmail, inviteToSignIn, resendConfirmation, viewConfirmation, viewInvitation } from './service.ts';
+import { findPerformerIdentity } from './identity-repo.ts';
+import { acceptInvitation, confirmEmail, inviteToSignIn, resendConfirmation, viewConfirmation, viewInvitation } from './identity-service.ts';
 
 const TAG = 'identity';
 const TokenParams = z.object({ token: z.string().regex(TOKEN_PATTERN, 'Not a valid link') });
 const linkLimiter = rateLimiter({ windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
 
 /** Managers of one of the performer's productions (or the studio administrator) may send these. */
-async function assertMaySend(ctx: AppContext, actor: Actor, performerId: string, what: string) {
+async function assertMayInvite(ctx: AppContext, actor: Actor, performerId: string) {
   const p = await findPerformerIdentity(ctx.db, performerId);
   if (!p) throw notFound('That performer');
-  if (!actor.isAdmin && !performerAccess(actor, p.id, p.productionIds).canManage) throw forbidden(what);
+  authorize(actor, 'accounts.invite', { performerId: p.id, performerProductionIds: p.productionIds });
 }
 
 export const identityRoutes: AnyRoute[] = [
@@ -35,7 +35,7 @@ export const identityRoutes: AnyRoute[] = [
     response: IdentityMailSentSchema,
     errors: [403, 404, 409, 429],
     async handler({ ctx, actor, params, req }) {
-      await assertMaySend(ctx, actor, params.id, 'send a confirmation request for this performer');
+      await assertMayInvite(ctx, actor, params.id);
       const { mail, sentTo } = await resendConfirmation(ctx, actor, params.id, req);
       const { failed } = await deliverAll(ctx, [mail]);
       return { sentTo, mailed: failed.length === 0 };
@@ -51,7 +51,7 @@ export const identityRoutes: AnyRoute[] = [
     response: IdentityMailSentSchema,
     errors: [403, 404, 409, 429],
     async handler({ ctx, actor, params, req }) {
-      await assertMaySend(ctx, actor, params.id, 'invite this performer to sign in');
+      await assertMayInvite(ctx, actor, params.id);
       const { mail, sentTo } = await inviteToSignIn(ctx, actor, params.id, req);
       const { failed } = await deliverAll(ctx, [mail]);
       return { sentTo, mailed: failed.length === 0 };

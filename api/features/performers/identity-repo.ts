@@ -41,42 +41,6 @@ export async function findConfirmedEmail(db: Db, performerId: string): Promise<{
   return row?.email ? { email: row.email, name: row.name } : null;
 }
 
-/** Whether an address is the sign-in of an administrator, a lead or anyone with a staff role. */
-export async function isStaffAddress(db: Db, email: string): Promise<boolean> {
-  return (await staffAddressesAmong(db, [email])).size > 0;
-}
-
-/** Which of these (lower-cased) addresses are staff sign-ins, in one query. */
-export async function staffAddressesAmong(db: Db, emails: readonly string[]): Promise<Set<string>> {
-  if (emails.length === 0) return new Set();
-  const rows = await db
-    .selectFrom('users as u')
-    .select(sql<string>`lower(u.email)`.as('email'))
-    .where(sql`lower(u.email)`, 'in', emails.map((e) => e.toLowerCase()))
-    .where((eb) =>
-      eb.or([
-        eb('u.is_admin', '=', true),
-        eb.exists(eb.selectFrom('memberships as m').select('m.id').whereRef('m.user_id', '=', 'u.id').where('m.role', '!=', 'performer')),
-        eb.exists(eb.selectFrom('lead_appointments as l').select('l.id').whereRef('l.user_id', '=', 'u.id')),
-      ]),
-    )
-    .execute();
-  return new Set(rows.map((r) => r.email));
-}
-
-/** The designated leads now in post on these productions, to be told of identity changes. */
-export async function findCurrentLeads(db: Db, productionIds: readonly string[]): Promise<{ email: string; name: string; productionId: string }[]> {
-  if (productionIds.length === 0) return [];
-  return db
-    .selectFrom('lead_appointments as l')
-    .innerJoin('users as u', 'u.id', 'l.user_id')
-    .select(['u.email', 'u.display_name as name', 'l.production_id as productionId'])
-    .where('l.production_id', 'in', [...productionIds])
-    .where('l.starts_at', '<=', sql<Date>`now()`)
-    .where((eb) => eb.or([eb('l.ends_at', 'is', null), eb('l.ends_at', '>', sql<Date>`now()`)]))
-    .execute();
-}
-
 export async function countRecentConfirmations(db: Db, performerId: string, since: Date): Promise<number> {
   const row = await db.selectFrom('email_confirmations').select((eb) => eb.fn.countAll<string>().as('n')).where('performer_id', '=', performerId).where('created_at', '>', since).executeTakeFirstOrThrow();
   return Number(row.n);
@@ -140,16 +104,20 @@ export async function findPerformerLinkedToUser(db: Db, userId: string): Promise
 }
 
 /** Links the sign-in (the performer's own act); gives it the performer role where they are engaged. */
-export async function linkUserToPerformer(db: Db, performerId: string, userId: string, productionIds: readonly string[]): Promise<string[]> {
+export async function linkUserToPerformer(db: Db, performerId: string, userId: string): Promise<void> {
   await db.updateTable('performers').set({ user_id: userId, version: sql`version + 1`, updated_at: sql`now()` }).where('id', '=', performerId).execute();
-  if (productionIds.length === 0) return [];
-  const rows = await db
-    .insertInto('memberships')
-    .values(productionIds.map((p) => ({ user_id: userId, production_id: p, role: 'performer' as const, created_by: null })))
-    .onConflict((oc) => oc.columns(['user_id', 'production_id', 'role']).doNothing())
-    .returning('production_id')
-    .execute();
-  return rows.map((r) => r.production_id);
+}
+
+/** The performer with this confirmed address, its row locked (a withdrawal-link request for it). */
+export async function lockPerformerByConfirmedEmail(db: Db, email: string): Promise<{ id: string; email: string; name: string } | undefined> {
+  const p = await db
+    .selectFrom('performers')
+    .select(['id', 'email', sql<string>`coalesce(preferred_name, legal_name)`.as('name')])
+    .where(sql`lower(email)`, '=', email.toLowerCase())
+    .where('email_confirmed_at', 'is not', null)
+    .forUpdate()
+    .executeTakeFirst();
+  return p?.email ? { id: p.id, email: p.email, name: p.name } : undefined;
 }
 
 /** A performer record whose confirmed address is this one, not yet linked to anyone. */

@@ -1,5 +1,4 @@
 import { randomUUID } from 'node:crypto';
-import { sql } from 'kysely';
 import { CONSENT_KIND_LABELS, expiryFor } from '#shared/domain/consent.ts';
 import { answersSchemaFor, formatAnswer, isMedicalAnswer, type Question } from '#shared/domain/questionnaire.ts';
 import { fieldErrorsFromIssues } from '#shared/errors.ts';
@@ -8,12 +7,15 @@ import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
 import { discardFiles, sha256Hex, storeFile, type StoredFile } from '../../files/store.ts';
 import { writeAudit } from '../../http/audit.ts';
-import { conflict, invalid } from '../../http/errors.ts';
+import { conflict, invalid, isUniqueViolation } from '../../http/errors.ts';
 import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
-import { findTemplateVersion, type TemplateVersionRow } from './repo.ts';
+import { findConsentByIdempotencyKey, insertConsent } from './consent-repo.ts';
+import { lockRequestStatus, markRequestSigned } from './request-repo.ts';
+import { findTemplateVersion, type TemplateVersionRow } from './template-repo.ts';
 import { acceptSignature } from './signature.ts';
-import { findConfirmedEmail } from '../identity/repo.ts';
+import { findConfirmedEmail, findPerformerScope } from '../performers/index.ts';
+import { findProductionName } from '../productions/index.ts';
 
 export interface SignedConsentParams {
   performerId: string;
@@ -36,14 +38,9 @@ export interface SignedConsentParams {
  * answers in one transaction. Files written before a failed transaction are removed again.
  */
 export async function writeSignedConsent(db: Db, storageDir: string, p: SignedConsentParams): Promise<{ consentId: string; pdf: Buffer; pdfSha256: string }> {
-  const performer = await db
-    .selectFrom('performers')
-    .select([sql<string>`coalesce(preferred_name, legal_name)`.as('name')])
-    .where('id', '=', p.performerId)
-    .executeTakeFirstOrThrow();
-  const production = p.productionId
-    ? await db.selectFrom('productions').select('name').where('id', '=', p.productionId).executeTakeFirst()
-    : undefined;
+  const performer = await findPerformerScope(db, p.performerId);
+  if (!performer) throw new Error('performer vanished while signing');
+  const productionName = p.productionId ? await findProductionName(db, p.productionId) : null;
   const consentId = randomUUID();
   const answers = p.template.questions.map((q: Question) => ({
     questionId: q.id,
@@ -76,7 +73,7 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
     templateVersion: p.template.version,
     body: p.template.body,
     performerName: performer.name,
-    productionName: production?.name ?? null,
+    productionName,
     answers: p.template.questions.map((q) => ({ label: q.label, answer: formatAnswer(q, p.answers[q.id]), medical: isMedicalAnswer(p.template.kind, q.medical) })),
     signerName: p.signerName,
     signedAt: p.signedAt,
@@ -90,47 +87,36 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
   const written: StoredFile[] = [];
   try {
     await db.transaction().execute(async (trx) => {
-      if (p.requestId) {
-        // The request row lock serialises submissions for one form: a double tap cannot sign twice.
-        const req = await trx.selectFrom('signing_requests').select('status').where('id', '=', p.requestId).forUpdate().executeTakeFirstOrThrow();
-        if (req.status !== 'open') throw new RequestNotOpen();
-      }
+      if (p.requestId && (await lockRequestStatus(trx, p.requestId)) !== 'open') throw new RequestNotOpen();
       const sig = await storeFile(trx, storageDir, { purpose: 'signature', contentType: 'image/png', ext: 'png', bytes: p.signaturePng, createdBy: p.staffUserId });
       written.push(sig);
       const file = await storeFile(trx, storageDir, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId });
       written.push(file);
-      await trx
-        .insertInto('consents')
-        .values({
+      await insertConsent(
+        trx,
+        {
           id: consentId,
-          performer_id: p.performerId,
-          production_id: p.productionId,
-          template_version_id: p.template.versionId,
+          performerId: p.performerId,
+          productionId: p.productionId,
+          templateVersionId: p.template.versionId,
           kind: p.template.kind,
-          request_id: p.requestId,
-          idempotency_key: p.idempotencyKey,
-          signer_name: p.signerName,
-          signed_at: p.signedAt,
-          expires_at: expiryFor(p.signedAt, p.template.validityDays),
-          signing_method: p.signingMethod,
+          requestId: p.requestId,
+          idempotencyKey: p.idempotencyKey,
+          signerName: p.signerName,
+          signedAt: p.signedAt,
+          expiresAt: expiryFor(p.signedAt, p.template.validityDays),
+          signingMethod: p.signingMethod,
           ip: p.ip,
-          user_agent: p.userAgent,
-          staff_user_id: p.staffUserId,
-          signature_file_id: sig.id,
-          pdf_file_id: file.id,
-          pdf_sha256: file.sha256,
-          content_sha256: hash,
-        })
-        .execute();
-      if (answers.length) {
-        await trx
-          .insertInto('consent_answers')
-          .values(answers.map((a) => ({ consent_id: consentId, question_id: a.questionId, question_label: a.label, medical: a.medical, answer: JSON.stringify(a.answer) })))
-          .execute();
-      }
-      if (p.requestId) {
-        await trx.updateTable('signing_requests').set({ status: 'signed', signed_at: p.signedAt }).where('id', '=', p.requestId).execute();
-      }
+          userAgent: p.userAgent,
+          staffUserId: p.staffUserId,
+          signatureFileId: sig.id,
+          pdfFileId: file.id,
+          pdfSha256: file.sha256,
+          contentSha256: hash,
+        },
+        answers,
+      );
+      if (p.requestId) await markRequestSigned(trx, p.requestId, p.signedAt);
       await writeAudit(trx, {
         actorUserId: p.staffUserId,
         action: 'consent.sign',
@@ -162,9 +148,6 @@ export interface OpenRequest {
   expiresAt: Date;
 }
 
-async function existingByKey(db: Db, key: string) {
-  return db.selectFrom('consents').select(['id', 'signed_at', 'request_id']).where('idempotency_key', '=', key).executeTakeFirst();
-}
 
 /**
  * A signing submitted from the tablet or a link. The same idempotency key answers with the
@@ -176,10 +159,10 @@ export async function submitSignature(
   input: SubmitSignatureInput,
   meta: { ip: string | null; userAgent: string | null; method: 'tablet' | 'link'; staffUserId: string | null },
 ): Promise<{ consentId: string; signedAt: string; emailedTo: string | null; duplicate: boolean }> {
-  const earlier = await existingByKey(ctx.db, input.idempotencyKey);
+  const earlier = await findConsentByIdempotencyKey(ctx.db, input.idempotencyKey);
   if (earlier) {
-    if (earlier.request_id !== request.id) throw conflict('This submission key was already used for another form.');
-    return { consentId: earlier.id, signedAt: new Date(earlier.signed_at).toISOString(), emailedTo: null, duplicate: true };
+    if (earlier.requestId !== request.id) throw conflict('This submission key was already used for another form.');
+    return { consentId: earlier.id, signedAt: earlier.signedAt.toISOString(), emailedTo: null, duplicate: true };
   }
   if (request.status === 'signed') throw conflict('This form has already been signed.', { reason: 'signed' });
   if (request.status === 'cancelled') throw conflict('This signing request was withdrawn by the department.', { reason: 'cancelled' });
@@ -215,9 +198,9 @@ export async function submitSignature(
     });
   } catch (err) {
     // Two identical submissions racing: the loser finds the winner's consent.
-    if (err instanceof RequestNotOpen || (err as { code?: string }).code === '23505') {
-      const winner = await existingByKey(ctx.db, input.idempotencyKey);
-      if (winner) return { consentId: winner.id, signedAt: new Date(winner.signed_at).toISOString(), emailedTo: null, duplicate: true };
+    if (err instanceof RequestNotOpen || isUniqueViolation(err)) {
+      const winner = await findConsentByIdempotencyKey(ctx.db, input.idempotencyKey);
+      if (winner) return { consentId: winner.id, signedAt: winner.signedAt.toISOString(), emailedTo: null, duplicate: true };
       throw conflict('This form has already been signed.');
     }
     throw err;

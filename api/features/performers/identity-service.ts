@@ -2,17 +2,18 @@ import type { Request } from 'express';
 import type { Actor } from '#shared/policy.ts';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
-import { writeAudit } from '../../http/audit.ts';
+import { type Trx, writeAudit } from '../../http/audit.ts';
 import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { hashToken, newToken } from '../../http/tokens.ts';
 import { deliverAll } from '../../mail/deliver.ts';
+import { addPerformerMemberships, findCurrentLeads } from '../productions/index.ts';
+import { isStaffAddress } from '../users/index.ts';
 import type { OutgoingMail } from '../../mail/mailer.ts';
 import {
   confirmPerformerEmail,
   countRecentConfirmations,
   countRecentInvitations,
   findConfirmationByHash,
-  findCurrentLeads,
   findInvitationByHash,
   findPerformerIdentity,
   findPerformerLinkedToUser,
@@ -20,12 +21,11 @@ import {
   insertConfirmation,
   insertConfirmations,
   insertInvitation,
-  isStaffAddress,
   linkUserToPerformer,
   markConfirmationUsed,
   markInvitationAccepted,
   type PerformerIdentity,
-} from './repo.ts';
+} from './identity-repo.ts';
 
 const CONFIRMATION_DAYS = 7;
 const INVITATION_DAYS = 7;
@@ -92,7 +92,7 @@ export async function startConfirmations(trx: Db, ctx: AppContext, list: readonl
  * confirmed address and the lead are told. Returns the mail to send once committed.
  */
 export async function recordEmailChange(
-  trx: Db,
+  trx: Trx,
   ctx: AppContext,
   e: { performerId: string; before: { email: string | null; confirmed: boolean }; after: string | null; actor: Actor; req: Request },
 ): Promise<OutgoingMail[]> {
@@ -142,7 +142,7 @@ export async function resendConfirmation(ctx: AppContext, actor: Actor, performe
       throw new ApiError('rate_limited', 'A confirmation request went to this address several times in the last hour. Wait before sending another.');
     }
     const mail = await startConfirmation(trx, ctx, p, p.email, actor.userId);
-    await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.email_confirmation_sent', entityType: 'performer', entityId: p.id, req });
+    await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.email_confirmation_send', entityType: 'performer', entityId: p.id, req });
     return { mail, sentTo: p.email };
   });
 }
@@ -229,7 +229,8 @@ export async function acceptInvitation(ctx: AppContext, actor: Actor, token: str
     if (p.userId) throw conflict('A sign-in is already linked to this performer.');
     if (!(await mayActAsPerformer(trx, actor.userId))) throw forbidden('accept this invitation with a staff sign-in; sign in with your own, personal sign-in');
     if (await findPerformerLinkedToUser(trx, actor.userId)) throw conflict('Your sign-in is already linked to a performer record.');
-    const added = await linkUserToPerformer(trx, p.id, actor.userId, p.productionIds);
+    await linkUserToPerformer(trx, p.id, actor.userId);
+    const added = await addPerformerMemberships(trx, actor.userId, p.productionIds, null);
     await markInvitationAccepted(trx, inv.id, actor.userId);
     await writeAudit(trx, { actorUserId: actor.userId, actorPerformerId: p.id, action: 'performer.account_link', entityType: 'performer', entityId: p.id, req, details: { userId: actor.userId, via: 'invitation', productions: added } });
     return { performerId: p.id, mails: await leadNotices(trx, p, `Plinth: ${p.name} linked a sign-in`, [`${p.name} accepted the invitation and linked a sign-in of their own to their record.`]) };
@@ -249,7 +250,8 @@ export async function linkConfirmedPerformerAtSignIn(ctx: AppContext, userId: st
     const performerId = await findUnlinkedPerformerByConfirmedEmail(trx, verifiedEmail);
     if (!performerId) return null;
     const p = (await findPerformerIdentity(trx, performerId))!;
-    const added = await linkUserToPerformer(trx, performerId, userId, p.productionIds);
+    await linkUserToPerformer(trx, performerId, userId);
+    const added = await addPerformerMemberships(trx, userId, p.productionIds, null);
     await writeAudit(trx, { actorUserId: userId, actorPerformerId: performerId, action: 'performer.link_on_sign_in', entityType: 'performer', entityId: performerId, details: { productions: added.length } });
     return { performerId, mails: await leadNotices(trx, p, `Plinth: ${p.name} linked a sign-in`, [`${p.name} signed in with the address they confirmed, and that sign-in is now linked to their record.`]) };
   });

@@ -1,0 +1,35 @@
+import { sql } from 'kysely';
+import type { AuditPage, AuditQuery } from '#shared/schemas/admin.ts';
+import type { Db } from '../../db/index.ts';
+
+/** One page of the audit log, filtered by event prefix and by actor name or record id. */
+export async function listAuditPage(db: Db, query: AuditQuery): Promise<AuditPage> {
+  let q = db.selectFrom('audit_log as a').leftJoin('users as u', 'u.id', 'a.actor_user_id');
+  if (query.action) q = q.where('a.action', 'like', `${query.action.replace(/[\\%_]/g, (c) => `\\${c}`)}%`);
+  if (query.q) q = q.where((eb) => eb.or([eb('u.display_name', 'ilike', `%${query.q}%`), eb('a.entity_id', '=', query.q!)]));
+  const [rows, total] = await Promise.all([
+    q
+      .select(['a.id', 'a.at', 'u.display_name', 'a.action', 'a.entity_type', 'a.entity_id', 'a.production_id', 'a.details'])
+      .orderBy('a.at', query.dir)
+      .orderBy(sql.ref('a.id'), query.dir)
+      .limit(query.pageSize)
+      .offset((query.page - 1) * query.pageSize)
+      .execute(),
+    q.select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow(),
+  ]);
+  return {
+    items: rows.map((r) => ({
+      id: String(r.id),
+      at: new Date(r.at).toISOString(),
+      actor: r.display_name,
+      action: r.action,
+      entityType: r.entity_type,
+      entityId: r.entity_id,
+      productionId: r.production_id,
+      details: r.details,
+    })),
+    total: Number(total.n),
+    page: query.page,
+    pageSize: query.pageSize,
+  };
+}

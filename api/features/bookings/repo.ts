@@ -1,0 +1,82 @@
+import { sql } from 'kysely';
+import type { BookingPurpose } from '#shared/domain/bookings.ts';
+import type { Db } from '../../db/index.ts';
+
+export interface BookingRow {
+  id: string;
+  performerId: string;
+  performerName: string;
+  productionId: string;
+  purpose: BookingPurpose;
+  startsAt: Date;
+  location: string | null;
+  status: 'booked' | 'cancelled' | 'done';
+}
+
+export interface BookingFilter {
+  productionId?: string;
+  /** Any of these productions (a performer page shows only those the viewer may see). */
+  productionIds?: readonly string[];
+  performerId?: string;
+  from?: Date;
+  to?: Date;
+  ids?: readonly string[];
+  status?: BookingRow['status'];
+}
+
+/** Sessions in start order (at most 500), with the performer's display name. */
+export async function listBookingRows(db: Db, where: BookingFilter): Promise<BookingRow[]> {
+  let q = db
+    .selectFrom('bookings as b')
+    .innerJoin('performers as p', 'p.id', 'b.performer_id')
+    .select(['b.id', 'b.performer_id', sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'), 'b.production_id', 'b.purpose', 'b.starts_at', 'b.location', 'b.status']);
+  if (where.productionId) q = q.where('b.production_id', '=', where.productionId);
+  if (where.productionIds) {
+    if (where.productionIds.length === 0) return [];
+    q = q.where('b.production_id', 'in', [...where.productionIds]);
+  }
+  if (where.performerId) q = q.where('b.performer_id', '=', where.performerId);
+  if (where.from) q = q.where('b.starts_at', '>=', where.from);
+  if (where.to) q = q.where('b.starts_at', '<', where.to);
+  if (where.ids) {
+    if (where.ids.length === 0) return [];
+    q = q.where('b.id', 'in', [...where.ids]);
+  }
+  if (where.status) q = q.where('b.status', '=', where.status);
+  const rows = await q.orderBy('b.starts_at').orderBy('b.id').limit(500).execute();
+  return rows.map((r) => ({
+    id: r.id,
+    performerId: r.performer_id,
+    performerName: r.performer_name,
+    productionId: r.production_id,
+    purpose: r.purpose,
+    startsAt: new Date(r.starts_at),
+    location: r.location,
+    status: r.status,
+  }));
+}
+
+export async function findBookingForChange(db: Db, id: string): Promise<{ id: string; productionId: string; status: BookingRow['status'] } | undefined> {
+  const r = await db.selectFrom('bookings').select(['id', 'production_id', 'status']).where('id', '=', id).forUpdate().executeTakeFirst();
+  return r ? { id: r.id, productionId: r.production_id, status: r.status } : undefined;
+}
+
+export async function findBookingProduction(db: Db, id: string): Promise<string | undefined> {
+  return (await db.selectFrom('bookings').select('production_id').where('id', '=', id).executeTakeFirst())?.production_id;
+}
+
+export async function insertBooking(
+  db: Db,
+  v: { performerId: string; productionId: string; purpose: BookingPurpose; startsAt: Date; location: string | null; createdBy: string },
+): Promise<string> {
+  const row = await db
+    .insertInto('bookings')
+    .values({ performer_id: v.performerId, production_id: v.productionId, purpose: v.purpose, starts_at: v.startsAt, location: v.location, created_by: v.createdBy })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  return row.id;
+}
+
+export async function setBookingStatus(db: Db, id: string, status: BookingRow['status']): Promise<void> {
+  await db.updateTable('bookings').set({ status }).where('id', '=', id).execute();
+}

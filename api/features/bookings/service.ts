@@ -1,0 +1,53 @@
+import type { Request } from 'express';
+import { sessionsMissingConsent } from '#shared/domain/bookings.ts';
+import type { Actor } from '#shared/policy.ts';
+import type { Booking, CreateBookingInput } from '#shared/schemas/bookings.ts';
+import type { AppContext } from '../../context.ts';
+import type { Db } from '../../db/index.ts';
+import { writeAudit } from '../../http/audit.ts';
+import { authorize } from '../../http/authorize.ts';
+import { conflict, invalid, notFound } from '../../http/errors.ts';
+import { listConsentsForGate } from '../consents/index.ts';
+import { isEngagedOn } from '../performers/index.ts';
+import { type BookingFilter, findBookingForChange, findBookingProduction, insertBooking, listBookingRows, setBookingStatus } from './repo.ts';
+
+/** Sessions with, for each, whether its consent will be in force when it starts: one query for the sessions, one for the consents. */
+export async function listBookings(db: Db, where: BookingFilter): Promise<Booking[]> {
+  const rows = await listBookingRows(db, where);
+  const consents = await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
+  const missing = sessionsMissingConsent(rows, consents);
+  return rows.map((r) => ({ ...r, startsAt: r.startsAt.toISOString(), consentMissing: missing.has(r.id) }));
+}
+
+async function bookingById(db: Db, id: string): Promise<Booking> {
+  const [b] = await listBookings(db, { ids: [id] });
+  if (!b) throw notFound('That booking');
+  return b;
+}
+
+export async function createBooking(ctx: AppContext, actor: Actor, input: CreateBookingInput, req: Request): Promise<Booking> {
+  authorize(actor, 'sessions.book', { productionId: input.productionId });
+  if (!(await isEngagedOn(ctx.db, input.performerId, input.productionId))) throw invalid({ performerId: ['This performer is not engaged on this production.'] });
+  const startsAt = new Date(input.startsAt);
+  if (startsAt.getTime() < Date.now() - 60_000) throw invalid({ startsAt: ['Choose a time that has not passed'] });
+  const id = await ctx.db.transaction().execute(async (trx) => {
+    const newId = await insertBooking(trx, { performerId: input.performerId, productionId: input.productionId, purpose: input.purpose, startsAt, location: input.location || null, createdBy: actor.userId });
+    await writeAudit(trx, { actorUserId: actor.userId, action: 'booking.create', entityType: 'booking', entityId: newId, productionId: input.productionId, req, details: { purpose: input.purpose } });
+    return newId;
+  });
+  return bookingById(ctx.db, id);
+}
+
+export async function cancelBooking(ctx: AppContext, actor: Actor, id: string, req: Request): Promise<Booking> {
+  const productionId = await findBookingProduction(ctx.db, id);
+  if (!productionId) throw notFound('That booking');
+  authorize(actor, 'sessions.book', { productionId });
+  await ctx.db.transaction().execute(async (trx) => {
+    const b = await findBookingForChange(trx, id);
+    if (!b) throw notFound('That booking');
+    if (b.status !== 'booked') throw conflict('Only a booked session can be cancelled.');
+    await setBookingStatus(trx, id, 'cancelled');
+    await writeAudit(trx, { actorUserId: actor.userId, action: 'booking.cancel', entityType: 'booking', entityId: id, productionId: b.productionId, req });
+  });
+  return bookingById(ctx.db, id);
+}

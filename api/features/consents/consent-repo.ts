@@ -1,0 +1,235 @@
+import { type RawBuilder, sql } from 'kysely';
+import type { ConsentForGate } from '#shared/domain/bookings.ts';
+import { type ConsentKind, type ConsentState, consentState } from '#shared/domain/consent.ts';
+import type { ConsentSummary } from '#shared/schemas/consents.ts';
+import type { Db } from '../../db/index.ts';
+
+// ---- the consent rules in SQL, mirroring consentState() and coversMoment() in shared/domain/consent.ts
+// (tests/api/consent-sql.test.ts checks both agree on every seeded consent).
+
+/** The state of consent row `alias` at a moment: withdrawn beats expired beats active. */
+export function consentStateSql(alias: string, at: Date): RawBuilder<ConsentState> {
+  const c = sql.table(alias);
+  return sql<ConsentState>`(case when ${c}.withdrawn_at is not null and ${c}.withdrawn_at <= ${at} then 'withdrawn' when ${c}.expires_at is not null and ${c}.expires_at <= ${at} then 'expired' else 'active' end)`;
+}
+
+/** Whether consent row `alias` covers a moment: signed by then, and neither withdrawn nor expired. */
+export function consentCoversSql(alias: string, at: Date): RawBuilder<boolean> {
+  const c = sql.table(alias);
+  return sql<boolean>`(${c}.signed_at <= ${at} and ${consentStateSql(alias, at)} = 'active')`;
+}
+
+// ---- summaries
+
+export function consentSummaryQuery(db: Db) {
+  return db
+    .selectFrom('consents as c')
+    .innerJoin('consent_template_versions as v', 'v.id', 'c.template_version_id')
+    .innerJoin('performers as p', 'p.id', 'c.performer_id')
+    .select([
+      'c.id',
+      'c.performer_id',
+      sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
+      'c.production_id',
+      'c.kind',
+      'v.title',
+      'v.version as template_version',
+      'c.signed_at',
+      'c.expires_at',
+      'c.withdrawn_at',
+      'c.signer_name',
+      'c.signing_method',
+      'c.version',
+    ]);
+}
+export type ConsentSummaryRow = Awaited<ReturnType<ReturnType<typeof consentSummaryQuery>['executeTakeFirstOrThrow']>>;
+
+export function toConsentSummary(r: ConsentSummaryRow, now = new Date()): ConsentSummary {
+  const signedAt = new Date(r.signed_at);
+  const expiresAt = r.expires_at ? new Date(r.expires_at) : null;
+  const withdrawnAt = r.withdrawn_at ? new Date(r.withdrawn_at) : null;
+  return {
+    id: r.id,
+    performerId: r.performer_id,
+    performerName: r.performer_name,
+    productionId: r.production_id,
+    kind: r.kind,
+    title: r.title,
+    templateVersion: r.template_version,
+    signedAt: signedAt.toISOString(),
+    expiresAt: expiresAt?.toISOString() ?? null,
+    state: consentState({ signedAt, expiresAt, withdrawnAt }, now),
+    signerName: r.signer_name,
+    signingMethod: r.signing_method,
+    withdrawnAt: withdrawnAt?.toISOString() ?? null,
+    version: r.version,
+  };
+}
+
+/** A performer's signed consents, newest first. */
+export async function listConsentSummaries(db: Db, performerId: string, now = new Date()): Promise<ConsentSummary[]> {
+  const rows = await consentSummaryQuery(db).where('c.performer_id', '=', performerId).orderBy('c.signed_at', 'desc').orderBy('c.id').execute();
+  return rows.map((r) => toConsentSummary(r, now));
+}
+
+export async function findConsentSummary(db: Db, id: string): Promise<ConsentSummary | undefined> {
+  const r = await consentSummaryQuery(db).where('c.id', '=', id).executeTakeFirst();
+  return r ? toConsentSummary(r) : undefined;
+}
+
+export async function findConsentSummaryByPdfHash(db: Db, sha256: string): Promise<ConsentSummary | undefined> {
+  const r = await consentSummaryQuery(db).where('c.pdf_sha256', '=', sha256).executeTakeFirst();
+  return r ? toConsentSummary(r) : undefined;
+}
+
+/** One consent with what its detail view needs beyond the summary. */
+export async function findConsentDetailRow(db: Db, id: string) {
+  const r = await consentSummaryQuery(db)
+    .select(['v.body', 'c.withdrawal_reason', 'c.withdrawn_via', 'c.pdf_sha256', 'c.content_sha256', 'c.pdf_file_id'])
+    .where('c.id', '=', id)
+    .executeTakeFirst();
+  if (!r) return undefined;
+  return {
+    summary: toConsentSummary(r),
+    body: r.body,
+    withdrawalReason: r.withdrawal_reason,
+    withdrawnVia: r.withdrawn_via,
+    pdfSha256: r.pdf_sha256,
+    contentSha256: r.content_sha256,
+    pdfFileId: r.pdf_file_id,
+  };
+}
+
+export async function listConsentAnswers(db: Db, consentId: string): Promise<{ questionId: string; label: string; medical: boolean; answer: boolean | string | null }[]> {
+  const rows = await db.selectFrom('consent_answers').select(['question_id', 'question_label', 'medical', 'answer']).where('consent_id', '=', consentId).orderBy('id').execute();
+  return rows.map((a) => ({ questionId: a.question_id, label: a.question_label, medical: a.medical, answer: typeof a.answer === 'boolean' || typeof a.answer === 'string' ? a.answer : null }));
+}
+
+/** Consents of these performers in the shape the session gates read: one query for any number of performers. */
+export async function listConsentsForGate(db: Db, performerIds: readonly string[]): Promise<ConsentForGate[]> {
+  if (performerIds.length === 0) return [];
+  const rows = await db.selectFrom('consents').select(['performer_id', 'production_id', 'kind', 'signed_at', 'expires_at', 'withdrawn_at']).where('performer_id', 'in', [...performerIds]).execute();
+  return rows.map((c) => ({
+    performerId: c.performer_id,
+    productionId: c.production_id,
+    kind: c.kind,
+    signedAt: new Date(c.signed_at),
+    expiresAt: c.expires_at ? new Date(c.expires_at) : null,
+    withdrawnAt: c.withdrawn_at ? new Date(c.withdrawn_at) : null,
+  }));
+}
+
+/** Active consents of a production's performers (given to it or to none) whose expiry falls in the window. */
+export async function countExpiringForProduction(db: Db, productionId: string, now: Date, until: Date): Promise<number> {
+  const row = await db
+    .selectFrom('consents as c')
+    .innerJoin('engagements as e', (j) => j.onRef('e.performer_id', '=', 'c.performer_id').on('e.production_id', '=', productionId))
+    .select((eb) => eb.fn.count<string>('c.id').distinct().as('n'))
+    .where((eb) => eb.or([eb('c.production_id', '=', productionId), eb('c.production_id', 'is', null)]))
+    .where(consentCoversSql('c', now))
+    .where('c.expires_at', '<=', until)
+    .executeTakeFirstOrThrow();
+  return Number(row.n);
+}
+
+/** How many of a performer's consents are in force now. */
+export async function countActiveConsents(db: Db, performerId: string, now: Date): Promise<number> {
+  const row = await db.selectFrom('consents as c').select((eb) => eb.fn.countAll<string>().as('n')).where('c.performer_id', '=', performerId).where(consentCoversSql('c', now)).executeTakeFirstOrThrow();
+  return Number(row.n);
+}
+
+// ---- withdrawal
+
+export async function lockConsentForWithdrawal(db: Db, id: string) {
+  const c = await db
+    .selectFrom('consents')
+    .select(['id', 'performer_id', 'production_id', 'kind', 'version', 'withdrawn_at', 'signed_at', 'expires_at'])
+    .where('id', '=', id)
+    .forUpdate()
+    .executeTakeFirst();
+  if (!c) return undefined;
+  return {
+    id: c.id,
+    performerId: c.performer_id,
+    productionId: c.production_id,
+    kind: c.kind as ConsentKind,
+    version: c.version,
+    signedAt: new Date(c.signed_at),
+    expiresAt: c.expires_at ? new Date(c.expires_at) : null,
+    withdrawnAt: c.withdrawn_at ? new Date(c.withdrawn_at) : null,
+  };
+}
+
+export async function markConsentWithdrawn(db: Db, id: string, v: { by: string | null; via: 'performer' | 'lead' | 'link'; reason: string | null }): Promise<void> {
+  await db
+    .updateTable('consents')
+    .set({ withdrawn_at: new Date(), withdrawn_by_user_id: v.by, withdrawn_via: v.via, withdrawal_reason: v.reason, version: sql`version + 1` })
+    .where('id', '=', id)
+    .execute();
+}
+
+export async function findConsentPerformer(db: Db, id: string): Promise<string | undefined> {
+  return (await db.selectFrom('consents').select('performer_id').where('id', '=', id).executeTakeFirst())?.performer_id;
+}
+
+// ---- signing writes
+
+export async function findConsentByIdempotencyKey(db: Db, key: string): Promise<{ id: string; signedAt: Date; requestId: string | null } | undefined> {
+  const r = await db.selectFrom('consents').select(['id', 'signed_at', 'request_id']).where('idempotency_key', '=', key).executeTakeFirst();
+  return r ? { id: r.id, signedAt: new Date(r.signed_at), requestId: r.request_id } : undefined;
+}
+
+export async function insertConsent(
+  db: Db,
+  v: {
+    id: string;
+    performerId: string;
+    productionId: string | null;
+    templateVersionId: string;
+    kind: ConsentKind;
+    requestId: string | null;
+    idempotencyKey: string;
+    signerName: string;
+    signedAt: Date;
+    expiresAt: Date | null;
+    signingMethod: 'tablet' | 'link';
+    ip: string | null;
+    userAgent: string | null;
+    staffUserId: string | null;
+    signatureFileId: string;
+    pdfFileId: string;
+    pdfSha256: string;
+    contentSha256: string;
+  },
+  answers: readonly { questionId: string; label: string; medical: boolean; answer: boolean | string | null }[],
+): Promise<void> {
+  await db
+    .insertInto('consents')
+    .values({
+      id: v.id,
+      performer_id: v.performerId,
+      production_id: v.productionId,
+      template_version_id: v.templateVersionId,
+      kind: v.kind,
+      request_id: v.requestId,
+      idempotency_key: v.idempotencyKey,
+      signer_name: v.signerName,
+      signed_at: v.signedAt,
+      expires_at: v.expiresAt,
+      signing_method: v.signingMethod,
+      ip: v.ip,
+      user_agent: v.userAgent,
+      staff_user_id: v.staffUserId,
+      signature_file_id: v.signatureFileId,
+      pdf_file_id: v.pdfFileId,
+      pdf_sha256: v.pdfSha256,
+      content_sha256: v.contentSha256,
+    })
+    .execute();
+  if (answers.length) {
+    await db
+      .insertInto('consent_answers')
+      .values(answers.map((a) => ({ consent_id: v.id, question_id: a.questionId, question_label: a.label, medical: a.medical, answer: JSON.stringify(a.answer) })))
+      .execute();
+  }
+}

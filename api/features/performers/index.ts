@@ -1,0 +1,5 @@
+// What other features may use of performers (their records, engagements and identity).
+export { performerAccess, productionsWhere } from './access.ts';
+export { findConfirmedEmail, lockPerformerByConfirmedEmail } from './identity-repo.ts';
+export { linkConfirmedPerformerAtSignIn } from './identity-service.ts';
+export { countEngagedNow, findPerformerScope, isEngagedOn, type PerformerScope } from './repo.ts';

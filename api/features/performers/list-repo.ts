@@ -1,0 +1,155 @@
+import { type RawBuilder, sql } from 'kysely';
+import { CONSENT_KINDS, type ConsentKind } from '#shared/domain/consent.ts';
+import type { PerformerListItem, PerformerListQuery } from '#shared/schemas/performers.ts';
+import type { Db } from '../../db/index.ts';
+import { consentCoversSql, consentStateSql } from '../consents/index.ts';
+import { type EngagementRecord, PERFORMER_COLUMNS, type PerformerFields, listEngagements, thumbnailUrl, toRecord } from './repo.ts';
+
+// The registry's list, search and export queries.
+
+// ---- SQL pieces shared by the list, its count and the export
+
+/** The expression the trigram index is built on (performers_name_trgm_idx); keep it identical so the index is used. */
+const SEARCH_NAME = sql<string>`(coalesce(performers.preferred_name, '') || ' ' || performers.legal_name)`;
+const SORT_NAME = sql<string>`lower(coalesce(performers.preferred_name, performers.legal_name))`;
+/** Fuzzy-match cut-off for word_similarity; the `<%` operator reads the same value from the session setting. */
+export const WORD_SIMILARITY_THRESHOLD = 0.3;
+
+
+const KIND_LIST = sql.join(CONSENT_KINDS.map((k) => sql.lit(k)));
+/** A consent counts for the productions in view: the one it was given to, or none named. */
+function consentFor(productionIds: readonly string[]) {
+  return sql`(c.production_id is null or c.production_id in (${sql.join([...productionIds])}))`;
+}
+// What "active", "expiring" and "withdrawn" mean is the consents feature's one definition (consentState).
+const active = (now: Date) => consentCoversSql('c', now);
+const withdrawn = (now: Date) => sql`${consentStateSql('c', now)} = 'withdrawn'`;
+const expiringWithin30 = (now: Date) => sql`(c.expires_at is not null and c.expires_at <= ${new Date(now.getTime() + 30 * 86_400_000)})`;
+const activeKindCount = (productionIds: readonly string[], now: Date) =>
+  sql<number>`(select count(distinct c.kind) from consents c where c.performer_id = performers.id and ${consentFor(productionIds)} and c.kind in (${KIND_LIST}) and ${active(now)})`;
+
+function likePattern(q: string): string {
+  return `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+}
+
+type ListFilter = Pick<PerformerListQuery, 'q' | 'consent'> & { productionIds: readonly string[]; now: Date };
+
+/** The WHERE of the list, its count and the export: in scope, matching the search, passing the consent filter. */
+function listConditions(f: ListFilter): RawBuilder<boolean> {
+  const conds: RawBuilder<unknown>[] = [
+    sql`exists (select 1 from engagements e where e.performer_id = performers.id and e.production_id in (${sql.join([...f.productionIds])}))`,
+  ];
+  if (f.q) {
+    // `<%` lets PostgreSQL use the GIN trigram index; word_similarity() states the cut-off exactly.
+    conds.push(sql`((${f.q} <% ${SEARCH_NAME} and word_similarity(${f.q}, ${SEARCH_NAME}) > ${WORD_SIMILARITY_THRESHOLD}) or ${SEARCH_NAME} ilike ${likePattern(f.q)})`);
+  }
+  switch (f.consent) {
+    case 'complete':
+      conds.push(sql`${activeKindCount(f.productionIds, f.now)} = ${CONSENT_KINDS.length}`);
+      break;
+    case 'incomplete':
+      conds.push(sql`${activeKindCount(f.productionIds, f.now)} < ${CONSENT_KINDS.length}`);
+      break;
+    case 'expiring':
+      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${consentFor(f.productionIds)} and ${active(f.now)} and ${expiringWithin30(f.now)})`);
+      break;
+    case 'withdrawn':
+      conds.push(sql`exists (select 1 from consents c where c.performer_id = performers.id and ${consentFor(f.productionIds)} and ${withdrawn(f.now)})`);
+      break;
+    case 'any':
+      break;
+  }
+  return sql<boolean>`${sql.join(conds, sql` and `)}`;
+}
+
+function orderings(q: Pick<PerformerListQuery, 'q' | 'sort' | 'dir'>): RawBuilder<unknown> {
+  const dir = sql.raw(q.dir === 'desc' ? 'desc' : 'asc');
+  const key = q.sort === 'createdAt' ? sql`performers.created_at ${dir}` : sql`${SORT_NAME} ${dir}`;
+  const parts = [key, sql`performers.id ${dir}`];
+  if (q.q) parts.unshift(sql`word_similarity(${q.q}, ${SEARCH_NAME}) desc`);
+  return sql.join(parts);
+}
+
+/**
+ * Runs a search in a transaction whose `pg_trgm.word_similarity_threshold` matches ours, so the
+ * index-backed `<%` operator and the word_similarity() cut-off agree.
+ */
+async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
+  if (!searching) return fn(db);
+  return db.transaction().execute(async (trx) => {
+    await sql`select set_config('pg_trgm.word_similarity_threshold', ${String(WORD_SIMILARITY_THRESHOLD)}, true)`.execute(trx);
+    return fn(trx);
+  });
+}
+
+function sortKinds(kinds: readonly string[]): ConsentKind[] {
+  return CONSENT_KINDS.filter((k) => kinds.includes(k));
+}
+
+// ---- list and export
+
+/** One page of the registry, limited to performers engaged on `productionIds`. */
+export async function listPerformers(
+  db: Db,
+  q: PerformerListQuery,
+  scope: { productionIds: readonly string[]; showsProduction: (productionId: string) => boolean },
+): Promise<{ items: PerformerListItem[]; total: number }> {
+  const now = new Date();
+  const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds, now });
+  const { rows, total } = await withSearchSettings(db, !!q.q, async (trx) => {
+    const rows = await trx
+      .selectFrom('performers')
+      .select([
+        'performers.id',
+        'performers.legal_name',
+        'performers.preferred_name',
+        'performers.pronouns',
+        'performers.portrait_thumb_file_id',
+        sql<string[]>`array(select distinct c.kind from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${active(now)})`.as('active_kinds'),
+        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${active(now)} and ${expiringWithin30(now)})`.as('expiring_soon'),
+        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${withdrawn(now)})`.as('withdrawn'),
+      ])
+      .where(where)
+      .orderBy(orderings(q))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute();
+    const count = await trx.selectFrom('performers').select(sql<number>`count(*)::int`.as('n')).where(where).executeTakeFirstOrThrow();
+    return { rows, total: count.n };
+  });
+  const engagements = await listEngagements(db, rows.map((r) => r.id));
+  return {
+    total,
+    items: rows.map((r) => ({
+      id: r.id,
+      legalName: r.legal_name,
+      preferredName: r.preferred_name,
+      pronouns: r.pronouns,
+      engagements: (engagements.get(r.id) ?? []).filter((e) => scope.showsProduction(e.productionId)),
+      activeKinds: sortKinds(r.active_kinds),
+      expiringSoon: r.expiring_soon,
+      withdrawn: r.withdrawn,
+      thumbnailUrl: thumbnailUrl(r.id, r.portrait_thumb_file_id),
+    })),
+  };
+}
+
+export interface ExportRow extends PerformerFields {
+  id: string;
+  engagements: EngagementRecord[];
+}
+
+/** Every performer the list would show with these filters (no paging), in the list's order. */
+export async function listPerformersForExport(
+  db: Db,
+  q: Omit<PerformerListQuery, 'page' | 'pageSize'>,
+  scope: { productionIds: readonly string[] },
+): Promise<ExportRow[]> {
+  const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds, now: new Date() });
+  const rows = await withSearchSettings(db, !!q.q, (trx) =>
+    trx.selectFrom('performers').select(PERFORMER_COLUMNS).where(where).orderBy(orderings(q)).execute(),
+  );
+  const engagements = await listEngagements(db, rows.map((r) => r.id));
+  return rows.map((r) => ({ ...toRecord(r), engagements: engagements.get(r.id) ?? [] }));
+}
+

@@ -1,0 +1,2 @@
+// What other features may use of productions, memberships and lead appointments.
+export { addPerformerMemberships, findCurrentLeads, findHeads, countProductionsWithoutLead, findProductionName, productionNames, removePerformerMemberships } from './repo.ts';
