@@ -1,4 +1,5 @@
 import type { Request } from 'express';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import type { Actor } from '#shared/policy.ts';
 import { HomeSchema, SelectSeatInputSchema, SessionSchema } from '#shared/schemas/session.ts';
 import { chooseSeat, seatsFor } from '#shared/domain/seats.ts';
@@ -8,16 +9,21 @@ import { defineRoute } from '../../http/route.ts';
 import { homeTasks } from './home.ts';
 
 async function buildSession(ctx: AppContext, actor: Actor, req: Request) {
+  const ids = [...new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf])];
+  // One statement: the user and the names of their productions.
   const user = await ctx.db
-    .selectFrom('users')
-    .select(['id', 'email', 'display_name', 'is_admin'])
-    .where('id', '=', actor.userId)
+    .selectFrom('users as u')
+    .select((eb) => [
+      'u.id',
+      'u.email',
+      'u.display_name',
+      'u.is_admin',
+      jsonArrayFrom(eb.selectFrom('productions as p').select(['p.id', 'p.name']).where('p.id', '=', eb.fn.any(eb.val(ids)))).as('productions'),
+    ])
+    .where('u.id', '=', actor.userId)
     .executeTakeFirst();
   if (!user) throw notFound('Your user record');
-  const ids = [...new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf])];
-  const productions = ids.length
-    ? await ctx.db.selectFrom('productions').select(['id', 'name']).where('id', 'in', ids).execute()
-    : [];
+  const productions = user.productions;
   const seats = seatsFor(actor, new Map(productions.map((p) => [p.id, p.name])));
   const current = chooseSeat(seats, req.session.current);
   return {
