@@ -25,6 +25,8 @@ const USERS = Number(process.env.BENCH_USERS ?? 5000);
 const PERFORMERS = Number(process.env.BENCH_PERFORMERS ?? 3000);
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 6);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
+/** A comma-separated list of words; only routes whose label contains one are measured (the baseline always is). */
+const ONLY = (process.env.BENCH_ONLY ?? '').split(',').map((w) => w.trim().toLowerCase()).filter(Boolean);
 
 interface Row {
   label: string;
@@ -36,7 +38,8 @@ interface Row {
 }
 
 /** autocannon in a worker thread, so the load generator does not share the server's event loop. */
-async function measure(label: string, url: string, cookie?: string): Promise<Row> {
+async function measure(label: string, url: string, cookie?: string): Promise<Row | null> {
+  if (ONLY.length && !label.includes('baseline') && !ONLY.some((w) => label.toLowerCase().includes(w))) return null;
   const headers = cookie ? { cookie } : {};
   await autocannon({ url, connections: CONNECTIONS, duration: 1, headers, workers: 1 });
   const r = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers, workers: 1 });
@@ -131,8 +134,8 @@ try {
   const juno = await handle.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow();
 
   console.log(`\nautocannon, ${CONNECTIONS} connections, ${SECONDS} s per route after a 1 s warm-up; a department head's session unless named:\n`);
-  const baseline = await measure('bare Express 5 + pg, GET /performers/:id (baseline)', `${bare.base}/performers/${juno.id}`);
-  const rows: Row[] = [baseline];
+  const baseline = (await measure('bare Express 5 + pg, GET /performers/:id (baseline)', `${bare.base}/performers/${juno.id}`))!;
+  const rows: (Row | null)[] = [baseline];
   const p = plinth.base;
   rows.push(await measure('GET /api/health', `${p}/api/health`, head));
   rows.push(await measure('GET /api/session', `${p}/api/session`, head));
@@ -144,7 +147,7 @@ try {
   rows.push(await measure(`GET /api/users page 1 of ${USERS + 8} (admin)`, `${p}/api/users?pageSize=25`, admin));
   rows.push(await measure('GET /api/users?q=person 42 (admin)', `${p}/api/users?q=person%2042&pageSize=25`, admin));
   rows.push(await measure('GET /api/consent-templates (lead)', `${p}/api/consent-templates`, lead));
-  printTable(rows, baseline);
+  printTable(rows.filter((r): r is Row => r !== null), baseline);
 
   for (const s of [plinth.server, bare.server]) {
     s.closeAllConnections();

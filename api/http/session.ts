@@ -73,7 +73,8 @@ export class SessionStore extends PgStore {
   }
 
   override get(sid: string, fn: (err: unknown, session?: SessionData | null) => void): void {
-    this.#pool.query(READ_SESSION, [sid, Math.ceil(Date.now() / 1000)]).then(
+    // Named, so each connection plans it once.
+    this.#pool.query({ name: 'plinth_read_session', text: READ_SESSION, values: [sid, Math.ceil(Date.now() / 1000)] }).then(
       ({ rows }) => {
         const row = rows[0] as { sess: SessionData & { access?: StampedActor }; expire_ms: string; access_version: string | null; now: Date } | undefined;
         if (!row) return fn(null, null);
