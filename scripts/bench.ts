@@ -52,7 +52,7 @@ function listen(app: express.Express): Promise<{ server: Server; base: string }>
   });
 }
 
-function printTable(rows: Row[], baseline: Row): void {
+function printTable(rows: Row[], baselineRps: number): void {
   const head = ['route', 'req/s', 'p50 ms', 'p97.5 ms', 'p99 ms', '× baseline'];
   const body = rows.map((r) => [
     r.label + (r.failed ? `  (${r.failed} failed)` : ''),
@@ -60,7 +60,7 @@ function printTable(rows: Row[], baseline: Row): void {
     r.p50.toFixed(1),
     r.p975.toFixed(1),
     r.p99.toFixed(1),
-    (r.rps / baseline.rps).toFixed(2),
+    (r.rps / baselineRps).toFixed(2),
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i]!.length)));
   const line = (cells: string[]) => `| ${cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join(' | ')} |`;
@@ -134,8 +134,9 @@ try {
   const juno = await handle.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow();
 
   console.log(`\nautocannon, ${CONNECTIONS} connections, ${SECONDS} s per route after a 1 s warm-up; a department head's session unless named:\n`);
-  const baseline = (await measure('bare Express 5 + pg, GET /performers/:id (baseline)', `${bare.base}/performers/${juno.id}`))!;
-  const rows: (Row | null)[] = [baseline];
+  const bareUrl = `${bare.base}/performers/${juno.id}`;
+  const before = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, first)', bareUrl))!;
+  const rows: (Row | null)[] = [before];
   const p = plinth.base;
   rows.push(await measure('GET /api/health', `${p}/api/health`, head));
   rows.push(await measure('GET /api/session', `${p}/api/session`, head));
@@ -147,7 +148,10 @@ try {
   rows.push(await measure(`GET /api/users page 1 of ${USERS + 8} (admin)`, `${p}/api/users?pageSize=25`, admin));
   rows.push(await measure('GET /api/users?q=person 42 (admin)', `${p}/api/users?q=person%2042&pageSize=25`, admin));
   rows.push(await measure('GET /api/consent-templates (lead)', `${p}/api/consent-templates`, lead));
-  printTable(rows.filter((r): r is Row => r !== null), baseline);
+  // Measured again last: the ratio is to the mean of both, so a machine that slows down part-way shows up as two different baselines.
+  const after = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, last)', bareUrl))!;
+  rows.push(after);
+  printTable(rows.filter((r): r is Row => r !== null), (before.rps + after.rps) / 2);
 
   for (const s of [plinth.server, bare.server]) {
     s.closeAllConnections();

@@ -80,10 +80,9 @@ export class SessionStore extends PgStore {
         if (!row) return fn(null, null);
         const { access, ...data } = row.sess;
         const current =
-          access !== undefined &&
           row.access_version !== null &&
-          access.accessVersion === row.access_version &&
-          access.actor.userId === data.userId &&
+          access?.accessVersion === row.access_version &&
+          access.actor?.userId === data.userId &&
           (access.validUntil === null || Date.parse(access.validUntil) > row.now.getTime());
         keep(data, { access: current ? access : null, storedExpireMs: Number(row.expire_ms) });
         fn(null, data);
