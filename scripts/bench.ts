@@ -1,9 +1,17 @@
 /**
- * `npm run bench`: measures the API on a throwaway database with a studio-sized data set and
- * prints figures. Nothing here asserts a time; tests stay deterministic.
+ * `npm run bench`: measures the API with autocannon on a throwaway database with a studio-sized
+ * data set, beside a bare Express + pg primary-key lookup on the same database, and prints figures.
+ * Nothing here asserts a time; tests stay deterministic.
  */
 import type { AddressInfo } from 'node:net';
+import type { Server } from 'node:http';
 import { createHmac, randomBytes } from 'node:crypto';
+import { mkdtemp } from 'node:fs/promises';
+import { rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import autocannon from 'autocannon';
+import express from 'express';
+import pg from 'pg';
 import { createApp } from '../api/app.ts';
 import { createOidcClient } from '../api/auth/oidc-client.ts';
 import { parseConfig } from '../api/config.ts';
@@ -14,35 +22,51 @@ import { SESSION_COOKIE } from '../api/http/session.ts';
 import { createThrowawayCluster, ensureDatabase } from './pg.ts';
 
 const USERS = Number(process.env.BENCH_USERS ?? 5000);
-const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 400);
-const CONCURRENCY = Number(process.env.BENCH_CONCURRENCY ?? 8);
 const PERFORMERS = Number(process.env.BENCH_PERFORMERS ?? 3000);
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 6);
+const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
+/** A comma-separated list of words; only routes whose label contains one are measured (the baseline always is). */
+const ONLY = (process.env.BENCH_ONLY ?? '').split(',').map((w) => w.trim().toLowerCase()).filter(Boolean);
 
-function percentile(sorted: number[], p: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!;
+interface Row {
+  label: string;
+  rps: number;
+  p50: number;
+  p975: number;
+  p99: number;
+  failed: number;
 }
 
-async function measure(label: string, url: string, cookie: string): Promise<void> {
-  const times: number[] = [];
-  let next = 0;
-  const started = performance.now();
-  await Promise.all(
-    Array.from({ length: CONCURRENCY }, async () => {
-      while (next < REQUESTS) {
-        next++;
-        const t0 = performance.now();
-        const res = await fetch(url, { headers: { cookie } });
-        await res.arrayBuffer();
-        if (!res.ok) throw new Error(`${label}: HTTP ${res.status}`);
-        times.push(performance.now() - t0);
-      }
-    }),
-  );
-  const wall = (performance.now() - started) / 1000;
-  times.sort((a, b) => a - b);
-  console.log(
-    `${label.padEnd(44)} n=${times.length}  p50=${percentile(times, 50).toFixed(1)} ms  p95=${percentile(times, 95).toFixed(1)} ms  max=${times.at(-1)!.toFixed(1)} ms  ${(times.length / wall).toFixed(0)} req/s`,
-  );
+/** autocannon in a worker thread, so the load generator does not share the server's event loop. */
+async function measure(label: string, url: string, cookie?: string): Promise<Row | null> {
+  if (ONLY.length && !label.includes('baseline') && !ONLY.some((w) => label.toLowerCase().includes(w))) return null;
+  const headers = cookie ? { cookie } : {};
+  await autocannon({ url, connections: CONNECTIONS, duration: 1, headers, workers: 1 });
+  const r = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers, workers: 1 });
+  return { label, rps: r.requests.average, p50: r.latency.p50, p975: r.latency.p97_5, p99: r.latency.p99, failed: r.non2xx + r.errors + r.timeouts };
+}
+
+function listen(app: express.Express): Promise<{ server: Server; base: string }> {
+  return new Promise((resolve) => {
+    const server = app.listen(0, '127.0.0.1', () => resolve({ server, base: `http://127.0.0.1:${(server.address() as AddressInfo).port}` }));
+  });
+}
+
+function printTable(rows: Row[], baselineRps: number): void {
+  const head = ['route', 'req/s', 'p50 ms', 'p97.5 ms', 'p99 ms', '× baseline'];
+  const body = rows.map((r) => [
+    r.label + (r.failed ? `  (${r.failed} failed)` : ''),
+    r.rps.toFixed(0),
+    r.p50.toFixed(1),
+    r.p975.toFixed(1),
+    r.p99.toFixed(1),
+    (r.rps / baselineRps).toFixed(2),
+  ]);
+  const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i]!.length)));
+  const line = (cells: string[]) => `| ${cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join(' | ')} |`;
+  console.log(line(head));
+  console.log(`|${widths.map((w, i) => (i === 0 ? '-'.repeat(w + 2) : `${'-'.repeat(w + 1)}:`)).join('|')}|`);
+  for (const b of body) console.log(line(b));
 }
 
 const { cluster, dispose } = await createThrowawayCluster();
@@ -50,14 +74,11 @@ try {
   await ensureDatabase(cluster, 'bench');
   const handle = createDb(cluster.url('bench'), { log: () => {} });
   await migrateToLatest(handle.db);
-  const { mkdtemp } = await import('node:fs/promises');
-  const { rmSync } = await import('node:fs');
-  const { tmpdir } = await import('node:os');
   const storage = await mkdtemp(`${tmpdir()}/plinth-bench-`);
+  process.on('exit', () => rmSync(storage, { recursive: true, force: true }));
   const s0 = performance.now();
   await seedDemo(handle.db, { storageDir: storage });
   console.log(`Demo scenario (11 signed consents with PDFs) seeded in ${((performance.now() - s0) / 1000).toFixed(2)} s`);
-  process.on('exit', () => rmSync(storage, { recursive: true, force: true }));
   const t0 = performance.now();
   for (let i = 0; i < USERS; i += 1000) {
     const rows = Array.from({ length: Math.min(1000, USERS - i) }, (_, k) => ({ email: `bench${i + k}@example.test`, display_name: `Bench Person ${i + k}` }));
@@ -75,6 +96,9 @@ try {
     await handle.db.insertInto('engagements').values(rows.map((r) => ({ performer_id: r.id, production_id: lantern.id }))).execute();
   }
   console.log(`Loaded ${PERFORMERS} extra performers on The Lantern Keeper in ${((performance.now() - t1) / 1000).toFixed(2)} s`);
+  // Settle the freshly loaded database first, so autovacuum and a checkpoint do not land inside the first measurement.
+  await handle.pool.query('vacuum analyze');
+  await handle.pool.query('checkpoint');
 
   const secret = 'bench-session-secret-0123456789abcdef-xyz';
   const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench'), STORAGE_DIR: storage });
@@ -82,35 +106,60 @@ try {
     ctx: { config, db: handle.db, mailer: { send: async () => ({ messageId: 'bench' }), close() {} }, oidc: createOidcClient(config.oidc), log: () => {} },
     pool: handle.pool,
   });
-  const server = app.listen(0, '127.0.0.1');
-  await new Promise((r) => server.once('listening', r));
-  const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const plinth = await listen(app);
+
+  // The floor to compare with: Express 5 and one pg primary-key read, nothing else.
+  const barePool = new pg.Pool({ connectionString: cluster.url('bench'), max: 10 });
+  const bareApp = express();
+  bareApp.get('/performers/:id', async (req, res, next) => {
+    try {
+      const { rows } = await barePool.query('select id, legal_name, preferred_name, version from performers where id = $1', [req.params.id]);
+      if (!rows[0]) res.status(404).end();
+      else res.json(rows[0]);
+    } catch (err) {
+      next(err);
+    }
+  });
+  const bare = await listen(bareApp);
 
   async function cookieFor(email: string): Promise<string> {
     const user = await handle.db.selectFrom('users').select('id').where('email', '=', email).executeTakeFirstOrThrow();
     const sid = randomBytes(24).toString('base64url');
-    const expires = new Date(Date.now() + 3600_000);
-    await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie: { expires: expires.toISOString(), httpOnly: true, path: '/' }, userId: user.id }), expire: expires }).execute();
+    const expires = new Date(Date.now() + config.sessionTtlMs);
+    const cookie = { originalMaxAge: config.sessionTtlMs, expires: expires.toISOString(), httpOnly: true, path: '/', sameSite: 'lax' };
+    await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie, userId: user.id }), expire: expires }).execute();
     return `${SESSION_COOKIE}=${encodeURIComponent(`s:${sid}.${createHmac('sha256', secret).update(sid).digest('base64').replace(/=+$/, '')}`)}`;
   }
-  const cookie = await cookieFor('admin@plinth.test');
+  const admin = await cookieFor('admin@plinth.test');
   const head = await cookieFor('head@plinth.test');
   const lead = await cookieFor('lead@plinth.test');
+  const juno = await handle.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow();
 
-  console.log(`\n${REQUESTS} requests each, ${CONCURRENCY} at a time, on ${base}:`);
-  await measure('GET /api/health', `${base}/api/health`, cookie);
-  await measure('GET /api/session', `${base}/api/session`, cookie);
-  await measure('GET /api/home (admin)', `${base}/api/home`, cookie);
-  await measure(`GET /api/users page 1 of ${USERS + 7}`, `${base}/api/users?pageSize=25`, cookie);
-  await measure('GET /api/users search "person 42"', `${base}/api/users?q=person%2042&pageSize=25`, cookie);
-  await measure('GET /api/users sorted by e-mail, page 150', `${base}/api/users?sort=email&page=150&pageSize=25`, cookie);
-  await measure(`GET /api/performers page 1 of ${PERFORMERS + 6} (head)`, `${base}/api/performers?pageSize=25`, head);
-  await measure('GET /api/performers fuzzy "castelane" (head)', `${base}/api/performers?q=castelane`, head);
-  await measure('GET /api/performers consent=incomplete (head)', `${base}/api/performers?consent=incomplete&pageSize=25`, head);
-  await measure('GET /api/consent-templates (lead)', `${base}/api/consent-templates`, lead);
+  console.log(`\nautocannon, ${CONNECTIONS} connections, ${SECONDS} s per route after a 1 s warm-up; a department head's session unless named:\n`);
+  const bareUrl = `${bare.base}/performers/${juno.id}`;
+  const before = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, first)', bareUrl))!;
+  const rows: (Row | null)[] = [before];
+  const p = plinth.base;
+  rows.push(await measure('GET /api/health', `${p}/api/health`, head));
+  rows.push(await measure('GET /api/session', `${p}/api/session`, head));
+  rows.push(await measure('GET /api/performers/:id', `${p}/api/performers/${juno.id}`, head));
+  rows.push(await measure(`GET /api/performers page 1 of ${PERFORMERS + 6}`, `${p}/api/performers?pageSize=25`, head));
+  rows.push(await measure('GET /api/performers?q=castelane', `${p}/api/performers?q=castelane`, head));
+  rows.push(await measure('GET /api/performers consent=incomplete', `${p}/api/performers?consent=incomplete&pageSize=25`, head));
+  rows.push(await measure('GET /api/home (admin)', `${p}/api/home`, admin));
+  rows.push(await measure(`GET /api/users page 1 of ${USERS + 8} (admin)`, `${p}/api/users?pageSize=25`, admin));
+  rows.push(await measure('GET /api/users?q=person 42 (admin)', `${p}/api/users?q=person%2042&pageSize=25`, admin));
+  rows.push(await measure('GET /api/consent-templates (lead)', `${p}/api/consent-templates`, lead));
+  // Measured again last: the ratio is to the mean of both, so a machine that slows down part-way shows up as two different baselines.
+  const after = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, last)', bareUrl))!;
+  rows.push(after);
+  printTable(rows.filter((r): r is Row => r !== null), (before.rps + after.rps) / 2);
 
-  server.closeAllConnections();
-  server.close();
+  for (const s of [plinth.server, bare.server]) {
+    s.closeAllConnections();
+    s.close();
+  }
+  await barePool.end();
   await handle.close();
 } finally {
   await dispose();

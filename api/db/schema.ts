@@ -15,6 +15,8 @@ export interface UsersTable {
   created_at: Timestamp;
   updated_at: Timestamp;
   version: Generated<number>;
+  /** Changes (from a sequence, by triggers) whenever memberships, lead appointments, performer links or is_admin change. */
+  access_version: Generated<string>;
 }
 
 export interface ProductionsTable {

@@ -1,27 +1,56 @@
 import { sql } from 'kysely';
-import type { Actor } from '#shared/policy.ts';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
+import type { Actor, ProductionRole } from '#shared/policy.ts';
 import type { Db } from '../db/index.ts';
 
-/** Loads who is asking, fresh on each request, so a revoked role stops working at once. */
-export async function loadActor(db: Db, userId: string): Promise<Actor | null> {
-  const user = await db.selectFrom('users').select(['id', 'is_admin']).where('id', '=', userId).executeTakeFirst();
-  if (!user) return null;
-  const [memberships, leads, performers] = await Promise.all([
-    db.selectFrom('memberships').select(['production_id', 'role']).where('user_id', '=', userId).execute(),
-    db
-      .selectFrom('lead_appointments')
-      .select('production_id')
-      .where('user_id', '=', userId)
-      .where('starts_at', '<=', sql<Date>`now()`)
-      .where((eb) => eb.or([eb('ends_at', 'is', null), eb('ends_at', '>', sql<Date>`now()`)]))
-      .execute(),
-    db.selectFrom('performers').select('id').where('user_id', '=', userId).execute(),
-  ]);
+/**
+ * Who is asking, with what it was read at: the user's `access_version` (every change to their
+ * memberships, lead appointments, performer links or admin flag gives it a new value) and the
+ * next moment a lead appointment of theirs starts or ends, when it must be read again.
+ */
+export interface StampedActor {
+  actor: Actor;
+  accessVersion: string;
+  /** ISO time of the earliest future lead appointment start or end; null when there is none. */
+  validUntil: string | null;
+}
+
+/** Reads the actor in one statement, so the stamp and the roles come from the same snapshot. */
+export async function loadActor(db: Db, userId: string): Promise<StampedActor | null> {
+  const row = await db
+    .selectFrom('users as u')
+    .where('u.id', '=', userId)
+    .select((eb) => [
+      'u.id',
+      'u.is_admin',
+      'u.access_version',
+      jsonArrayFrom(eb.selectFrom('memberships as m').select(['m.production_id', 'm.role']).whereRef('m.user_id', '=', 'u.id')).as('memberships'),
+      jsonArrayFrom(
+        eb
+          .selectFrom('lead_appointments as l')
+          .select('l.production_id')
+          .whereRef('l.user_id', '=', 'u.id')
+          .where('l.starts_at', '<=', sql<Date>`now()`)
+          .where((w) => w.or([w('l.ends_at', 'is', null), w('l.ends_at', '>', sql<Date>`now()`)])),
+      ).as('leads'),
+      jsonArrayFrom(eb.selectFrom('performers as p').select('p.id').whereRef('p.user_id', '=', 'u.id')).as('performers'),
+      sql<Date | null>`(
+        select min(b.at) from lead_appointments la
+        cross join lateral (values (la.starts_at), (la.ends_at)) as b(at)
+        where la.user_id = u.id and b.at > now()
+      )`.as('valid_until'),
+    ])
+    .executeTakeFirst();
+  if (!row) return null;
   return {
-    userId: user.id,
-    isAdmin: user.is_admin,
-    memberships: memberships.map((m) => ({ productionId: m.production_id, role: m.role })),
-    leadOf: leads.map((l) => l.production_id),
-    performerIds: performers.map((p) => p.id),
+    actor: {
+      userId: row.id,
+      isAdmin: row.is_admin,
+      memberships: row.memberships.map((m) => ({ productionId: m.production_id, role: m.role as ProductionRole })),
+      leadOf: row.leads.map((l) => l.production_id),
+      performerIds: row.performers.map((p) => p.id),
+    },
+    accessVersion: row.access_version,
+    validUntil: row.valid_until ? new Date(row.valid_until).toISOString() : null,
   };
 }

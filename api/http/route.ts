@@ -7,8 +7,8 @@ import type { AppContext } from '../context.ts';
 import { ApiError, invalid, unauthenticated } from './errors.ts';
 import { fieldErrorsFromIssues } from '#shared/errors.ts';
 import { controlCharFields } from '#shared/schemas/common.ts';
-import { loadActor } from './actor.ts';
 import { authorize } from './authorize.ts';
+import { sessionActor } from './session.ts';
 
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 
@@ -87,8 +87,7 @@ export function mountRoutes(router: Router, routes: readonly AnyRoute[], ctx: Ap
     const handlers: express.RequestHandler[] = [...(route.before ?? [])];
     handlers.push(async (req: Request, res: Response, next: NextFunction) => {
       try {
-        let actor: Actor | null = null;
-        if (req.session?.userId) actor = await loadActor(ctx.db, req.session.userId);
+        const actor = await sessionActor(req, ctx.db);
         if (route.auth === 'session' && !actor) {
           if (req.session?.tablet) {
             throw new ApiError('unauthenticated', 'This tablet is lent to a performer for signing. Staff must sign in again.', { tablet: req.session.tablet.phase });

@@ -5,15 +5,16 @@ import { chooseSeat, seatsFor } from '#shared/domain/seats.ts';
 import type { AppContext } from '../../context.ts';
 import { invalid, notFound } from '../../http/errors.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
-import { productionNames } from '../productions/index.ts';
-import { findUserSummary } from '../users/index.ts';
+import { findUserWithProductionNames } from '../users/index.ts';
 import { homeTasks } from './home.ts';
 
 async function buildSession(ctx: AppContext, actor: Actor, req: Request) {
-  const user = await findUserSummary(ctx.db, actor.userId);
-  if (!user) throw notFound('Your user record');
   const ids = [...new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf])];
-  const seats = seatsFor(actor, await productionNames(ctx.db, ids));
+  // One statement: the user and the names of their productions.
+  const found = await findUserWithProductionNames(ctx.db, actor.userId, ids);
+  if (!found) throw notFound('Your user record');
+  const { productions, ...user } = found;
+  const seats = seatsFor(actor, productions);
   const current = chooseSeat(seats, req.session.current);
   return {
     user,

@@ -1,2 +1,2 @@
 // What other features may use of users.
-export { countUsersWithoutAccess, findUserSummary, isStaffAddress, staffAddressesAmong } from './repo.ts';
+export { countUsersWithoutAccess, findUserSummary, findUserWithProductionNames, isStaffAddress, staffAddressesAmong } from './repo.ts';

@@ -1,4 +1,5 @@
 import { sql } from 'kysely';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import type { User, UserListQuery } from '#shared/schemas/admin.ts';
 import type { Db } from '../../db/index.ts';
 
@@ -142,3 +143,24 @@ export async function staffAddressesAmong(db: Db, emails: readonly string[]): Pr
   return new Set(rows.map((r) => r.email));
 }
 
+
+/** The signed-in user with the names of the productions they hold roles on, in one statement. */
+export async function findUserWithProductionNames(
+  db: Db,
+  userId: string,
+  productionIds: readonly string[],
+): Promise<{ id: string; email: string; displayName: string; isAdmin: boolean; productions: Map<string, string> } | undefined> {
+  const user = await db
+    .selectFrom('users as u')
+    .select((eb) => [
+      'u.id',
+      'u.email',
+      'u.display_name',
+      'u.is_admin',
+      jsonArrayFrom(eb.selectFrom('productions as p').select(['p.id', 'p.name']).where('p.id', '=', eb.fn.any(eb.val([...productionIds])))).as('productions'),
+    ])
+    .where('u.id', '=', userId)
+    .executeTakeFirst();
+  if (!user) return undefined;
+  return { id: user.id, email: user.email, displayName: user.display_name, isAdmin: user.is_admin, productions: new Map(user.productions.map((p) => [p.id, p.name])) };
+}

@@ -1,0 +1,304 @@
+import type { Request, Response } from 'express';
+import type pg from 'pg';
+import request from 'supertest';
+import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { loadActor } from '../../api/http/actor.ts';
+import { SessionStore } from '../../api/http/session.ts';
+import { allRoutes } from '../../api/routes.ts';
+import { createTestApp, type TestApp } from '../support/app.ts';
+
+let t: TestApp;
+let counter: ReturnType<typeof countStatements>;
+
+/** Counts every statement this pool's clients send to PostgreSQL while `during` runs. */
+function countStatements(pool: pg.Pool) {
+  const wrapped = new WeakSet<object>();
+  let log: string[] | null = null;
+  pool.on('acquire', (client) => {
+    if (wrapped.has(client)) return;
+    wrapped.add(client);
+    const query = client.query.bind(client) as (...args: unknown[]) => unknown;
+    client.query = ((...args: unknown[]) => {
+      log?.push(typeof args[0] === 'string' ? args[0] : String((args[0] as { text?: string }).text));
+      return query(...args);
+    }) as typeof client.query;
+  });
+  return {
+    async during(fn: () => Promise<unknown>): Promise<string[]> {
+      log = [];
+      try {
+        await fn();
+        return log;
+      } finally {
+        log = null;
+      }
+    },
+  };
+}
+
+const touchesSessions = (s: string) => /\bsessions\b/.test(s);
+const writes = (s: string) => /^\s*(update|insert|delete)\b/i.test(s);
+
+async function productionId(name: string): Promise<string> {
+  return (await t.db.db.selectFrom('productions').select('id').where('name', '=', name).executeTakeFirstOrThrow()).id;
+}
+async function performerId(legalName: string): Promise<string> {
+  return (await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', legalName).executeTakeFirstOrThrow()).id;
+}
+async function sessionOf(cookie: string) {
+  const res = await request(t.app).get('/api/session').set('Cookie', cookie);
+  expect(res.status).toBe(200);
+  return res.body as { memberships: { productionId: string; role: string }[]; leadOf: string[]; performerIds: string[]; user: { isAdmin: boolean } };
+}
+function sidOf(cookie: string): string {
+  return decodeURIComponent(cookie.split('=')[1]!).slice(2).split('.')[0]!;
+}
+/** The stored expiry of the session behind this cookie, in ms since the epoch. */
+async function storedExpiry(cookie: string): Promise<number | null> {
+  const sid = sidOf(cookie);
+  const { rows } = await t.db.pool.query<{ ms: string }>('select extract(epoch from expire::timestamptz) * 1000 as ms from sessions where sid = $1', [sid]);
+  return rows[0] ? Number(rows[0].ms) : null;
+}
+
+beforeAll(async () => {
+  t = await createTestApp();
+  counter = countStatements(t.db.pool);
+});
+afterAll(async () => {
+  await t?.close();
+});
+afterEach(() => {
+  vi.useRealTimers();
+});
+
+describe('round trips of a signed-in read', () => {
+  it('GET /api/session: one statement for the session with its actor, one for the data', async () => {
+    const cookie = await t.sessionFor('head@plinth.test');
+    expect((await request(t.app).get('/api/session').set('Cookie', cookie)).status).toBe(200);
+    let status = 0;
+    const statements = await counter.during(async () => {
+      status = (await request(t.app).get('/api/session').set('Cookie', cookie)).status;
+    });
+    expect(status).toBe(200);
+    expect(statements.length).toBeLessThanOrEqual(2);
+    expect(statements.filter(touchesSessions)).toHaveLength(1);
+    expect(statements.filter(writes)).toEqual([]);
+  });
+
+  it('GET /api/users/:id (a primary-key read): at most two statements after the first request', async () => {
+    const cookie = await t.sessionFor('admin@plinth.test');
+    const id = await t.userId('head@plinth.test');
+    expect((await request(t.app).get(`/api/users/${id}`).set('Cookie', cookie)).status).toBe(200);
+    const statements = await counter.during(() => request(t.app).get(`/api/users/${id}`).set('Cookie', cookie).expect(200));
+    expect(statements.length).toBeLessThanOrEqual(2);
+    expect(statements.filter(writes)).toEqual([]);
+  });
+
+  it('GET /api/health with a signed-in session: the session read and the health check', async () => {
+    const cookie = await t.sessionFor('head@plinth.test');
+    await request(t.app).get('/api/health').set('Cookie', cookie).expect(200);
+    const statements = await counter.during(() => request(t.app).get('/api/health').set('Cookie', cookie).expect(200));
+    expect(statements).toHaveLength(2);
+  });
+
+  it('GET /api/performers/:id: exactly one statement more than the handler makes by itself', async () => {
+    const cookie = await t.sessionFor('head@plinth.test');
+    const id = await performerId('Juno Castellane');
+    await request(t.app).get(`/api/performers/${id}`).set('Cookie', cookie).expect(200);
+    const viaHttp = await counter.during(() => request(t.app).get(`/api/performers/${id}`).set('Cookie', cookie).expect(200));
+
+    const route = allRoutes.find((r) => r.method === 'get' && r.path === '/api/performers/:id')!;
+    const { actor } = (await loadActor(t.ctx.db, await t.userId('head@plinth.test')))!;
+    const req = { session: {} } as unknown as Request;
+    const res = {} as Response;
+    const byItself = await counter.during(() => route.handler({ req, res, ctx: t.ctx, actor, params: { id }, query: undefined, body: undefined }));
+    expect(byItself.length).toBeGreaterThan(0);
+    expect(viaHttp).toHaveLength(byItself.length + 1);
+    expect(viaHttp.filter(touchesSessions)).toHaveLength(1);
+  });
+
+  it('the first request reads the actor in one statement and keeps it with the session', async () => {
+    const cookie = await t.sessionFor('lead@plinth.test');
+    const first = await counter.during(() => request(t.app).get('/api/health').set('Cookie', cookie).expect(200));
+    // session read, actor read, actor kept, health check
+    expect(first).toHaveLength(4);
+    expect(first.filter((s) => touchesSessions(s) && writes(s))).toHaveLength(1);
+  });
+});
+
+describe('a changed role takes effect on the very next request of the same session', () => {
+  it('a membership removed by the administrator', async () => {
+    const artist = await t.sessionFor('artist@plinth.test');
+    const admin = await t.sessionFor('admin@plinth.test');
+    const lantern = await productionId('The Lantern Keeper');
+    const juno = await performerId('Juno Castellane');
+    expect((await sessionOf(artist)).memberships).toEqual([{ productionId: lantern, role: 'artist' }]);
+    await request(t.app).get(`/api/performers/${juno}`).set('Cookie', artist).expect(200);
+
+    const membership = await t.db.db.selectFrom('memberships').select('id').where('user_id', '=', await t.userId('artist@plinth.test')).where('production_id', '=', lantern).executeTakeFirstOrThrow();
+    await request(t.app).delete(`/api/productions/${lantern}/memberships/${membership.id}`).set('Cookie', admin).set('Origin', t.config.appOrigin).expect(200);
+
+    expect((await request(t.app).get(`/api/performers/${juno}`).set('Cookie', artist)).status).toBe(403);
+    expect((await sessionOf(artist)).memberships).toEqual([]);
+  });
+
+  it('a membership deleted in the database by any other path', async () => {
+    const archivist = await t.sessionFor('archivist@plinth.test');
+    const saltglass = await productionId('Saltglass Mile');
+    expect((await sessionOf(archivist)).memberships.map((m) => m.productionId)).toContain(saltglass);
+    await t.db.db.deleteFrom('memberships').where('user_id', '=', await t.userId('archivist@plinth.test')).where('production_id', '=', saltglass).execute();
+    expect((await sessionOf(archivist)).memberships.map((m) => m.productionId)).not.toContain(saltglass);
+  });
+
+  it('a lead appointment ended by the administrator', async () => {
+    const lead = await t.sessionFor('lead@plinth.test');
+    const admin = await t.sessionFor('admin@plinth.test');
+    const lantern = await productionId('The Lantern Keeper');
+    const juno = await performerId('Juno Castellane');
+    expect((await sessionOf(lead)).leadOf).toEqual([lantern]);
+    expect((await request(t.app).get(`/api/performers/${juno}`).set('Cookie', lead)).body.canSeeMedical).toBe(true);
+
+    const { version } = await t.db.db.selectFrom('productions').select('version').where('id', '=', lantern).executeTakeFirstOrThrow();
+    await request(t.app).delete(`/api/productions/${lantern}/lead?version=${version}`).set('Cookie', admin).set('Origin', t.config.appOrigin).expect(200);
+
+    expect((await request(t.app).get(`/api/performers/${juno}`).set('Cookie', lead)).body.canSeeMedical).toBe(false);
+    expect((await sessionOf(lead)).leadOf).toEqual([]);
+  });
+
+  it('the studio-admin flag cleared', async () => {
+    const deputyId = (await t.db.db.insertInto('users').values({ email: 'deputy@plinth.test', display_name: 'Deputy Admin', is_admin: true }).returning('id').executeTakeFirstOrThrow()).id;
+    const deputy = await t.sessionFor('deputy@plinth.test');
+    const admin = await t.sessionFor('admin@plinth.test');
+    await request(t.app).get('/api/users').set('Cookie', deputy).expect(200);
+    const { version } = await t.db.db.selectFrom('users').select('version').where('id', '=', deputyId).executeTakeFirstOrThrow();
+    await request(t.app).patch(`/api/users/${deputyId}`).set('Cookie', admin).set('Origin', t.config.appOrigin).send({ displayName: 'Deputy Admin', isAdmin: false, version }).expect(200);
+
+    expect((await request(t.app).get('/api/users').set('Cookie', deputy)).status).toBe(403);
+    expect((await sessionOf(deputy)).user.isAdmin).toBe(false);
+  });
+
+  it('a performer record unlinked from the sign-in', async () => {
+    const performer = await t.sessionFor('performer@plinth.test');
+    const juno = await performerId('Juno Castellane');
+    expect((await sessionOf(performer)).performerIds).toEqual([juno]);
+    await t.db.db.updateTable('performers').set({ user_id: null }).where('id', '=', juno).execute();
+    expect((await sessionOf(performer)).performerIds).toEqual([]);
+  });
+
+  it('a role given is there on the next request too', async () => {
+    await t.db.db.insertInto('users').values({ email: 'newrole@plinth.test', display_name: 'Newly Given A Role' }).execute();
+    const newcomer = await t.sessionFor('newrole@plinth.test');
+    const saltglass = await productionId('Saltglass Mile');
+    expect((await sessionOf(newcomer)).memberships).toEqual([]);
+    await t.db.db.insertInto('memberships').values({ user_id: await t.userId('newrole@plinth.test'), production_id: saltglass, role: 'artist' }).execute();
+    expect((await sessionOf(newcomer)).memberships).toEqual([{ productionId: saltglass, role: 'artist' }]);
+  });
+
+  it('a lead appointment that begins later counts once its start has passed, with nothing else changed', async () => {
+    const userId = await t.userId('artist2@plinth.test');
+    const cookie = await t.sessionFor('artist2@plinth.test');
+    const saltglass = await productionId('Saltglass Mile');
+    await t.db.pool.query(`insert into lead_appointments (production_id, user_id, starts_at, ends_at) values ($1, $2, now() + interval '1 hour', now() + interval '3 hours')`, [saltglass, userId]);
+    expect((await sessionOf(cookie)).leadOf).toEqual([]);
+    expect((await sessionOf(cookie)).leadOf).toEqual([]);
+
+    // Two hours on, as the clock would see it: the appointment and the time the kept actor holds
+    // until both move back together, with the triggers that mark a change switched off.
+    const sid = sidOf(cookie);
+    const c = await t.db.pool.connect();
+    try {
+      await c.query('begin');
+      await c.query('set local session_replication_role = replica');
+      await c.query(`update lead_appointments set starts_at = starts_at - interval '2 hours', ends_at = ends_at - interval '2 hours' where user_id = $1 and production_id = $2`, [userId, saltglass]);
+      const { rowCount } = await c.query(
+        `update sessions set sess = jsonb_set(sess::jsonb, '{access,validUntil}', to_jsonb((sess->'access'->>'validUntil')::timestamptz - interval '2 hours'))::json where sid = $1 and sess->'access' is not null`,
+        [sid],
+      );
+      expect(rowCount).toBe(1);
+      await c.query('commit');
+    } finally {
+      c.release();
+    }
+    expect((await sessionOf(cookie)).leadOf).toEqual([saltglass]);
+  });
+});
+
+describe('the stored expiry', () => {
+  it('is not rewritten by a second request within a minute, and is refreshed once a minute has passed', async () => {
+    const start = Date.now();
+    vi.useFakeTimers({ toFake: ['Date'], now: start });
+    const cookie = await t.sessionFor('head@plinth.test');
+    const written = (await storedExpiry(cookie))!;
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    expect(await storedExpiry(cookie)).toBe(written);
+
+    vi.setSystemTime(start + 30_000);
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    expect(await storedExpiry(cookie)).toBe(written);
+
+    vi.setSystemTime(start + 61_000);
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    const refreshed = (await storedExpiry(cookie))!;
+    // sessionFor keeps a session for an hour; the store rounds the expiry up to the whole second.
+    expect(refreshed - (start + 61_000 + 3600_000)).toBeGreaterThanOrEqual(0);
+    expect(refreshed - (start + 61_000 + 3600_000)).toBeLessThan(1000);
+
+    vi.setSystemTime(start + 90_000);
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    expect(await storedExpiry(cookie)).toBe(refreshed);
+  });
+
+  it('keeps a session in use alive past its first expiry, and refuses it once it has been idle that long', async () => {
+    const start = Date.now();
+    vi.useFakeTimers({ toFake: ['Date'], now: start });
+    const cookie = await t.sessionFor('head@plinth.test');
+    vi.setSystemTime(start + 50 * 60_000);
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    vi.setSystemTime(start + 70 * 60_000);
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    // Idle for the whole lifetime (an hour) since that last request.
+    vi.setSystemTime(start + 130 * 60_000 + 1000);
+    const res = await request(t.app).get('/api/session').set('Cookie', cookie);
+    expect(res.status).toBe(401);
+    expect(res.body.error.code).toBe('unauthenticated');
+  });
+
+  it('refuses a session left idle for its lifetime', async () => {
+    const start = Date.now();
+    vi.useFakeTimers({ toFake: ['Date'], now: start });
+    const cookie = await t.sessionFor('head@plinth.test');
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    vi.setSystemTime(start + 3600_000 + 1000);
+    expect((await request(t.app).get('/api/session').set('Cookie', cookie)).status).toBe(401);
+    expect((await request(t.app).get('/api/performers').set('Cookie', cookie)).status).toBe(401);
+  });
+});
+
+describe('the lent tablet', () => {
+  it('keeps neither the staff member nor their actor in the stored session, even when a request that began before tries to keep it', async () => {
+    const cookie = await t.sessionFor('head@plinth.test');
+    const headId = await t.userId('head@plinth.test');
+    const lantern = await productionId('The Lantern Keeper');
+    expect((await sessionOf(cookie)).memberships.length).toBeGreaterThan(0);
+    const template = await t.db.db.selectFrom('consent_templates').select('id').where('kind', '=', 'application').executeTakeFirstOrThrow();
+    const created = await request(t.app)
+      .post('/api/signing-requests')
+      .set('Cookie', cookie)
+      .send({ performerId: await performerId('Juno Castellane'), templateId: template.id, productionId: lantern, mode: 'tablet' })
+      .expect(201);
+    await request(t.app).post(`/api/signing-requests/${created.body.id}/hand-over`).set('Cookie', cookie).expect(200);
+
+    const stored = async () => (await t.db.pool.query<{ sess: Record<string, unknown> }>('select sess from sessions where sid = $1', [sidOf(cookie)])).rows[0]!.sess;
+    expect(await stored()).toMatchObject({ tablet: { phase: 'signing', staffUserId: headId } });
+    expect(await stored()).not.toHaveProperty('userId');
+    expect(await stored()).not.toHaveProperty('access');
+
+    // What a request still running with the staff member's session would write once its actor is read.
+    const late = (await loadActor(t.ctx.db, headId))!;
+    await new SessionStore(t.db.pool, { pruneSessionInterval: false }).keepAccess(sidOf(cookie), headId, late);
+    expect(await stored()).not.toHaveProperty('access');
+    const res = await request(t.app).get('/api/session').set('Cookie', cookie);
+    expect(res.status).toBe(401);
+    expect(res.body.error.details.tablet).toBe('signing');
+  });
+});
