@@ -8,7 +8,7 @@ import { Loading } from './components/ui/loading.tsx';
 import { RequireSeat, RequireSession } from './features/session/components/require-session.tsx';
 import { NoAccessPage } from './features/session/routes/no-access-page.tsx';
 import { SignInPage } from './features/session/routes/sign-in-page.tsx';
-import { PERFORMER_PAGE_ACTIONS, VERIFY_ACTIONS } from './features/session/seat.ts';
+import { PERFORMER_PAGE_ACTIONS, VERIFY_ACTIONS } from './lib/session/seat.ts';
 import { paths } from './lib/paths.ts';
 
 /** A page only the acting seat's role may open; the policy action is named once, here. */

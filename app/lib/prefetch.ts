@@ -1,7 +1,7 @@
 import type { FetchQueryOptions } from '@tanstack/react-query';
 import type { Action } from '#shared/policy.ts';
-import { sessionQueryOptions } from '../features/session/api.ts';
-import { seatCanAny } from '../features/session/seat.ts';
+import { sessionQueryOptions } from './session/api.ts';
+import { seatCanAny } from './session/seat.ts';
 import { queryClient } from './query-client.ts';
 
 // `any` only because option objects of different data types cannot share one typed array;

@@ -122,6 +122,13 @@ describe('re-pointing the sign-in', () => {
     expect(toNew).toHaveLength(1);
     expect(toNew[0]!.subject).toMatch(/confirm your e-mail address/i);
     expect(toNew[0]!.attachments).toHaveLength(0);
+    // The Outbox shows that a confirmation link went out, never the link itself.
+    const admin = await t.sessionFor('admin@plinth.test');
+    const listed = (await api().get('/api/outbox').set('Cookie', admin)).body.items.find((m: { to: string[] }) => m.to.some((a) => a.includes('marta.private@example.test')));
+    const shown = await api().get(`/api/outbox/${encodeURIComponent(listed.id)}`).set('Cookie', admin);
+    const token = /\/confirm-email\/([A-Za-z0-9_-]{40,60})/.exec(toNew[0]!.text ?? '')![1]!;
+    expect(shown.body.text).toContain('/confirm-email/[link withheld]');
+    expect(shown.body.text).not.toContain(token);
     const toOld = await mailsTo('h.solberg@example.test');
     expect(toOld).toHaveLength(1);
     expect(toOld[0]!.text).toMatch(/changed the e-mail address/);

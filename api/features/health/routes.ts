@@ -1,8 +1,8 @@
-import { sql } from 'kysely';
 import { HealthSchema } from '#shared/schemas/session.ts';
-import { defineRoute } from '../../http/route.ts';
+import { type AnyRoute, defineRoute } from '../../http/route.ts';
+import { pingDatabase } from './repo.ts';
 
-export const healthRoutes = [
+export const healthRoutes: AnyRoute[] = [
   defineRoute({
     method: 'get',
     path: '/api/health',
@@ -13,7 +13,7 @@ export const healthRoutes = [
     errors: [503],
     async handler({ ctx, res }) {
       try {
-        await sql`select 1`.execute(ctx.db);
+        await pingDatabase(ctx.db);
         return { status: 'ok' as const, database: 'ok' as const };
       } catch {
         res.status(503).json({ status: 'degraded', database: 'unreachable' });

@@ -22,8 +22,9 @@ async function listMailFiles(dir: string): Promise<string[]> {
 export async function readMessage(dir: string, id: string): Promise<OutboxMessage & { text: string }> {
   const parsed = await simpleParser(await fs.readFile(path.join(dir, id)));
   return {
-    // One-time signing and withdrawal links are the performer's alone; the Outbox shows that a link went out, never the link.
-    text: (parsed.text ?? '').replace(/\/(sign|withdraw)\/[A-Za-z0-9_-]{20,}/g, '/$1/[link withheld]'),
+    // One-time links (signing, withdrawal, address confirmation, sign-in invitation) are the performer's alone;
+    // the Outbox shows that a link went out, never the link.
+    text: (parsed.text ?? '').replace(/\/(sign|withdraw|confirm-email|join)\/[A-Za-z0-9_-]{20,}/g, '/$1/[link withheld]'),
     id,
     subject: parsed.subject ?? '(no subject)',
     from: addresses(parsed.from)[0] ?? '',

@@ -1,9 +1,9 @@
 import { useState } from 'react';
 import { Link, NavLink, Outlet, useNavigation } from 'react-router-dom';
 import { ROLE_LABELS } from '#shared/policy.ts';
-import { SeatSwitcher } from '../../features/session/components/seat-switcher.tsx';
-import { SignOutButton } from '../../features/session/components/sign-out-button.tsx';
-import { useSession } from '../../features/session/session-context.tsx';
+import { SeatSwitcher } from './seat-switcher.tsx';
+import { SignOutButton } from './sign-out-button.tsx';
+import { useSession } from '../../lib/session/session-context.tsx';
 import { paths } from '../../lib/paths.ts';
 import { navItemsFor } from './nav-items.ts';
 import { Wordmark } from './wordmark.tsx';

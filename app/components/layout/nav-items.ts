@@ -1,6 +1,6 @@
 import type { Action } from '#shared/policy.ts';
 import type { Session } from '#shared/schemas/session.ts';
-import { VERIFY_ACTIONS, seatCanAny } from '../../features/session/seat.ts';
+import { VERIFY_ACTIONS, seatCanAny } from '../../lib/session/seat.ts';
 import { paths } from '../../lib/paths.ts';
 
 export interface NavItem {

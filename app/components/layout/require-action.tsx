@@ -1,7 +1,7 @@
 import { Outlet } from 'react-router-dom';
 import { ROLE_LABELS, type Action } from '#shared/policy.ts';
-import { seatCanAny } from '../../features/session/seat.ts';
-import { useSession } from '../../features/session/session-context.tsx';
+import { seatCanAny } from '../../lib/session/seat.ts';
+import { useSession } from '../../lib/session/session-context.tsx';
 import { PageHeading } from '../ui/page-heading.tsx';
 
 /**

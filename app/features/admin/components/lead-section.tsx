@@ -17,7 +17,7 @@ import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { productionQueryOptions, useAppointLead, useEndLead } from '../api.ts';
 import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
 import { FormError } from '../../../components/ui/form-error.tsx';
-import { useSession } from '../../session/session-context.tsx';
+import { useSession } from '../../../lib/session/session-context.tsx';
 
 const AppointFormSchema = z.object({ userId: z.string().min(1, 'Choose a team member') });
 

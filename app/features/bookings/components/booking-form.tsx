@@ -10,7 +10,7 @@ import { SelectField } from '../../../components/ui/select-field.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { formatDateTime } from '../../../lib/format.ts';
-import { Caution } from '../../consents/components/caution.tsx';
+import { Caution } from '../../../components/consent/caution.tsx';
 import { useCreateBooking } from '../api.ts';
 import { BOOKING_PURPOSE_LABELS } from './purpose.ts';
 

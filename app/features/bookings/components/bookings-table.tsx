@@ -6,7 +6,7 @@ import { ConfirmDialog } from '../../../components/ui/dialog.tsx';
 import { Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';
 import { formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
-import { IconBadge } from '../../consents/components/consent-state.tsx';
+import { IconBadge } from '../../../components/consent/consent-state.tsx';
 import { useCancelBooking } from '../api.ts';
 import { BOOKING_PURPOSE_LABELS, neededConsentLabel } from './purpose.ts';
 

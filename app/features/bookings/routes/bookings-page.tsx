@@ -6,10 +6,10 @@ import { Section } from '../../../components/ui/section.tsx';
 import { plural } from '../../../lib/format.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { queryClient } from '../../../lib/query-client.ts';
-import { seatProduction } from '../../performers/seat-production.ts';
-import { sessionQueryOptions } from '../../session/api.ts';
-import { seatCan } from '../../session/seat.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { seatProduction } from '../../../lib/session/seat-production.ts';
+import { sessionQueryOptions } from '../../../lib/session/api.ts';
+import { seatCan } from '../../../lib/session/seat.ts';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { bookingsQueryOptions } from '../api.ts';
 import { BookingsTable } from '../components/bookings-table.tsx';
 

@@ -19,7 +19,7 @@ import { TextareaField } from '../../../components/ui/textarea-field.tsx';
 import { isApiError } from '../../../lib/api-client.ts';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { paths } from '../../../lib/paths.ts';
-import { ConsentText } from '../../consents/components/consent-text.tsx';
+import { ConsentText } from '../../../components/consent/consent-text.tsx';
 import { templateQueryOptions, useCreateTemplate, usePublishTemplate } from '../api.ts';
 
 const QUESTION_TYPE_LABELS: Record<QuestionType, string> = { yes_no: 'Yes or no', short_text: 'Short text', choice: 'Choice of options' };

@@ -11,8 +11,8 @@ import { describedBy } from '../../../components/ui/field.tsx';
 import { FormError } from '../../../components/ui/form-error.tsx';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { formatDateTime } from '../../../lib/format.ts';
-import { Caution } from './caution.tsx';
-import { ConsentText } from './consent-text.tsx';
+import { Caution } from '../../../components/consent/caution.tsx';
+import { ConsentText } from '../../../components/consent/consent-text.tsx';
 import { SignatureField } from './signature-field.tsx';
 
 export interface SigningValues {

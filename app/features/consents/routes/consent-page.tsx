@@ -16,10 +16,10 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { formatDateTime } from '../../../lib/format.ts';
 import { paths, serverPaths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
-import { PERFORMER_PAGE_ACTIONS } from '../../session/seat.ts';
+import { PERFORMER_PAGE_ACTIONS } from '../../../lib/session/seat.ts';
 import { consentQueryOptions, useWithdrawConsent } from '../api.ts';
-import { ConsentStateBadge } from '../components/consent-state.tsx';
-import { ConsentText } from '../components/consent-text.tsx';
+import { ConsentStateBadge } from '../../../components/consent/consent-state.tsx';
+import { ConsentText } from '../../../components/consent/consent-text.tsx';
 import { WithdrawDialog } from '../components/withdraw-dialog.tsx';
 
 export async function consentLoader({ params }: LoaderFunctionArgs) {

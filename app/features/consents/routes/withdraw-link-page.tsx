@@ -13,7 +13,7 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { formatDate, formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { useWithdrawByLink, withdrawalLinkQueryOptions } from '../api.ts';
-import { ConsentStateBadge } from '../components/consent-state.tsx';
+import { ConsentStateBadge } from '../../../components/consent/consent-state.tsx';
 import { PublicFrame } from '../../../components/layout/public-frame.tsx';
 import { WithdrawDialog } from '../components/withdraw-dialog.tsx';
 

@@ -4,7 +4,7 @@ import { EmptyState } from '../../../components/ui/empty-state.tsx';
 import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { prefetchFor } from '../../../lib/prefetch.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { homeQueryOptions } from '../api.ts';
 import { TaskCard } from '../components/task-card.tsx';
 

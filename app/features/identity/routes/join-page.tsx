@@ -6,7 +6,7 @@ import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { Loading } from '../../../components/ui/loading.tsx';
 import { isApiError } from '../../../lib/api-client.ts';
 import { paths } from '../../../lib/paths.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { invitationQueryOptions, useAcceptInvitation } from '../api.ts';
 
 /** The performer, signed in with their own sign-in, accepts the department's invitation to see their record. */

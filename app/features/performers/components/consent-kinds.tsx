@@ -2,7 +2,7 @@ import { CONSENT_KINDS, CONSENT_KIND_LABELS, CONSENT_KIND_SHORT_LABELS } from '#
 import type { PerformerListItem } from '#shared/schemas/performers.ts';
 import { Icon } from '../../../components/ui/icons.tsx';
 import { plural } from '../../../lib/format.ts';
-import { IconBadge } from '../../consents/components/consent-state.tsx';
+import { IconBadge } from '../../../components/consent/consent-state.tsx';
 
 /** The key above the table: what each mark means, in words. */
 export function ConsentKey() {

@@ -15,9 +15,9 @@ import { Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';
 import { errorMessage, isApiError } from '../../../lib/api-client.ts';
 import { formatDate, formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
-import { templatesQueryOptions } from '../../consent-forms/api.ts';
-import { handOver, signingRequestsQueryOptions, useCancelSigningRequest, useCreateSigningRequest } from '../../consents/api.ts';
-import { ConsentStateBadge } from '../../consents/components/consent-state.tsx';
+import { templatesQueryOptions } from '../../consent-forms/index.ts';
+import { handOver, signingRequestsQueryOptions, useCancelSigningRequest, useCreateSigningRequest } from '../../consents/index.ts';
+import { ConsentStateBadge } from '../../../components/consent/consent-state.tsx';
 import { displayName } from './names.tsx';
 
 interface ConsentsSectionProps {

@@ -6,7 +6,7 @@ import { ConfirmDialog } from '../../../components/ui/dialog.tsx';
 import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { Section } from '../../../components/ui/section.tsx';
 import { isApiError } from '../../../lib/api-client.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { useInviteToSignIn, useUnlinkAccount } from '../api.ts';
 import { displayName } from './names.tsx';
 

@@ -15,9 +15,9 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { formatBytes, plural } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { useUpload } from '../../../lib/upload.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { importReportOf, importUpload, invalidateAfterImport } from '../api.ts';
-import { seatProduction } from '../seat-production.ts';
+import { seatProduction } from '../../../lib/session/seat-production.ts';
 import { IMPORT_MAX_BYTES } from '#shared/limits.ts';
 
 const MAX_BYTES = IMPORT_MAX_BYTES;

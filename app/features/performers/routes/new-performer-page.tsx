@@ -10,10 +10,10 @@ import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { Section } from '../../../components/ui/section.tsx';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { paths } from '../../../lib/paths.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { useCreatePerformer } from '../api.ts';
 import { EngagementFields, PERFORMER_FIELD_NAMES, PerformerFields, engagementFieldNames, type PerformerFormValues } from '../components/performer-fields.tsx';
-import { seatProduction } from '../seat-production.ts';
+import { seatProduction } from '../../../lib/session/seat-production.ts';
 
 export function NewPerformerPage() {
   const session = useSession();

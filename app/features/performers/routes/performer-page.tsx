@@ -14,16 +14,15 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
-import { BookingForm } from '../../bookings/components/booking-form.tsx';
-import { BookingsTable } from '../../bookings/components/bookings-table.tsx';
-import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../session/seat.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { BookingForm, BookingsTable } from '../../bookings/index.ts';
+import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { performerQueryOptions, useResendConfirmation } from '../api.ts';
 import { ConsentsSection } from '../components/consents-section.tsx';
 import { LinkedAccount } from '../components/linked-account.tsx';
 import { displayName } from '../components/names.tsx';
 import { PortraitPanel } from '../components/portrait-panel.tsx';
-import { seatProduction } from '../seat-production.ts';
+import { seatProduction } from '../../../lib/session/seat-production.ts';
 
 export async function performerLoader({ params }: LoaderFunctionArgs) {
   const id = IdSchema.safeParse(params.id);

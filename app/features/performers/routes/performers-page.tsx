@@ -16,9 +16,9 @@ import { parseListParams, useDebouncedSearch, useListParams } from '../../../lib
 import { paths, serverPaths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { queryClient } from '../../../lib/query-client.ts';
-import { sessionQueryOptions } from '../../session/api.ts';
-import { seatCan } from '../../session/seat.ts';
-import { useSession } from '../../session/session-context.tsx';
+import { sessionQueryOptions } from '../../../lib/session/api.ts';
+import { seatCan } from '../../../lib/session/seat.ts';
+import { useSession } from '../../../lib/session/session-context.tsx';
 import { PerformerListParamsSchema, performerQueryFor, performersQueryOptions, type PerformerListParams } from '../api.ts';
 import { ConsentKey, ConsentKinds } from '../components/consent-kinds.tsx';
 import { FullName, Thumbnail, displayName } from '../components/names.tsx';

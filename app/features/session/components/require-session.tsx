@@ -4,8 +4,8 @@ import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { Loading } from '../../../components/ui/loading.tsx';
 import { isApiError } from '../../../lib/api-client.ts';
 import { paths } from '../../../lib/paths.ts';
-import { sessionQueryOptions } from '../api.ts';
-import { SessionContext } from '../session-context.tsx';
+import { sessionQueryOptions } from '../../../lib/session/api.ts';
+import { SessionContext } from '../../../lib/session/session-context.tsx';
 
 /** The 401 of a browser lent to a performer for signing names its phase ('signing' | 'handback'). */
 function lentTablet(err: unknown): boolean {

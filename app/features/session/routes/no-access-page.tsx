@@ -4,9 +4,9 @@ import { Button } from '../../../components/ui/button.tsx';
 import { Wordmark } from '../../../components/layout/wordmark.tsx';
 import { paths } from '../../../lib/paths.ts';
 import { useDocumentTitle } from '../../../lib/use-document-title.ts';
-import { sessionQueryOptions } from '../api.ts';
-import { SignOutButton } from '../components/sign-out-button.tsx';
-import { useSession } from '../session-context.tsx';
+import { sessionQueryOptions } from '../../../lib/session/api.ts';
+import { SignOutButton } from '../../../components/layout/sign-out-button.tsx';
+import { useSession } from '../../../lib/session/session-context.tsx';
 
 export function NoAccessPage() {
   useDocumentTitle('No access yet');

@@ -5,7 +5,7 @@ import { Wordmark } from '../../../components/layout/wordmark.tsx';
 import { isApiError } from '../../../lib/api-client.ts';
 import { safeReturnTo, serverPaths } from '../../../lib/paths.ts';
 import { useDocumentTitle } from '../../../lib/use-document-title.ts';
-import { sessionQueryOptions } from '../api.ts';
+import { sessionQueryOptions } from '../../../lib/session/api.ts';
 
 export function SignInPage() {
   useDocumentTitle('Sign in');

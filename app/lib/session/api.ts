@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { LogoutResultSchema, SessionSchema, type SelectSeatInput, type Session } from '#shared/schemas/session.ts';
-import { api } from '../../lib/api-client.ts';
-import { sessionKey } from '../../lib/query-keys.ts';
+import { api } from '../api-client.ts';
+import { sessionKey } from '../query-keys.ts';
 
 /** Who is signed in and the seat they act in; 401 when signed out. */
 export function sessionQueryOptions() {

@@ -1,9 +1,9 @@
 import { useId } from 'react';
-import { errorMessage } from '../../../lib/api-client.ts';
-import { controlClasses } from '../../../components/ui/field.tsx';
-import { useSelectSeat } from '../api.ts';
-import { useSession } from '../session-context.tsx';
-import { seatKey, seatLabel } from '../seat.ts';
+import { errorMessage } from '../../lib/api-client.ts';
+import { controlClasses } from '../ui/field.tsx';
+import { useSelectSeat } from '../../lib/session/api.ts';
+import { useSession } from '../../lib/session/session-context.tsx';
+import { seatKey, seatLabel } from '../../lib/session/seat.ts';
 
 /** "Acting as": one option per seat the person holds; switching reloads every screen's data. */
 export function SeatSwitcher({ className = '' }: { className?: string }) {

@@ -1,5 +1,5 @@
 import type { ConsentKind } from '#shared/domain/consent.ts';
-import { Icon } from '../../../components/ui/icons.tsx';
+import { Icon } from '../ui/icons.tsx';
 
 /** Plinth's safety cautions, in its own words, for the kinds of work that carry one. */
 export const CAUTIONS: Partial<Record<ConsentKind, { title: string; text: string }>> = {

@@ -1,6 +1,6 @@
 import { CONSENT_STATE_LABELS, type ConsentState } from '#shared/domain/consent.ts';
-import { Icon, type IconName } from '../../../components/ui/icons.tsx';
-import type { BadgeTone } from '../../../components/ui/status-badge.tsx';
+import { Icon, type IconName } from '../ui/icons.tsx';
+import type { BadgeTone } from '../ui/status-badge.tsx';
 
 const STATE_LOOK: Record<ConsentState, { icon: IconName; tone: BadgeTone }> = {
   active: { icon: 'check', tone: 'good' },

@@ -1,6 +1,6 @@
-import { Button, type ButtonVariant } from '../../../components/ui/button.tsx';
-import { errorMessage } from '../../../lib/api-client.ts';
-import { useSignOut } from '../api.ts';
+import { Button, type ButtonVariant } from '../ui/button.tsx';
+import { errorMessage } from '../../lib/api-client.ts';
+import { useSignOut } from '../../lib/session/api.ts';
 
 export function SignOutButton({ variant = 'secondary', className = '' }: { variant?: ButtonVariant; className?: string }) {
   const signOut = useSignOut();

@@ -1,0 +1,3 @@
+// What other features may use of sessions (bookings) on the client.
+export { BookingForm } from './components/booking-form.tsx';
+export { BookingsTable } from './components/bookings-table.tsx';

@@ -1,0 +1,2 @@
+// What other features may use of the consents feature on the client.
+export { handOver, signingRequestsQueryOptions, useCancelSigningRequest, useCreateSigningRequest } from './api.ts';
