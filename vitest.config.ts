@@ -3,6 +3,7 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   test: {
     reporters: ['default', './tests/support/summary-reporter.ts'],
+    setupFiles: ['./tests/support/console-guard.ts'],
     projects: [
       {
         extends: true,

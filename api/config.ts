@@ -36,6 +36,11 @@ const EnvSchema = z
     if (env.NODE_ENV === 'production' && env.SESSION_SECRET === DEV_SESSION_SECRET) {
       ctx.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'must be set to a secret of your own in production' });
     }
+    // Sign-in over plain http is only for the bundled provider on this machine.
+    const issuer = new URL(env.OIDC_ISSUER);
+    if (issuer.protocol === 'http:' && !['127.0.0.1', 'localhost', '[::1]'].includes(issuer.hostname)) {
+      ctx.addIssue({ code: 'custom', path: ['OIDC_ISSUER'], message: 'must use https:// unless the identity provider runs on this machine (127.0.0.1 or localhost)' });
+    }
     if (env.NODE_ENV === 'production' && env.START_FAKES === 'true') {
       ctx.addIssue({ code: 'custom', path: ['START_FAKES'], message: 'must be false in production: the demo identity provider and mail catcher are for development only' });
     }

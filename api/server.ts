@@ -22,7 +22,7 @@ export function log(msg: string, err?: unknown): void {
 export async function startServer(config: Config, databaseUrl: string, opts: { serveClient?: boolean; clientMiddleware?: RequestHandler } = {}): Promise<RunningServer> {
   const handle = createDb(databaseUrl, { log });
   const mailer = createMailer(config.smtpUrl, config.mailFrom);
-  const ctx: AppContext = { config, db: handle.db, mailer, oidc: createOidcClient(config.oidc), log };
+  const ctx: AppContext = { config, db: handle.db, mailer, oidc: createOidcClient(config.oidc, log), log };
   const app = createApp({ ctx, pool: handle.pool, serveClient: opts.serveClient ?? true, clientMiddleware: opts.clientMiddleware });
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(config.port, config.host);

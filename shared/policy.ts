@@ -28,37 +28,40 @@ export interface Actor {
   performerIds: readonly string[];
 }
 
-export type Action =
-  | 'users.manage'
-  | 'productions.manage'
-  | 'memberships.manage'
-  | 'lead.appoint'
-  | 'audit.read'
-  | 'outbox.read'
-  | 'production.view'
-  | 'performers.view'
-  | 'performers.manage'
-  | 'consents.manage'
-  | 'consents.request'
-  | 'medical.read'
-  | 'medical.write'
-  | 'catalogue.manage'
-  | 'patchtests.book'
-  | 'clearance.check'
-  | 'applications.log'
-  | 'reactions.report'
-  | 'casts.manage'
-  | 'performer.self'
-  | 'performer.view'
-  | 'templates.manage'
-  | 'templates.read'
-  | 'sessions.view'
-  | 'sessions.book'
-  | 'consents.view'
-  | 'consents.withdraw'
-  | 'consents.verify'
-  | 'accounts.unlink'
-  | 'accounts.invite';
+/** Every permission Plinth decides, named `subject.verb`. */
+export const ACTIONS = [
+  'users.manage',
+  'productions.manage',
+  'memberships.manage',
+  'lead.appoint',
+  'audit.read',
+  'outbox.read',
+  'production.view',
+  'performers.view',
+  'performers.manage',
+  'consents.manage',
+  'consents.request',
+  'medical.read',
+  'medical.write',
+  'catalogue.manage',
+  'patchtests.book',
+  'clearance.check',
+  'applications.log',
+  'reactions.report',
+  'casts.manage',
+  'performer.self',
+  'performer.view',
+  'templates.manage',
+  'templates.read',
+  'sessions.view',
+  'sessions.book',
+  'consents.view',
+  'consents.withdraw',
+  'consents.verify',
+  'accounts.unlink',
+  'accounts.invite',
+] as const;
+export type Action = (typeof ACTIONS)[number];
 
 export interface Resource {
   productionId?: string | null;

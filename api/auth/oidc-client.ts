@@ -7,7 +7,7 @@ export interface OidcClient {
   configuration(): Promise<client.Configuration>;
 }
 
-export function createOidcClient(config: Config['oidc']): OidcClient {
+export function createOidcClient(config: Config['oidc'], log: (msg: string) => void = (msg) => console.error(msg)): OidcClient {
   let cached: Promise<client.Configuration> | null = null;
   const insecure = config.issuer.startsWith('http://');
   return {
@@ -18,7 +18,7 @@ export function createOidcClient(config: Config['oidc']): OidcClient {
         .discovery(new URL(config.issuer), config.clientId, config.clientSecret, undefined, options)
         .catch((err: unknown) => {
           cached = null;
-          console.error(`[plinth] identity provider discovery failed: ${err instanceof Error ? err.message : String(err)}`);
+          log(`identity provider discovery failed: ${err instanceof Error ? err.message : String(err)}`);
           throw new ApiError('unavailable', 'The sign-in service is not reachable right now. Try again in a moment.');
         });
       return cached;

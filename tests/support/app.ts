@@ -50,7 +50,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
     config,
     db: db.db,
     mailer: createMailer(config.smtpUrl, config.mailFrom),
-    oidc: createOidcClient(config.oidc),
+    oidc: createOidcClient(config.oidc, (msg) => logged.push(msg)),
     log: (msg, err) => logged.push(`${msg} ${err instanceof Error ? err.message : ''}`),
   };
   const app = createApp({ ctx, pool: db.pool });

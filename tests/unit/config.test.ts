@@ -46,3 +46,11 @@ describe('parseConfig', () => {
     expect(parseConfig({ PORT: '' }).port).toBe(3000);
   });
 });
+
+describe('identity provider address', () => {
+  it('refuses a plain-http issuer that is not on this machine', () => {
+    expect(() => parseConfig({ OIDC_ISSUER: 'http://login.example.org' })).toThrow(/OIDC_ISSUER/);
+    expect(parseConfig({ OIDC_ISSUER: 'http://127.0.0.1:4001' }).oidc.issuer).toBe('http://127.0.0.1:4001');
+    expect(parseConfig({ OIDC_ISSUER: 'https://login.example.org' }).oidc.issuer).toBe('https://login.example.org');
+  });
+});

@@ -14,14 +14,16 @@ describe('canonicalJson', () => {
 });
 
 describe('contentSha256', () => {
-  it('is SHA-256 over the canonical JSON (checked against the FIPS 180-2 "abc" vector for the hash itself)', () => {
-    // FIPS 180-2, Appendix B.1: SHA-256("abc").
-    expect(createHash('sha256').update('abc').digest('hex')).toBe('ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
+  it('is the SHA-256 of exactly the canonical text: keys sorted at every depth, no spaces', () => {
     const content: SignedContent = {
       consentId: 'c', performerId: 'p', performerName: 'N', templateVersionId: 'v', templateVersion: 1, kind: 'application', title: 'T', body: 'B',
       answers: [], signerName: 'N', signedAt: '2026-01-01T00:00:00.000Z', signingMethod: 'tablet', ip: null, userAgent: null, signatureSha256: 's',
     };
-    expect(contentSha256(content)).toBe(createHash('sha256').update(canonicalJson(content)).digest('hex'));
+    // The canonical text written out by hand (sorted keys, no whitespace), hashed independently of canonicalJson().
+    const byHand =
+      '{"answers":[],"body":"B","consentId":"c","ip":null,"kind":"application","performerId":"p","performerName":"N","signatureSha256":"s",' +
+      '"signedAt":"2026-01-01T00:00:00.000Z","signerName":"N","signingMethod":"tablet","templateVersion":1,"templateVersionId":"v","title":"T","userAgent":null}';
+    expect(contentSha256(content)).toBe(createHash('sha256').update(byHand, 'utf8').digest('hex'));
     expect(contentSha256({ ...content, body: 'B2' })).not.toBe(contentSha256(content));
   });
 });

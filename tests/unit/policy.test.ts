@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { type Action, type Actor, can, canSomewhere, rolesOn } from '#shared/policy.ts';
+import { ACTIONS, type Action, type Actor, can, canSomewhere, rolesOn } from '#shared/policy.ts';
 
 const P1 = '11111111-1111-4111-8111-111111111111';
 const P2 = '22222222-2222-4222-8222-222222222222';
@@ -81,5 +81,66 @@ describe('scoping', () => {
   });
   it('rolesOn lists the lead appointment alongside membership roles', () => {
     expect(rolesOn(lead, P1).sort()).toEqual(['artist', 'lead']);
+  });
+});
+
+describe('every action, for every role, on one performer record of production P1', () => {
+  // The lead of another production: appointed on P2 only.
+  const leadElsewhere = actor({ leadOf: [P2] });
+  const pureLead = actor({ leadOf: [P1] });
+  const roles = { admin, head, lead: pureLead, artist, archivist, performer, nobody, leadElsewhere } as const;
+  const Y = true;
+  const N = false;
+  // admin, head, lead, artist, archivist, performer (their own record), nobody, lead of another production
+  const EXPECTED: Record<Action, [boolean, boolean, boolean, boolean, boolean, boolean, boolean, boolean]> = {
+    'users.manage': [Y, N, N, N, N, N, N, N],
+    'productions.manage': [Y, N, N, N, N, N, N, N],
+    'memberships.manage': [Y, N, N, N, N, N, N, N],
+    'lead.appoint': [Y, N, N, N, N, N, N, N],
+    'audit.read': [Y, N, N, N, N, N, N, N],
+    'outbox.read': [Y, N, N, N, N, N, N, N],
+    'production.view': [N, Y, Y, Y, Y, Y, N, N],
+    'performers.view': [N, Y, Y, Y, Y, N, N, N],
+    'performers.manage': [N, Y, Y, N, N, N, N, N],
+    'consents.manage': [N, Y, Y, N, N, N, N, N],
+    'consents.request': [N, Y, Y, N, N, N, N, N],
+    'medical.read': [N, N, Y, N, N, Y, N, N],
+    'medical.write': [N, N, Y, N, N, N, N, N],
+    'catalogue.manage': [N, Y, Y, N, N, N, N, N],
+    'patchtests.book': [N, Y, Y, N, N, N, N, N],
+    'clearance.check': [N, Y, Y, Y, N, N, N, N],
+    'applications.log': [N, N, N, Y, N, N, N, N],
+    'reactions.report': [N, N, N, Y, N, N, N, N],
+    'casts.manage': [N, N, N, N, Y, N, N, N],
+    'performer.self': [N, N, N, N, N, Y, N, N],
+    'performer.view': [N, Y, Y, Y, Y, Y, N, N],
+    // Studio-wide: the forms every production uses, and the PDF checker.
+    'templates.manage': [Y, Y, Y, N, N, N, N, Y],
+    'templates.read': [Y, Y, Y, N, N, N, N, Y],
+    'consents.verify': [Y, Y, Y, Y, Y, N, N, Y],
+    'sessions.view': [N, Y, Y, Y, Y, N, N, N],
+    'sessions.book': [N, Y, Y, N, N, N, N, N],
+    'consents.view': [N, Y, Y, Y, Y, Y, N, N],
+    'consents.withdraw': [N, N, Y, N, N, Y, N, N],
+    'accounts.unlink': [Y, Y, Y, N, N, N, N, N],
+    'accounts.invite': [Y, Y, Y, N, N, N, N, N],
+  };
+  const resource = { productionId: P1, performerId: PERF, performerProductionIds: [P1] };
+
+  it('the table names every action the policy has', () => {
+    expect(Object.keys(EXPECTED).sort()).toEqual([...ACTIONS].sort());
+  });
+  for (const action of ACTIONS) {
+    Object.entries(roles).forEach(([name, who], i) => {
+      const expected = EXPECTED[action][i];
+      it(`${name} ${expected ? 'may' : 'may not'} ${action}`, () => {
+        expect(can(who, action, resource)).toBe(expected);
+      });
+    });
+  }
+  it('the performer may not act on another performer’s record, even on their own production', () => {
+    for (const action of ['performer.view', 'medical.read', 'consents.view', 'consents.withdraw'] as const) {
+      expect(can(performer, action, { productionId: P1, performerId: OTHER_PERF, performerProductionIds: [P1] }), action).toBe(false);
+    }
   });
 });
