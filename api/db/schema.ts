@@ -230,6 +230,18 @@ export interface BookingsTable {
   created_at: Timestamp;
 }
 
+export interface MailFailuresTable {
+  id: Generated<string>;
+  /** The whole message (attachments base64-encoded), to send again as it was. */
+  message: ColumnType<unknown, string, string>;
+  recipients: string;
+  subject: string;
+  error: string;
+  attempts: Generated<number>;
+  failed_at: Timestamp;
+  sent_at: Date | null;
+}
+
 export interface Database {
   files: FilesTable;
   consent_templates: ConsentTemplatesTable;
@@ -241,6 +253,7 @@ export interface Database {
   bookings: BookingsTable;
   email_confirmations: EmailConfirmationsTable;
   account_invitations: AccountInvitationsTable;
+  mail_failures: MailFailuresTable;
   users: UsersTable;
   productions: ProductionsTable;
   memberships: MembershipsTable;

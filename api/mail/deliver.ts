@@ -1,12 +1,13 @@
 import type { AppContext } from '../context.ts';
+import { recordMailFailure } from './failures.ts';
 import type { OutgoingMail } from './mailer.ts';
 
 /**
- * Sends mail that follows a committed change. The change stands whatever happens to the mail: a
- * failed send is logged with its subject (never its body, which may carry a link) and reported
- * back so the caller can say so.
+ * The one rule for mail that follows a committed change: the change stands whatever happens to
+ * the mail. A message that cannot be sent is kept (see the Outbox page, where it can be sent
+ * again) and logged by subject, never by its body, which may carry a link.
  */
-export async function deliverAll(ctx: Pick<AppContext, 'mailer' | 'log'>, mails: readonly OutgoingMail[]): Promise<{ sent: number; failed: string[] }> {
+export async function deliverAll(ctx: Pick<AppContext, 'mailer' | 'log' | 'db'>, mails: readonly OutgoingMail[]): Promise<{ sent: number; failed: string[] }> {
   const failed: string[] = [];
   let sent = 0;
   for (const mail of mails) {
@@ -15,7 +16,12 @@ export async function deliverAll(ctx: Pick<AppContext, 'mailer' | 'log'>, mails:
       sent++;
     } catch (err) {
       failed.push(mail.subject);
-      ctx.log(`mail "${mail.subject}" not sent`, err);
+      ctx.log(`mail "${mail.subject}" not sent; kept for the Outbox`, err);
+      try {
+        await recordMailFailure(ctx.db, mail, err instanceof Error ? err.message : String(err));
+      } catch (recordErr) {
+        ctx.log(`mail "${mail.subject}" could not be kept either`, recordErr);
+      }
     }
   }
   return { sent, failed };

@@ -1,3 +1,4 @@
+import type { QueryClient } from '@tanstack/react-query';
 /**
  * Roots of the query keys. Each `<noun>QueryOptions` factory owns its full key; these roots
  * exist so a mutation can invalidate a whole family (every page of users, say) in one call.
@@ -18,3 +19,8 @@ export const tabletKey = ['tablet'] as const;
 export const signingLinkKey = ['signing-link'] as const;
 export const withdrawalLinkKey = ['withdrawal-link'] as const;
 export const identityLinkKey = ['identity-link'] as const;
+
+/** Marks every query under these keys stale (and refetches those on screen): the one way a write says what it changed. */
+export function invalidate(queryClient: QueryClient, keys: readonly (readonly unknown[])[]): Promise<unknown> {
+  return Promise.all(keys.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
+}

@@ -137,6 +137,18 @@ export const OutboxQuerySchema = z.object({
 export const OutboxPageSchema = pagedSchema(OutboxMessageSchema);
 export const OutboxMessageDetailSchema = OutboxMessageSchema.extend({ text: z.string() });
 export type OutboxMessageDetail = z.infer<typeof OutboxMessageDetailSchema>;
+/** A message Plinth could not send: who and what about, never its text or attachments. */
+export const MailFailureSchema = z.object({
+  id: IdSchema,
+  recipients: z.string(),
+  subject: z.string(),
+  error: z.string(),
+  attempts: z.number().int(),
+  failedAt: z.iso.datetime(),
+});
+export type MailFailure = z.infer<typeof MailFailureSchema>;
+export const MailFailureListSchema = z.object({ items: z.array(MailFailureSchema) });
+export const MailRetryResultSchema = z.object({ sent: z.boolean(), error: z.string().nullable() });
 export const OutboxParamsSchema = z.object({ id: z.string().regex(/^[A-Za-z0-9._-]+\.eml$/, 'Not a message id') });
 
 // ---- audit

@@ -223,3 +223,33 @@ describe('audit log', () => {
     expect(res.body.items[0]).toMatchObject({ action: 'user.create', actor: 'Ines Calloway', entityType: 'user' });
   });
 });
+
+describe('mail that could not be sent', () => {
+  it('does not undo the change, is listed without its text, and goes out on retry', async () => {
+    const p = await lantern();
+    const real = t.ctx.mailer;
+    t.ctx.mailer = { send: async () => Promise.reject(new Error('relay refused the connection')), close: () => {} };
+    let res: request.Response;
+    try {
+      res = await request(t.app).post(`/api/productions/${p.id}/memberships`).set('Cookie', admin).send({ userId: await t.userId('archivist@plinth.test'), role: 'artist' });
+    } finally {
+      t.ctx.mailer = real;
+    }
+    // The role stands although its notice could not go.
+    expect(res.status).toBe(201);
+    const failures = await request(t.app).get('/api/outbox/failures').set('Cookie', admin);
+    expect(failures.status).toBe(200);
+    expect(failures.body.items).toHaveLength(1);
+    const [f] = failures.body.items;
+    expect(f).toMatchObject({ recipients: 'archivist@plinth.test', subject: 'Plinth: you are now Artist on The Lantern Keeper', error: 'relay refused the connection', attempts: 1 });
+    expect(JSON.stringify(failures.body)).not.toContain('Sign in at');
+    expect((await request(t.app).get('/api/outbox/failures').set('Cookie', await t.sessionFor('head@plinth.test'))).status).toBe(403);
+
+    const before = (await fs.readdir(t.mail.dir)).filter((n) => n.endsWith('.eml')).length;
+    const retry = await request(t.app).post(`/api/outbox/failures/${f.id}/retry`).set('Cookie', admin);
+    expect(retry.body).toEqual({ sent: true, error: null });
+    expect((await fs.readdir(t.mail.dir)).filter((n) => n.endsWith('.eml')).length).toBe(before + 1);
+    expect((await request(t.app).get('/api/outbox/failures').set('Cookie', admin)).body.items).toEqual([]);
+    expect((await request(t.app).post(`/api/outbox/failures/${f.id}/retry`).set('Cookie', admin)).status).toBe(404);
+  });
+});

@@ -175,11 +175,13 @@ export async function sendWithdrawalLink(ctx: AppContext, req: Request, email: s
     return p;
   });
   if (!p) return;
-  await ctx.mailer.send({
-    to: p.email,
-    subject: 'Your link to withdraw consents',
+  await deliverAll(ctx, [
+    {
+      to: p.email,
+      subject: 'Your link to withdraw consents',
     text: [`Hello ${p.name},`, '', 'You asked for a link to see and withdraw the consents you gave the make-up department:', '', `${ctx.config.appOrigin}/withdraw/${token}`, '', 'It works for 24 hours. If you did not ask for it, you can ignore this e-mail.'].join('\n'),
-  });
+    },
+  ]);
 }
 
 async function linkByToken(db: Db, token: string) {

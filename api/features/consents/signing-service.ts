@@ -7,6 +7,7 @@ import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
 import { discardFiles, sha256Hex, storeFile, type StoredFile } from '../../files/store.ts';
 import { writeAudit } from '../../http/audit.ts';
+import { deliverAll } from '../../mail/deliver.ts';
 import { conflict, invalid, isUniqueViolation } from '../../http/errors.ts';
 import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
@@ -214,8 +215,8 @@ export async function sendConsentCopy(ctx: AppContext, performerId: string, temp
   // The copy carries the answers: it goes only to an address the performer confirmed as theirs.
   const performer = await findConfirmedEmail(ctx.db, performerId);
   if (!performer) return null;
-  try {
-    await ctx.mailer.send({
+  const { failed } = await deliverAll(ctx, [
+    {
       to: performer.email,
       subject: `Your signed consent: ${template.title}`,
       text: [
@@ -228,10 +229,7 @@ export async function sendConsentCopy(ctx: AppContext, performerId: string, temp
         'Keep this e-mail: the PDF carries a fingerprint (SHA-256) that the department can check against its records.',
       ].join('\n'),
       attachments: [{ filename: `consent-${consentId}.pdf`, content: pdf, contentType: 'application/pdf' }],
-    });
-    return performer.email;
-  } catch (err) {
-    ctx.log(`consent copy to ${performer.email} not sent`, err);
-    return null;
-  }
+    },
+  ]);
+  return failed.length ? null : performer.email;
 }

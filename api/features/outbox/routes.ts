@@ -1,9 +1,12 @@
 import { promises as fs } from 'node:fs';
 import path from 'node:path';
 import { simpleParser, type AddressObject } from 'mailparser';
-import { OutboxMessageDetailSchema, OutboxPageSchema, OutboxParamsSchema, OutboxQuerySchema, type OutboxMessage } from '#shared/schemas/admin.ts';
+import { MailFailureListSchema, MailRetryResultSchema, OutboxMessageDetailSchema, OutboxPageSchema, OutboxParamsSchema, OutboxQuerySchema, type OutboxMessage } from '#shared/schemas/admin.ts';
+import { IdParamsSchema } from '#shared/schemas/common.ts';
 import { notFound } from '../../http/errors.ts';
-import { defineRoute } from '../../http/route.ts';
+import { listOpenMailFailures } from '../../mail/failures.ts';
+import { retryMailFailure } from './service.ts';
+import { type AnyRoute, defineRoute } from '../../http/route.ts';
 
 function addresses(a: AddressObject | AddressObject[] | undefined): string[] {
   if (!a) return [];
@@ -34,7 +37,7 @@ export async function readMessage(dir: string, id: string): Promise<OutboxMessag
   };
 }
 
-export const outboxRoutes = [
+export const outboxRoutes: AnyRoute[] = [
   defineRoute({
     method: 'get',
     path: '/api/outbox',
@@ -54,6 +57,30 @@ export const outboxRoutes = [
       }));
       return { items, total: files.length, page: query.page, pageSize: query.pageSize };
     },
+  }),
+  // Before /api/outbox/:id, so "failures" is never taken for a message id.
+  defineRoute({
+    method: 'get',
+    path: '/api/outbox/failures',
+    summary: 'Messages Plinth could not send (recipients, subject, the error), still waiting to be sent',
+    tag: 'admin',
+    auth: 'session',
+    requires: 'outbox.read',
+    response: MailFailureListSchema,
+    errors: [403],
+    handler: async ({ ctx }) => ({ items: await listOpenMailFailures(ctx.db) }),
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/outbox/failures/:id/retry',
+    summary: 'Send a message that could not be sent, again, exactly as it was',
+    tag: 'admin',
+    auth: 'session',
+    requires: 'outbox.read',
+    params: IdParamsSchema,
+    response: MailRetryResultSchema,
+    errors: [403, 404],
+    handler: ({ ctx, params }) => retryMailFailure(ctx, params.id),
   }),
   defineRoute({
     method: 'get',

@@ -14,11 +14,7 @@ export async function sendRoleNotice(ctx: AppContext, to: { email: string; displ
     '',
     'If you did not expect this, tell your studio administrator.',
   ].join('\n');
-  try {
-    await ctx.mailer.send({ to: to.email, subject: `Plinth: you are now ${label} on ${productionName}`, text });
-  } catch (err) {
-    ctx.log(`role notice to ${to.email} not sent`, err);
-  }
+  await deliverAll(ctx, [{ to: to.email, subject: `Plinth: you are now ${label} on ${productionName}`, text }]);
 }
 
 /** Every change of designated lead is told to the production's heads: they should know who reads health data. */

@@ -2,6 +2,8 @@ import { keepPreviousData, queryOptions, useMutation, useQueryClient, type Query
 import {
   AuditPageSchema,
   OutboxMessageDetailSchema,
+  MailFailureListSchema,
+  MailRetryResultSchema,
   OutboxPageSchema,
   ProductionDetailSchema,
   ProductionPageSchema,
@@ -17,7 +19,7 @@ import {
   type UserListQuery,
 } from '#shared/schemas/admin.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { auditKey, homeKey, outboxKey, productionsKey, sessionKey, usersKey } from '../../lib/query-keys.ts';
+import { auditKey, homeKey, outboxKey, productionsKey, sessionKey, usersKey, invalidate } from '../../lib/query-keys.ts';
 
 // ---- query shapes (outputs of the API's own query schemas, so defaults are filled in)
 
@@ -159,6 +161,22 @@ export function outboxQueryOptions(query: OutboxQuery) {
   });
 }
 
+/** Messages Plinth could not send, waiting to be sent again. */
+export function mailFailuresQueryOptions() {
+  return queryOptions({
+    queryKey: [...outboxKey, 'failures'] as const,
+    queryFn: ({ signal }) => api.get('/api/outbox/failures', MailFailureListSchema, signal),
+  });
+}
+
+export function useRetryMail() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api.post(`/api/outbox/failures/${encodeURIComponent(id)}/retry`, {}, MailRetryResultSchema),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: outboxKey }),
+  });
+}
+
 export function outboxMessageQueryOptions(id: string) {
   return queryOptions({
     queryKey: [...outboxKey, 'message', id] as const,
@@ -172,8 +190,4 @@ export function auditQueryOptions(query: AuditQuery) {
     queryFn: ({ signal }) => api.get(withQuery('/api/audit', query), AuditPageSchema, signal),
     placeholderData: keepPreviousData,
   });
-}
-
-function invalidate(queryClient: QueryClient, keys: readonly (readonly unknown[])[]) {
-  return Promise.all(keys.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
 }

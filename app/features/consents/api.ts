@@ -1,4 +1,4 @@
-import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
+import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { OkSchema } from '#shared/schemas/common.ts';
 import {
   ConsentDetailSchema,
@@ -17,7 +17,7 @@ import {
   type SubmitSignatureInput,
 } from '#shared/schemas/consents.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { consentsKey, homeKey, performersKey, signingLinkKey, signingRequestsKey, tabletKey, withdrawalLinkKey } from '../../lib/query-keys.ts';
+import { consentsKey, homeKey, performersKey, signingLinkKey, signingRequestsKey, tabletKey, withdrawalLinkKey, invalidate } from '../../lib/query-keys.ts';
 
 // ---- one consent
 
@@ -140,8 +140,4 @@ export function useWithdrawByLink(token: string) {
 /** The upload that checks a PDF (multipart field "file"), for useUpload().start. */
 export function verifyUpload(file: File) {
   return { url: '/api/consents/verify', field: 'file', file, schema: VerifyResultSchema };
-}
-
-function invalidate(queryClient: QueryClient, keys: readonly (readonly unknown[])[]) {
-  return Promise.all(keys.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
 }

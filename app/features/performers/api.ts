@@ -14,7 +14,7 @@ import {
 } from '#shared/schemas/performers.ts';
 import { IdentityMailSentSchema } from '#shared/schemas/identity.ts';
 import { api, isApiError, withQuery } from '../../lib/api-client.ts';
-import { bookingsKey, homeKey, performersKey, sessionKey } from '../../lib/query-keys.ts';
+import { bookingsKey, homeKey, performersKey, sessionKey, invalidate } from '../../lib/query-keys.ts';
 
 // ---- the registry list
 
@@ -129,8 +129,4 @@ export function importReportOf(err: unknown): CsvImportResult | null {
 
 export function invalidateAfterImport(queryClient: QueryClient) {
   return invalidate(queryClient, [performersKey, homeKey]);
-}
-
-function invalidate(queryClient: QueryClient, keys: readonly (readonly unknown[])[]) {
-  return Promise.all(keys.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
 }

@@ -6,12 +6,12 @@ import { UpdateUserInputSchema, type User } from '#shared/schemas/admin.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { CheckboxField } from '../../../components/ui/checkbox-field.tsx';
 import { Dialog } from '../../../components/ui/dialog.tsx';
-import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
-import { ApiError, errorMessage, isApiError } from '../../../lib/api-client.ts';
+import { ApiError, errorMessage } from '../../../lib/api-client.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { useUpdateUser, userQueryOptions } from '../api.ts';
-import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
+import { VersionedEditNotice } from '../../../components/ui/versioned-edit-notice.tsx';
+import { useVersionedEdit } from '../../../lib/use-versioned-edit.ts';
 import { FormError } from '../../../components/ui/form-error.tsx';
 
 export function EditUserDialog({ user, onClose }: { user: User | null; onClose: () => void }) {
@@ -26,9 +26,6 @@ export function EditUserDialog({ user, onClose }: { user: User | null; onClose: 
 function EditUserForm({ user, onDone }: { user: User; onDone: () => void }) {
   const queryClient = useQueryClient();
   const update = useUpdateUser();
-  const [conflict, setConflict] = useState<unknown>(null);
-  const [reloading, setReloading] = useState(false);
-  const [reloadError, setReloadError] = useState<unknown>(null);
   const [formError, setFormError] = useState<string[] | null>(null);
   // The version travels with the form: it is the version this person saw, not whatever is newest.
   const form = useForm({
@@ -36,34 +33,21 @@ function EditUserForm({ user, onDone }: { user: User; onDone: () => void }) {
     defaultValues: { displayName: user.displayName, isAdmin: user.isAdmin, version: user.version },
   });
   const { errors } = form.formState;
+  const edit = useVersionedEdit({
+    refetch: () => queryClient.fetchQuery({ ...userQueryOptions(user.id), staleTime: 0 }),
+    onFresh: (fresh) => form.reset({ displayName: fresh.displayName, isAdmin: fresh.isAdmin, version: fresh.version }),
+  });
 
   const onSubmit = form.handleSubmit(async (values) => {
     setFormError(null);
-    setConflict(null);
     try {
-      await update.mutateAsync({ id: user.id, input: values });
-      onDone();
+      if (await edit.save(() => update.mutateAsync({ id: user.id, input: values }))) onDone();
     } catch (err) {
-      if (isApiError(err, 409)) return setConflict(err);
       const leftover = applyServerErrors(err, form.setError, ['displayName', 'isAdmin']);
       const hadFields = err instanceof ApiError && Object.keys(err.fields).length > leftover.length;
       setFormError(leftover.length ? leftover : hadFields ? null : [errorMessage(err)]);
     }
   });
-
-  async function reload() {
-    setReloading(true);
-    setReloadError(null);
-    try {
-      const fresh = await queryClient.fetchQuery({ ...userQueryOptions(user.id), staleTime: 0 });
-      form.reset({ displayName: fresh.displayName, isAdmin: fresh.isAdmin, version: fresh.version });
-      setConflict(null);
-    } catch (err) {
-      setReloadError(err);
-    } finally {
-      setReloading(false);
-    }
-  }
 
   return (
     <form noValidate onSubmit={onSubmit} className="flex flex-col gap-4">
@@ -72,14 +56,13 @@ function EditUserForm({ user, onDone }: { user: User; onDone: () => void }) {
       </p>
       <TextField label="Name" autoComplete="off" error={errors.displayName?.message} {...form.register('displayName')} />
       <CheckboxField label="Studio administrator" error={errors.isAdmin?.message} {...form.register('isAdmin')} />
-      {conflict ? <ConflictNotice error={conflict} onReload={() => void reload()} reloading={reloading} /> : null}
-      {reloadError ? <ErrorBanner error={reloadError} /> : null}
+      <VersionedEditNotice edit={edit} />
       <FormError messages={formError} />
       <div className="flex flex-wrap justify-end gap-3">
         <Button variant="secondary" onClick={onDone}>
           Cancel
         </Button>
-        <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={conflict !== null}>
+        <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={edit.conflict !== null}>
           Save
         </Button>
       </div>

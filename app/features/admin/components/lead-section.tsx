@@ -6,7 +6,6 @@ import { z } from 'zod';
 import type { ProductionDetail } from '#shared/schemas/admin.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { ConfirmDialog } from '../../../components/ui/dialog.tsx';
-import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { Section } from '../../../components/ui/section.tsx';
 import { SelectField } from '../../../components/ui/select-field.tsx';
 import { StatusBadge } from '../../../components/ui/status-badge.tsx';
@@ -15,7 +14,8 @@ import { ApiError, errorMessage, isApiError } from '../../../lib/api-client.ts';
 import { formatDateTime } from '../../../lib/format.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { productionQueryOptions, useAppointLead, useEndLead } from '../api.ts';
-import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
+import { VersionedEditNotice } from '../../../components/ui/versioned-edit-notice.tsx';
+import { useVersionedEdit } from '../../../lib/use-versioned-edit.ts';
 import { FormError } from '../../../components/ui/form-error.tsx';
 import { useSession } from '../../../lib/session/session-context.tsx';
 
@@ -31,9 +31,6 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
   const appoint = useAppointLead(production.id);
   const end = useEndLead(production.id);
   const [confirmEnd, setConfirmEnd] = useState(false);
-  const [conflict, setConflict] = useState<unknown>(null);
-  const [reloading, setReloading] = useState(false);
-  const [reloadError, setReloadError] = useState<unknown>(null);
   const [formError, setFormError] = useState<string[] | null>(null);
   const form = useForm({ resolver: zodResolver(AppointFormSchema), defaultValues: { userId: '' } });
   const { errors } = form.formState;
@@ -49,9 +46,14 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
   const [pendingAppoint, setPendingAppoint] = useState<string | null>(null);
   const pendingName = candidates.find((m) => m.userId === pendingAppoint)?.displayName ?? 'This person';
 
+  const edit = useVersionedEdit({
+    refetch: () => queryClient.fetchQuery({ ...productionQueryOptions(production.id), staleTime: 0 }),
+    onFresh: () => form.reset(),
+  });
+
   const onAppoint = form.handleSubmit(({ userId }) => {
     setFormError(null);
-    setConflict(null);
+    edit.clear();
     // Who gains health access, and whose ends, is said aloud before anything changes.
     setPendingAppoint(userId);
   });
@@ -62,10 +64,8 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
     setPendingAppoint(null);
     try {
       // The version on screen: if another administrator appointed someone meanwhile, this is refused.
-      await appoint.mutateAsync({ userId, version: production.version });
-      form.reset();
+      if (await edit.save(() => appoint.mutateAsync({ userId, version: production.version }))) form.reset();
     } catch (err) {
-      if (isApiError(err, 409)) return setConflict(err);
       const leftover = applyServerErrors(err, form.setError, ['userId']);
       const hadFields = err instanceof ApiError && Object.keys(err.fields).length > leftover.length;
       setFormError(leftover.length ? leftover : hadFields ? null : [errorMessage(err)]);
@@ -77,29 +77,13 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
     end.reset();
   }
 
-  function onEnd() {
-    end.mutate(production.version, {
-      onSuccess: closeEnd,
-      onError: (err) => {
-        if (isApiError(err, 409)) {
-          closeEnd();
-          setConflict(err);
-        }
-      },
-    });
-  }
-
-  async function reload() {
-    setReloading(true);
-    setReloadError(null);
+  async function onEnd() {
     try {
-      await queryClient.fetchQuery({ ...productionQueryOptions(production.id), staleTime: 0 });
-      setConflict(null);
-      form.reset();
-    } catch (err) {
-      setReloadError(err);
-    } finally {
-      setReloading(false);
+      await edit.save(() => end.mutateAsync(production.version));
+      // Done, or refused as stale (then the notice below says so): either way the dialog closes.
+      closeEnd();
+    } catch {
+      // Any other failure is shown inside the dialog, which stays open.
     }
   }
 
@@ -135,8 +119,7 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
         ) : null}
       </div>
 
-      {conflict ? <ConflictNotice error={conflict} onReload={() => void reload()} reloading={reloading} /> : null}
-      {reloadError ? <ErrorBanner error={reloadError} /> : null}
+      <VersionedEditNotice edit={edit} />
 
       <h3 className="text-lg font-bold text-ink-900">{lead ? 'Appoint someone else' : 'Appoint a lead'}</h3>
       {candidates.length === 0 ? (
@@ -163,7 +146,7 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
           </SelectField>
           <FormError messages={formError} />
           <div>
-            <Button type="submit" pending={appoint.isPending} pendingLabel="Appointing…" disabled={conflict !== null}>
+            <Button type="submit" pending={appoint.isPending} pendingLabel="Appointing…" disabled={edit.conflict !== null}>
               Appoint
             </Button>
           </div>
@@ -228,7 +211,7 @@ export function LeadSection({ production }: { production: ProductionDetail }) {
         pending={end.isPending}
         error={end.error && !isApiError(end.error, 409) ? end.error : null}
         onCancel={closeEnd}
-        onConfirm={onEnd}
+        onConfirm={() => void onEnd()}
       >
         <p>
           {lead?.displayName ?? 'The lead'} will stop being the designated lead of {production.name} now. Until someone else

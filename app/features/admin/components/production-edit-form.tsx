@@ -5,11 +5,11 @@ import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { CreateProductionInputSchema, type ProductionDetail } from '#shared/schemas/admin.ts';
 import { Button } from '../../../components/ui/button.tsx';
-import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
-import { ApiError, errorMessage, isApiError } from '../../../lib/api-client.ts';
+import { ApiError, errorMessage } from '../../../lib/api-client.ts';
+import { useVersionedEdit } from '../../../lib/use-versioned-edit.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
 import { productionQueryOptions, useUpdateProduction } from '../api.ts';
-import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
+import { VersionedEditNotice } from '../../../components/ui/versioned-edit-notice.tsx';
 import { FormError } from '../../../components/ui/form-error.tsx';
 import { PRODUCTION_FIELD_NAMES, ProductionFields, type ProductionFormValues } from './production-fields.tsx';
 
@@ -30,9 +30,6 @@ export function ProductionEditForm({ production }: { production: ProductionDetai
   const queryClient = useQueryClient();
   const update = useUpdateProduction(production.id);
   const [base, setBase] = useState(production);
-  const [conflict, setConflict] = useState<unknown>(null);
-  const [reloading, setReloading] = useState(false);
-  const [reloadError, setReloadError] = useState<unknown>(null);
   const [formError, setFormError] = useState<string[] | null>(null);
   const [saved, setSaved] = useState(false);
   const form = useForm<ProductionFormValues, unknown, z.output<typeof CreateProductionInputSchema>>({
@@ -41,49 +38,41 @@ export function ProductionEditForm({ production }: { production: ProductionDetai
   });
   const { errors, isDirty } = form.formState;
 
+  const edit = useVersionedEdit({
+    refetch: () => queryClient.fetchQuery({ ...productionQueryOptions(production.id), staleTime: 0 }),
+    onFresh: (fresh) => {
+      form.reset(valuesOf(fresh));
+      setBase(fresh);
+    },
+  });
+
   const onSubmit = form.handleSubmit(async (values) => {
     setFormError(null);
-    setConflict(null);
     setSaved(false);
     // If what this form edits is unchanged since it was filled, a newer version can only mean team
     // or lead changes, and sending it loses nothing. Otherwise send the old one and let the API say 409.
     const version = sameFields(production, base) ? production.version : base.version;
     try {
-      const fresh = await update.mutateAsync({ ...values, version });
+      const fresh = await edit.save(() => update.mutateAsync({ ...values, version }));
+      if (!fresh) return;
       form.reset(valuesOf(fresh));
       setBase(fresh);
       setSaved(true);
     } catch (err) {
-      if (isApiError(err, 409)) return setConflict(err);
       const leftover = applyServerErrors(err, form.setError, PRODUCTION_FIELD_NAMES);
       const hadFields = err instanceof ApiError && Object.keys(err.fields).length > leftover.length;
       setFormError(leftover.length ? leftover : hadFields ? null : [errorMessage(err)]);
     }
   });
 
-  async function reload() {
-    setReloading(true);
-    setReloadError(null);
-    try {
-      const fresh = await queryClient.fetchQuery({ ...productionQueryOptions(production.id), staleTime: 0 });
-      form.reset(valuesOf(fresh));
-      setBase(fresh);
-      setConflict(null);
-    } catch (err) {
-      setReloadError(err);
-    } finally {
-      setReloading(false);
-    }
-  }
 
   return (
     <form noValidate onSubmit={onSubmit} className="flex flex-col gap-4" aria-label="Production details" data-testid="production-edit-form">
       <ProductionFields register={form.register} errors={errors} />
-      {conflict ? <ConflictNotice error={conflict} onReload={() => void reload()} reloading={reloading} /> : null}
-      {reloadError ? <ErrorBanner error={reloadError} /> : null}
+      <VersionedEditNotice edit={edit} />
       <FormError messages={formError} />
       <div className="flex flex-wrap items-center gap-4">
-        <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={conflict !== null}>
+        <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={edit.conflict !== null}>
           Save changes
         </Button>
         {saved && !isDirty ? (

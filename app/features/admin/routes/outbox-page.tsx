@@ -13,6 +13,7 @@ import { formatBytes, formatDateTime } from '../../../lib/format.ts';
 import { parseListParams, useListParams } from '../../../lib/list-params.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { outboxMessageQueryOptions, outboxQueryOptions } from '../api.ts';
+import { UnsentMail } from '../components/unsent-mail.tsx';
 
 /** The text of one caught message; attachments are listed by name only (a consent copy carries health answers). */
 function MessageDialog({ id, subject, onClose }: { id: string; subject: string; onClose: () => void }) {
@@ -58,6 +59,7 @@ export function OutboxPage() {
       >
         Outbox
       </PageHeading>
+      <UnsentMail />
       <QueryView query={outbox} loadingLabel="Loading caught e-mails…">
         {(data) =>
           data.total === 0 ? (

@@ -8,13 +8,12 @@ import { IdSchema } from '#shared/schemas/common.ts';
 import { UpdatePerformerInputSchema, type PerformerDetail } from '#shared/schemas/performers.ts';
 import { NotFoundPage } from '../../../components/layout/not-found-page.tsx';
 import { Button, ButtonLink } from '../../../components/ui/button.tsx';
-import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
-import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
+import { VersionedEditNotice } from '../../../components/ui/versioned-edit-notice.tsx';
 import { FormError } from '../../../components/ui/form-error.tsx';
 import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { Section } from '../../../components/ui/section.tsx';
-import { isApiError } from '../../../lib/api-client.ts';
+import { useVersionedEdit } from '../../../lib/use-versioned-edit.ts';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
@@ -87,9 +86,6 @@ function EditForm({ performer }: { performer: PerformerDetail }) {
   const queryClient = useQueryClient();
   const navigate = useNavigate();
   const update = useUpdatePerformer(performer.id);
-  const [conflict, setConflict] = useState<unknown>(null);
-  const [reloading, setReloading] = useState(false);
-  const [reloadError, setReloadError] = useState<unknown>(null);
   const [formError, setFormError] = useState<string[] | null>(null);
   const [engagements, setEngagements] = useState(performer.engagements);
   const form = useForm<PerformerFormValues, unknown, UpdateOutput>({
@@ -101,32 +97,23 @@ function EditForm({ performer }: { performer: PerformerDetail }) {
   // The acting seat manages performers on its own production only; other engagements go back unchanged.
   const manages = (productionId: string) => session.current?.productionId === productionId && seatCan(session, 'performers.manage');
 
+  const edit = useVersionedEdit({
+    refetch: () => queryClient.fetchQuery({ ...performerQueryOptions(performer.id), staleTime: 0 }),
+    onFresh: (fresh) => {
+      form.reset(valuesOf(fresh));
+      setEngagements(fresh.engagements);
+    },
+  });
+
   const onSubmit = form.handleSubmit(async (values) => {
     setFormError(null);
-    setConflict(null);
     try {
-      await update.mutateAsync(values);
-      void navigate(paths.performer.href(performer.id));
+      if (await edit.save(() => update.mutateAsync(values))) void navigate(paths.performer.href(performer.id));
     } catch (err) {
-      if (isApiError(err, 409)) return setConflict(err);
       setFormError(formErrorsFrom(err, form.setError, [...PERFORMER_FIELD_NAMES, ...engagementFieldNames(engagements.length)]));
     }
   });
 
-  async function reload() {
-    setReloading(true);
-    setReloadError(null);
-    try {
-      const fresh = await queryClient.fetchQuery({ ...performerQueryOptions(performer.id), staleTime: 0 });
-      form.reset(valuesOf(fresh));
-      setEngagements(fresh.engagements);
-      setConflict(null);
-    } catch (err) {
-      setReloadError(err);
-    } finally {
-      setReloading(false);
-    }
-  }
 
   return (
     <form noValidate onSubmit={onSubmit} className="flex flex-col gap-6" aria-label="Edit performer" data-testid="edit-performer-form">
@@ -139,11 +126,10 @@ function EditForm({ performer }: { performer: PerformerDetail }) {
         ))}
         {errors.engagements?.message ? <p className="text-sm font-semibold text-brick-700">{errors.engagements.message}</p> : null}
       </Section>
-      {conflict ? <ConflictNotice error={conflict} onReload={() => void reload()} reloading={reloading} /> : null}
-      {reloadError ? <ErrorBanner error={reloadError} /> : null}
+      <VersionedEditNotice edit={edit} />
       <FormError messages={formError} />
       <div className="flex flex-wrap gap-3">
-        <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={conflict !== null}>
+        <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={edit.conflict !== null}>
           Save changes
         </Button>
         <ButtonLink variant="secondary" to={paths.performer.href(performer.id)}>
