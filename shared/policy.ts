@@ -42,7 +42,9 @@ export type Action =
   | 'consents.request'
   | 'medical.read'
   | 'medical.write'
+  | 'catalogue.read'
   | 'catalogue.manage'
+  | 'protocols.manage'
   | 'patchtests.book'
   | 'clearance.check'
   | 'applications.log'
@@ -65,7 +67,9 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'performers.manage',
   'consents.manage',
   'consents.request',
+  'catalogue.read',
   'catalogue.manage',
+  'protocols.manage',
   'patchtests.book',
   'clearance.check',
 ]);
@@ -73,11 +77,12 @@ const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([...HEAD_ACTIONS, 'med
 const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'production.view',
   'performers.view',
+  'catalogue.read',
   'clearance.check',
   'applications.log',
   'reactions.report',
 ]);
-const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'casts.manage']);
+const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'catalogue.read', 'casts.manage']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
 
 const ADMIN_ONLY: ReadonlySet<Action> = new Set<Action>([
@@ -88,6 +93,16 @@ const ADMIN_ONLY: ReadonlySet<Action> = new Set<Action>([
   'audit.read',
   'outbox.read',
 ]);
+
+/**
+ * The product catalogue (ingredients, products, lots, safety data sheets) and the test protocols are
+ * the department's shared stock, used by every production: a role that grants one of these anywhere
+ * grants it studio-wide, and the resource named does not matter.
+ */
+const STUDIO_WIDE: ReadonlySet<Action> = new Set<Action>(['catalogue.read', 'catalogue.manage', 'protocols.manage']);
+
+/** The administrator reads the catalogue (names only, nothing medical) but leaves its upkeep to heads and leads. */
+const ADMIN_READS: ReadonlySet<Action> = new Set<Action>(['catalogue.read']);
 
 /** Actions a role grants on its own production. */
 export function actionsOfRole(role: ActingRole): ReadonlySet<Action> {
@@ -131,6 +146,7 @@ export function can(actor: Actor, action: Action, resource: Resource = {}): bool
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
   // Consent templates are studio-wide: kept by administrators and by any head or lead.
   if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
+  if (STUDIO_WIDE.has(action)) return canSomewhere(actor, action);
 
   const isSelf = resource.performerId != null && actor.performerIds.includes(resource.performerId);
   if (action === 'performer.self') return isSelf;
@@ -140,10 +156,11 @@ export function can(actor: Actor, action: Action, resource: Resource = {}): bool
   return productions.some((p) => rolesOn(actor, p).some((r) => actionsOfRole(r).has(action)));
 }
 
-/** Does any of this actor's roles grant the action somewhere? Only for showing navigation, never for data. */
+/** Does any of this actor's roles grant the action somewhere? For navigation, and for the studio-wide actions above. */
 export function canSomewhere(actor: Actor, action: Action): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
   if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
+  if (ADMIN_READS.has(action) && actor.isAdmin) return true;
   if (action === 'performer.self' || action === 'medical.read') {
     if (actor.performerIds.length > 0) return true;
   }
