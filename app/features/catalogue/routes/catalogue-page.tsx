@@ -116,7 +116,8 @@ function ProductTable({ items, params, busy, onSort }: ProductTableProps) {
       <Thead>
         <tr>
           <SortHeader label="Product" sortKey="name" sort={params.sort} dir={params.dir} onSort={onSort} />
-          <SortHeader label="Category" sortKey="category" sort={params.sort} dir={params.dir} onSort={onSort} />
+          {/* On a portrait tablet the category sits under the name, so the table never scrolls sideways. */}
+          <SortHeader label="Category" sortKey="category" sort={params.sort} dir={params.dir} onSort={onSort} className="hidden lg:table-cell" />
           <Th>Contains</Th>
           <Th>Lots</Th>
         </tr>
@@ -129,6 +130,10 @@ function ProductTable({ items, params, busy, onSort }: ProductTableProps) {
                 {p.name}
               </Link>
               {p.maker ? <span className="block text-sm text-ink-700">{p.maker}</span> : null}
+              <span className="block text-sm text-ink-700 lg:hidden">
+                {PRODUCT_CATEGORY_LABELS[p.category]}
+                {p.formulationVersion && p.formulationVersion > 1 ? ` · formulation ${p.formulationVersion}` : ''}
+              </span>
               {p.solventCaution ? (
                 <span className="mt-1 block">
                   <MarkedBadge icon="warning" tone="warning">
@@ -137,7 +142,7 @@ function ProductTable({ items, params, busy, onSort }: ProductTableProps) {
                 </span>
               ) : null}
             </Td>
-            <Td>
+            <Td className="hidden lg:table-cell">
               {PRODUCT_CATEGORY_LABELS[p.category]}
               <span className="block text-sm text-ink-700">{p.formulationVersion && p.formulationVersion > 1 ? `Formulation ${p.formulationVersion}` : null}</span>
             </Td>
@@ -164,7 +169,8 @@ function ProductTable({ items, params, busy, onSort }: ProductTableProps) {
                 ) : null}
                 {p.usableLots > 0 ? (
                   <span className="text-sm">
-                    {p.usableLots} in date{p.nextExpiry ? `, next ends ${formatDate(p.nextExpiry)}` : ''}
+                    {p.usableLots} in date
+                    {p.nextExpiry ? <span className="block text-ink-700">next ends {formatDate(p.nextExpiry)}</span> : null}
                   </span>
                 ) : (
                   <MarkedBadge icon="missing" tone="neutral">
