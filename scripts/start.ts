@@ -10,7 +10,7 @@ import { type Config, ConfigError, parseConfig } from '../api/config.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
-import { ensureDefaultProtocols } from '../api/features/protocols/service.ts';
+import { ensureDefaultProtocols } from '../api/features/protocols/index.ts';
 import { startServer } from '../api/server.ts';
 import { DEMO_PASSWORD, demoAccounts } from '../fake-idp/accounts.ts';
 import { type Cluster, ensureDatabase, findPgBin, startCluster } from './pg.ts';

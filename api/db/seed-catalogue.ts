@@ -1,9 +1,5 @@
-import { ingredientValues } from '../features/catalogue/ingredient-service.ts';
-import { insertIngredients } from '../features/catalogue/ingredient-repo.ts';
-import { insertLots } from '../features/catalogue/lot-repo.ts';
-import { insertFormulation, insertProduct, setFirstFormulation } from '../features/catalogue/repo.ts';
-import { writeIngredients } from '../features/catalogue/service.ts';
-import { ensureDefaultProtocols } from '../features/protocols/service.ts';
+import { ingredientValues, insertFormulation, insertIngredients, insertLots, insertProduct, setFirstFormulation, writeIngredients } from '../features/catalogue/index.ts';
+import { ensureDefaultProtocols } from '../features/protocols/index.ts';
 import type { Db } from './index.ts';
 import { SEED_INGREDIENTS, SEED_PRODUCTS } from './seed-catalogue-data.ts';
 
