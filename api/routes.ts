@@ -9,6 +9,9 @@ import { consentRoutes } from './features/consents/consent-routes.ts';
 import { signingRoutes } from './features/consents/signing-routes.ts';
 import { templateRoutes } from './features/consents/template-routes.ts';
 import { productionRoutes } from './features/productions/routes.ts';
+import { ingredientRoutes } from './features/catalogue/ingredient-routes.ts';
+import { productRoutes } from './features/catalogue/routes.ts';
+import { protocolRoutes } from './features/protocols/routes.ts';
 import { sessionRoutes } from './features/session/routes.ts';
 import { userRoutes } from './features/users/routes.ts';
 import { defineRoute, type AnyRoute, buildOpenApi } from './http/route.ts';
@@ -26,6 +29,9 @@ const featureRoutes: AnyRoute[] = [
   ...signingRoutes,
   ...consentRoutes,
   ...bookingRoutes,
+  ...ingredientRoutes,
+  ...productRoutes,
+  ...protocolRoutes,
   ...auditRoutes,
 ];
 

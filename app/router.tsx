@@ -101,6 +101,34 @@ const routes: RouteObject[] = [
                         const m = await import('./features/bookings/routes/bookings-page.tsx');
                         return { Component: m.BookingsPage, loader: m.bookingsLoader };
                       }),
+                      guarded(paths.catalogue.pattern, 'catalogue.read', async () => {
+                        const m = await import('./features/catalogue/routes/catalogue-page.tsx');
+                        return { Component: m.CataloguePage, loader: m.catalogueLoader };
+                      }),
+                      guarded(paths.newProduct.pattern, 'catalogue.manage', async () => {
+                        const m = await import('./features/catalogue/routes/new-product-page.tsx');
+                        return { Component: m.NewProductPage };
+                      }),
+                      guarded(paths.product.pattern, 'catalogue.read', async () => {
+                        const m = await import('./features/catalogue/routes/product-page.tsx');
+                        return { Component: m.ProductPage, loader: m.productLoader };
+                      }),
+                      guarded(paths.editProduct.pattern, 'catalogue.manage', async () => {
+                        const m = await import('./features/catalogue/routes/edit-product-page.tsx');
+                        return { Component: m.EditProductPage, loader: m.editProductLoader };
+                      }),
+                      guarded(paths.ingredients.pattern, 'catalogue.read', async () => {
+                        const m = await import('./features/catalogue/routes/ingredients-page.tsx');
+                        return { Component: m.IngredientsPage, loader: m.ingredientsLoader };
+                      }),
+                      guarded(paths.protocols.pattern, 'catalogue.read', async () => {
+                        const m = await import('./features/protocols/routes/protocols-page.tsx');
+                        return { Component: m.ProtocolsPage, loader: m.protocolsLoader };
+                      }),
+                      guarded(paths.protocol.pattern, 'catalogue.read', async () => {
+                        const m = await import('./features/protocols/routes/protocol-page.tsx');
+                        return { Component: m.ProtocolPage, loader: m.protocolLoader };
+                      }),
                       guarded(paths.consentForms.pattern, 'templates.manage', async () => {
                         const m = await import('./features/consent-forms/routes/consent-forms-page.tsx');
                         return { Component: m.ConsentFormsPage, loader: m.consentFormsLoader };

@@ -10,6 +10,7 @@ import { type Config, ConfigError, parseConfig } from '../api/config.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
+import { ensureDefaultProtocols } from '../api/features/protocols/index.ts';
 import { startServer } from '../api/server.ts';
 import { DEMO_PASSWORD, demoAccounts } from '../fake-idp/accounts.ts';
 import { type Cluster, ensureDatabase, findPgBin, startCluster } from './pg.ts';
@@ -91,6 +92,9 @@ async function main(): Promise<void> {
     if (applied.length) console.log(`Migrations applied: ${applied.join(', ')}`);
     // Demo people and records never enter a production database.
     if (!config.isProduction && (await seedDemo(handle.db, { storageDir: config.storageDir }))) console.log('Loaded the demo scenario (The Lantern Keeper).');
+    // The test protocols a studio starts with are not demo data: every database gets them once.
+    const protocols = await ensureDefaultProtocols(handle.db);
+    if (protocols.length) console.log(`Added the default test protocols: ${protocols.join(', ')}`);
   } finally {
     await handle.close();
   }

@@ -43,7 +43,9 @@ export const ACTIONS = [
   'consents.request',
   'medical.read',
   'medical.write',
+  'catalogue.read',
   'catalogue.manage',
+  'protocols.manage',
   'patchtests.book',
   'clearance.check',
   'applications.log',
@@ -79,7 +81,9 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'consents.request',
   'consents.view',
   'performer.view',
+  'catalogue.read',
   'catalogue.manage',
+  'protocols.manage',
   'patchtests.book',
   'clearance.check',
   'sessions.view',
@@ -95,11 +99,12 @@ const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'performer.view',
   'consents.view',
   'sessions.view',
+  'catalogue.read',
   'clearance.check',
   'applications.log',
   'reactions.report',
 ]);
-const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'casts.manage']);
+const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'casts.manage']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
 /** What the performer may do with their own record, whatever production it is viewed through. */
 const SELF_ACTIONS: ReadonlySet<Action> = new Set<Action>(['performer.self', 'performer.view', 'medical.read', 'consents.view', 'consents.withdraw']);
@@ -172,10 +177,20 @@ export function can(actor: Actor, action: Action, resource: Resource = {}): bool
  * production action. Decided here, once; data routes ask can() like any other action.
  */
 const STUDIO_WIDE: Partial<Record<Action, (actor: Actor) => boolean>> = {
-  'templates.manage': (actor) => actor.isAdmin || canSomewhere(actor, 'consents.manage'),
-  'templates.read': (actor) => actor.isAdmin || canSomewhere(actor, 'consents.request'),
-  'consents.verify': (actor) => actor.isAdmin || canSomewhere(actor, 'performers.view'),
+  'templates.manage': (actor) => actor.isAdmin || roleGrantsSomewhere(actor, 'consents.manage'),
+  'templates.read': (actor) => actor.isAdmin || roleGrantsSomewhere(actor, 'consents.request'),
+  'consents.verify': (actor) => actor.isAdmin || roleGrantsSomewhere(actor, 'performers.view'),
+  // One department's stock serves every production: staff read it; heads and leads keep it; the administrator reads it.
+  'catalogue.read': (actor) => actor.isAdmin || roleGrantsSomewhere(actor, 'catalogue.read'),
+  'catalogue.manage': (actor) => roleGrantsSomewhere(actor, 'catalogue.manage'),
+  'protocols.manage': (actor) => roleGrantsSomewhere(actor, 'protocols.manage'),
 };
+
+/** Whether a role the actor holds on some production grants the action there. */
+function roleGrantsSomewhere(actor: Actor, action: Action): boolean {
+  const all = new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf]);
+  return [...all].some((p) => rolesOn(actor, p).some((r) => actionsOfRole(r).has(action)));
+}
 
 /** Does any of this actor's roles grant the action somewhere? Only for showing navigation, never for data. */
 export function canSomewhere(actor: Actor, action: Action): boolean {
@@ -183,6 +198,5 @@ export function canSomewhere(actor: Actor, action: Action): boolean {
   const studioWide = STUDIO_WIDE[action];
   if (studioWide) return studioWide(actor);
   if (SELF_ACTIONS.has(action) && actor.performerIds.length > 0) return true;
-  const all = new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf]);
-  return [...all].some((p) => rolesOn(actor, p).some((r) => actionsOfRole(r).has(action)));
+  return roleGrantsSomewhere(actor, action);
 }

@@ -6,6 +6,7 @@ import type { ConsentKind } from '#shared/domain/consent.ts';
 import { findCurrentTemplateVersion, writeSignedConsent } from '../features/consents/index.ts';
 import type { Db } from './index.ts';
 import { SEED_TEMPLATES } from './seed-templates.ts';
+import { seedCatalogue } from './seed-catalogue.ts';
 
 // The demo scenario: everything here is invented (production, people, characters).
 export const DEMO_PRODUCTION = 'The Lantern Keeper';
@@ -100,6 +101,7 @@ export async function seedDemo(db: Db, opts: { storageDir?: string } = {}): Prom
         .values({ template_id: row.id, version: 1, title: t.title, body: t.body, questions: JSON.stringify(t.questions), validity_days: t.validityDays, created_by: id('head') })
         .execute();
     }
+    await seedCatalogue(trx, id('head'));
     await trx
       .insertInto('audit_log')
       .values({ actor_user_id: null, action: 'demo.seed', entity_type: 'system', details: JSON.stringify({ production: DEMO_PRODUCTION }) })

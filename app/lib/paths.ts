@@ -51,6 +51,13 @@ export const paths = {
   consentForm: { pattern: '/consent-forms/:id', href: (id: string) => `/consent-forms/${encodeURIComponent(id)}` },
   bookings: { pattern: '/bookings', href: () => '/bookings' },
   verify: { pattern: '/verify', href: () => '/verify' },
+  catalogue: { pattern: '/catalogue', href: () => '/catalogue' },
+  newProduct: { pattern: '/catalogue/new', href: () => '/catalogue/new' },
+  product: { pattern: '/catalogue/:id', href: (id: string) => `/catalogue/${encodeURIComponent(id)}` },
+  editProduct: { pattern: '/catalogue/:id/edit', href: (id: string) => `/catalogue/${encodeURIComponent(id)}/edit` },
+  ingredients: { pattern: '/ingredients', href: (search: { q?: string } = {}) => withSearch('/ingredients', { q: search.q }) },
+  protocols: { pattern: '/protocols', href: () => '/protocols' },
+  protocol: { pattern: '/protocols/:id', href: (id: string) => `/protocols/${encodeURIComponent(id)}` },
 
   // Public pages, outside the signed-in shell.
   /** The department's tablet while it is lent to a performer. */

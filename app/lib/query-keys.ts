@@ -14,6 +14,9 @@ export const consentsKey = ['consents'] as const;
 export const templatesKey = ['consent-templates'] as const;
 export const signingRequestsKey = ['signing-requests'] as const;
 export const bookingsKey = ['bookings'] as const;
+export const productsKey = ['products'] as const;
+export const ingredientsKey = ['ingredients'] as const;
+export const protocolsKey = ['protocols'] as const;
 /** Public signing and withdrawal screens: never mixed with a signed-in person's data. */
 export const tabletKey = ['tablet'] as const;
 export const signingLinkKey = ['signing-link'] as const;

@@ -8,6 +8,8 @@ export interface UploadOptions<T> {
   /** The multipart field the API reads the file from ("file", "portrait"). */
   field: string;
   file: File;
+  /** Text fields sent before the file (a record's version, say). */
+  fields?: Record<string, string>;
   schema?: z.ZodType<T>;
   /** Fraction sent so far, 0 to 1. */
   onProgress?: (fraction: number) => void;
@@ -18,7 +20,7 @@ export interface UploadOptions<T> {
  * Sends one file as multipart/form-data with XMLHttpRequest, whose upload events report real
  * progress (fetch cannot yet). Failures become the same ApiError every other call throws.
  */
-export function uploadFile<T = unknown>({ url, method = 'POST', field, file, schema, onProgress, signal }: UploadOptions<T>): Promise<T> {
+export function uploadFile<T = unknown>({ url, method = 'POST', field, file, fields = {}, schema, onProgress, signal }: UploadOptions<T>): Promise<T> {
   return new Promise<T>((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open(method, url);
@@ -48,6 +50,7 @@ export function uploadFile<T = unknown>({ url, method = 'POST', field, file, sch
     xhr.addEventListener('abort', () => reject(new DOMException('The upload was stopped.', 'AbortError')));
     signal?.addEventListener('abort', () => xhr.abort(), { once: true });
     const form = new FormData();
+    for (const [name, value] of Object.entries(fields)) form.append(name, value);
     form.append(field, file, file.name);
     xhr.send(form);
   });

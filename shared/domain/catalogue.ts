@@ -53,3 +53,65 @@ export function lotExpired(expiresOn: string | null, at: Date): boolean {
   const end = Date.parse(`${expiresOn}T00:00:00Z`) + 86_400_000;
   return at.getTime() >= end;
 }
+
+/** Where a lot stands: in date, close to its last day, past it, or taken out of use by the department. */
+export const LOT_STATES = ['in_date', 'expiring', 'expired', 'retired'] as const;
+/** One lot state. */
+export type LotState = (typeof LOT_STATES)[number];
+
+/** Lot states in plain words; the screen shows them with an icon as well as a colour. */
+export const LOT_STATE_LABELS: Record<LotState, string> = {
+  in_date: 'In date',
+  expiring: 'Expires soon',
+  expired: 'Expired',
+  retired: 'Retired',
+};
+
+/** A lot within this many days of its last day of use is flagged, so it is used or replaced in time. */
+export const LOT_EXPIRING_DAYS = 30;
+
+/** A retired lot is out of use whatever its date; otherwise expiry (`lotExpired`) and then the 30-day warning decide. */
+export function lotState(lot: { expiresOn: string | null; retiredAt: Date | string | null }, at: Date): LotState {
+  if (lot.retiredAt !== null) return 'retired';
+  if (lotExpired(lot.expiresOn, at)) return 'expired';
+  if (lot.expiresOn !== null && lotExpired(lot.expiresOn, new Date(at.getTime() + LOT_EXPIRING_DAYS * 86_400_000))) return 'expiring';
+  return 'in_date';
+}
+
+/** What a booking needs to know about a chosen lot. */
+export interface LotForTest {
+  lotId: string;
+  code: string;
+  productId: string;
+  formulationId: string;
+  expiresOn: string | null;
+  retiredAt: Date | null;
+}
+
+/**
+ * Why a lot cannot go on a test of this product, or null when it can: it must exist, belong to the
+ * product being tested, be in use and not be past its last day when the test is applied.
+ */
+export function lotRefusal(lot: LotForTest | undefined, productId: string, at: Date): string | null {
+  if (!lot) return 'That lot is not in the catalogue.';
+  if (lot.productId !== productId) return `Lot ${lot.code} belongs to another product.`;
+  if (lot.retiredAt !== null) return `Lot ${lot.code} has been retired and cannot be used for a test.`;
+  if (lotExpired(lot.expiresOn, at)) return `Lot ${lot.code} expired on ${lot.expiresOn} and cannot be used for a test.`;
+  return null;
+}
+
+/**
+ * Removers, and products led by a solvent (the first name on a label is the largest part by weight),
+ * carry the solvent caution wherever they and their safety data sheet are shown.
+ */
+export function needsSolventCaution(category: ProductCategory, ingredients: readonly { group: string | null; trivial: boolean }[] | null): boolean {
+  if (category === 'remover') return true;
+  const lead = (ingredients ?? []).find((i) => !i.trivial);
+  return lead?.group === 'solvents';
+}
+
+/** The solvent caution, in Plinth's words. */
+export const SOLVENT_CAUTION = {
+  title: 'Solvents and removers',
+  text: 'Work with good ventilation and no open flames nearby, protect your eyes, and read the product’s safety data sheet before use.',
+} as const;

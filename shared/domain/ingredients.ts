@@ -106,6 +106,14 @@ function candidates(name: string): string[] {
 }
 
 /**
+ * Every matching key a label name may be found under (`resolveIngredient` tries them in this order),
+ * so a store can fetch just the entries a list can match instead of the whole vocabulary.
+ */
+export function candidateKeys(name: string): string[] {
+  return [...new Set(candidates(name).map(normaliseInciName).filter((k) => k.length > 0))];
+}
+
+/**
  * The vocabulary entry a label name stands for: its INCI name or any synonym, else the name outside or
  * inside brackets ("Parfum (Fragrance)"), else one of its slash-joined parts ("Aqua/Water"), else a CAS number.
  */

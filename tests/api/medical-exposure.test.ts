@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { allRoutes } from '../../api/routes.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
 import { pdfText } from '../support/pdf.ts';
+import { samplePdf } from '../fixtures/pdfs.ts';
 import { concretePath } from '../support/routes.ts';
 
 /**
@@ -21,7 +22,15 @@ beforeAll(async () => {
   const production = await db.selectFrom('productions').select('id').where('name', '=', 'The Lantern Keeper').executeTakeFirstOrThrow();
   const templates = await db.selectFrom('consent_templates').select('id').execute();
   const bookings = await db.selectFrom('bookings').select('id').execute();
-  ids.id = [juno.id, production.id, ...consents.map((c) => c.id), templates[0]!.id, bookings[0]!.id];
+  // The catalogue holds nothing medical, but its reads are swept with real ids all the same: a product
+  // with a safety data sheet, an ingredient, and a protocol by its slug.
+  const harbour = await db.selectFrom('products').select('id').where('name', '=', 'Harbour Bond silicone adhesive').executeTakeFirstOrThrow();
+  const tidewater = await db.selectFrom('products').select('id').where('name', '=', 'Tidewater citrus remover').executeTakeFirstOrThrow();
+  const rosin = await db.selectFrom('ingredients').select('id').where('inci', '=', 'Colophonium').executeTakeFirstOrThrow();
+  const headCookie = await t.sessionFor('head@plinth.test');
+  const sds = await request(t.app).put(`/api/products/${tidewater.id}/safety-data-sheet`).set('Cookie', headCookie).field('version', '1').attach('sds', await samplePdf(), 'tidewater.pdf');
+  expect(sds.status).toBe(200);
+  ids.id = [juno.id, production.id, ...consents.map((c) => c.id), templates[0]!.id, bookings[0]!.id, harbour.id, tidewater.id, rosin.id, 'occluded-48h'];
   const answers = await db.selectFrom('consent_answers').select(['answer', 'medical']).where('medical', '=', true).execute();
   for (const a of answers) if (typeof a.answer === 'string' && a.answer.length > 3) medicalTexts.push(a.answer);
   expect(medicalTexts).toContain('Sticking plasters make my skin itch');
@@ -65,9 +74,13 @@ describe('no staff role but the designated lead reads health answers through any
           expect(text, `${email} ${url}`).not.toMatch(/"medical":true,"answer"/);
           if (res.status === 200 && (res.headers['content-type'] ?? '').includes('application/pdf')) {
             // Only a consent with no health questions may reach them as a PDF, and it must hold no health answer.
-            const consentId = /\/api\/consents\/([0-9a-f-]{36})\/pdf/.exec(url)![1]!;
-            const medical = await t.db.db.selectFrom('consent_answers').select('id').where('consent_id', '=', consentId).where('medical', '=', true).execute();
-            expect(medical, `${email} got the PDF of a consent with health questions`).toEqual([]);
+            const consentId = /\/api\/consents\/([0-9a-f-]{36})\/pdf/.exec(url)?.[1];
+            if (consentId) {
+              const medical = await t.db.db.selectFrom('consent_answers').select('id').where('consent_id', '=', consentId).where('medical', '=', true).execute();
+              expect(medical, `${email} got the PDF of a consent with health questions`).toEqual([]);
+            } else {
+              expect(url, 'the only other PDF staff may fetch is a safety data sheet').toMatch(/^\/api\/products\/[0-9a-f-]{36}\/safety-data-sheet$/);
+            }
             const pdf = await pdfText(res.body as Buffer);
             for (const m of medicalTexts) expect(pdf.text).not.toContain(m);
           }

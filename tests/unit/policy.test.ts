@@ -35,6 +35,9 @@ const TABLE: [Action, boolean[]][] = [
   ['reactions.report', [false, false, true, true, false, false, false]],
   ['casts.manage', [false, false, false, false, true, false, false]],
   ['production.view', [false, true, true, true, true, true, false]],
+  ['catalogue.read', [true, true, true, true, true, false, false]],
+  ['catalogue.manage', [false, true, true, false, false, false, false]],
+  ['protocols.manage', [false, true, true, false, false, false, false]],
 ];
 
 describe('can() on one production', () => {
@@ -64,6 +67,41 @@ describe('medical data', () => {
   it('follows a studio-wide performer record to any production the performer is engaged on', () => {
     expect(can(lead, 'medical.read', { performerId: PERF, performerProductionIds: [P2, P1] })).toBe(true);
     expect(can(lead, 'medical.read', { performerId: PERF, performerProductionIds: [P2] })).toBe(false);
+  });
+});
+
+describe('the catalogue and protocols are studio-wide', () => {
+  const STUDIO: Action[] = ['catalogue.read', 'catalogue.manage', 'protocols.manage'];
+  it('a head or lead on one production keeps the catalogue for every production, or with none named', () => {
+    for (const action of STUDIO) {
+      for (const who of [head, lead]) {
+        expect(can(who, action, { productionId: P2 }), action).toBe(true);
+        expect(can(who, action), action).toBe(true);
+      }
+    }
+  });
+  it('a lead appointment alone, with no membership, is enough to edit', () => {
+    const appointedOnly = actor({ leadOf: [P2] });
+    expect(can(appointedOnly, 'catalogue.manage')).toBe(true);
+    expect(can(appointedOnly, 'protocols.manage')).toBe(true);
+  });
+  it('artists and archivists read it anywhere and edit nothing', () => {
+    for (const who of [artist, archivist]) {
+      expect(can(who, 'catalogue.read', { productionId: P2 })).toBe(true);
+      expect(can(who, 'catalogue.manage')).toBe(false);
+      expect(can(who, 'protocols.manage')).toBe(false);
+    }
+  });
+  it('a performer reads it only through a staff role held elsewhere', () => {
+    expect(can(performer, 'catalogue.read')).toBe(false);
+    const alsoArtist = actor({ memberships: [{ productionId: P1, role: 'performer' }, { productionId: P2, role: 'artist' }], performerIds: [PERF] });
+    expect(can(alsoArtist, 'catalogue.read', { productionId: P1 })).toBe(true);
+    expect(can(alsoArtist, 'catalogue.manage')).toBe(false);
+  });
+  it('canSomewhere agrees with can for the navigation', () => {
+    for (const action of STUDIO) {
+      for (const who of [admin, head, lead, artist, archivist, performer, nobody]) expect(canSomewhere(who, action), action).toBe(can(who, action));
+    }
   });
 });
 
@@ -106,7 +144,10 @@ describe('every action, for every role, on one performer record of production P1
     'consents.request': [N, Y, Y, N, N, N, N, N],
     'medical.read': [N, N, Y, N, N, Y, N, N],
     'medical.write': [N, N, Y, N, N, N, N, N],
-    'catalogue.manage': [N, Y, Y, N, N, N, N, N],
+    // Studio-wide: one department's stock, read by staff and the administrator, kept by heads and leads anywhere.
+    'catalogue.read': [Y, Y, Y, Y, Y, N, N, Y],
+    'catalogue.manage': [N, Y, Y, N, N, N, N, Y],
+    'protocols.manage': [N, Y, Y, N, N, N, N, Y],
     'patchtests.book': [N, Y, Y, N, N, N, N, N],
     'clearance.check': [N, Y, Y, Y, N, N, N, N],
     'applications.log': [N, N, N, Y, N, N, N, N],
