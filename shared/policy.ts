@@ -47,7 +47,10 @@ export type Action =
   | 'clearance.check'
   | 'applications.log'
   | 'reactions.report'
+  | 'casts.read'
   | 'casts.manage'
+  | 'archive.view'
+  | 'locations.manage'
   | 'performer.self'
   | 'templates.manage';
 
@@ -68,6 +71,7 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'catalogue.manage',
   'patchtests.book',
   'clearance.check',
+  'casts.read',
 ]);
 const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([...HEAD_ACTIONS, 'medical.read', 'medical.write']);
 const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
@@ -76,8 +80,9 @@ const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'clearance.check',
   'applications.log',
   'reactions.report',
+  'casts.read',
 ]);
-const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'casts.manage']);
+const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'casts.read', 'casts.manage']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
 
 const ADMIN_ONLY: ReadonlySet<Action> = new Set<Action>([
@@ -122,6 +127,16 @@ function productionsOf(resource: Resource): string[] {
 }
 
 /**
+ * The archive's studio-wide actions. One store keeps every production's casts, so its places are
+ * kept by whoever is an archivist somewhere, and the Find screen opens for whoever may read a
+ * cast somewhere; each cast is still checked against its own production and performer.
+ */
+const STUDIO_WIDE_FROM: Partial<Record<Action, Action>> = {
+  'archive.view': 'casts.read',
+  'locations.manage': 'casts.manage',
+};
+
+/**
  * May this actor do this action on this resource? Studio-wide actions need the admin flag;
  * production actions need a role on the resource's production (or, for a studio-wide
  * performer record, on any production the performer is engaged on). Medical data is open
@@ -131,6 +146,8 @@ export function can(actor: Actor, action: Action, resource: Resource = {}): bool
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
   // Consent templates are studio-wide: kept by administrators and by any head or lead.
   if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
+  const studioWide = STUDIO_WIDE_FROM[action];
+  if (studioWide) return canSomewhere(actor, studioWide);
 
   const isSelf = resource.performerId != null && actor.performerIds.includes(resource.performerId);
   if (action === 'performer.self') return isSelf;
@@ -144,6 +161,8 @@ export function can(actor: Actor, action: Action, resource: Resource = {}): bool
 export function canSomewhere(actor: Actor, action: Action): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
   if (action === 'templates.manage') return actor.isAdmin || canSomewhere(actor, 'consents.manage');
+  const studioWide = STUDIO_WIDE_FROM[action];
+  if (studioWide) return canSomewhere(actor, studioWide);
   if (action === 'performer.self' || action === 'medical.read') {
     if (actor.performerIds.length > 0) return true;
   }

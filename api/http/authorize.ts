@@ -20,7 +20,10 @@ const ACTION_WORDS: Record<Action, string> = {
   'clearance.check': 'check clearances',
   'applications.log': 'log applications',
   'reactions.report': 'report reactions',
+  'casts.read': 'see life casts',
   'casts.manage': 'manage life casts',
+  'archive.view': 'use the life-cast archive',
+  'locations.manage': 'manage the archive’s storage places',
   'performer.self': 'act for this performer',
   'templates.manage': 'edit consent templates',
 };

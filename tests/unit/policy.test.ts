@@ -34,6 +34,8 @@ const TABLE: [Action, boolean[]][] = [
   ['applications.log', [false, false, true, true, false, false, false]],
   ['reactions.report', [false, false, true, true, false, false, false]],
   ['casts.manage', [false, false, false, false, true, false, false]],
+  // Everyone who works with the performer's casts reads them; only the archivist records their moves.
+  ['casts.read', [false, true, true, true, true, false, false]],
   ['production.view', [false, true, true, true, true, true, false]],
 ];
 
@@ -65,6 +67,36 @@ describe('medical data', () => {
     expect(can(lead, 'medical.read', { performerId: PERF, performerProductionIds: [P2, P1] })).toBe(true);
     expect(can(lead, 'medical.read', { performerId: PERF, performerProductionIds: [P2] })).toBe(false);
   });
+});
+
+describe('the life-cast archive', () => {
+  const CAST = { productionId: P2, performerId: PERF, performerProductionIds: [P1] };
+  it('a cast from an earlier production is read by staff of a production its performer is engaged on', () => {
+    for (const a of [head, lead, artist, archivist]) expect(can(a, 'casts.read', CAST)).toBe(true);
+    expect(can(archivist, 'casts.manage', CAST)).toBe(true);
+    expect(can(head, 'casts.manage', CAST)).toBe(false);
+  });
+  it('staff of an unrelated production neither read nor manage the cast', () => {
+    const elsewhere = actor({ memberships: [{ productionId: P2, role: 'archivist' }] });
+    expect(can(elsewhere, 'casts.read', { productionId: P1, performerId: OTHER_PERF, performerProductionIds: [P1] })).toBe(false);
+    expect(can(elsewhere, 'casts.manage', { productionId: P1, performerProductionIds: [P1] })).toBe(false);
+  });
+  it('the performer reads their own casts through their own record, not as staff', () => {
+    expect(can(performer, 'casts.read', CAST)).toBe(false);
+    expect(can(performer, 'performer.self', CAST)).toBe(true);
+  });
+  // Studio-wide: admin, head, lead, artist, archivist, performer, nobody.
+  const STUDIO: [string, boolean[]][] = [
+    ['archive.view', [false, true, true, true, true, false, false]],
+    ['locations.manage', [false, false, false, false, true, false, false]],
+  ];
+  const actors = [admin, head, lead, artist, archivist, performer, nobody];
+  for (const [action, expected] of STUDIO) {
+    it(`${action} is studio-wide and follows the roles that grant it somewhere`, () => {
+      expect(actors.map((a) => can(a, action as Action))).toEqual(expected);
+      expect(actors.map((a) => canSomewhere(a, action as Action))).toEqual(expected);
+    });
+  }
 });
 
 describe('scoping', () => {

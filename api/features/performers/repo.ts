@@ -141,6 +141,38 @@ async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) =>
   });
 }
 
+// ---- for other features' queries (the archive's cast search)
+
+/** Runs another feature's name search with the same trigram cut-off as the registry's. */
+export function withNameSearch<T>(db: Db, fn: (db: Db) => Promise<T>): Promise<T> {
+  return withSearchSettings(db, true, fn);
+}
+
+/** Ids of performers whose legal or preferred name matches one search term, closely or by spelling; inside withNameSearch. */
+export function performerIdsMatchingName(db: Db, term: string) {
+  return db
+    .selectFrom('performers')
+    .select('performers.id')
+    .where(sql<boolean>`((${term} <% ${SEARCH_NAME} and word_similarity(${term}, ${SEARCH_NAME}) > ${WORD_SIMILARITY_THRESHOLD}) or ${SEARCH_NAME} ilike ${likePattern(term)})`);
+}
+
+/** How closely a term matches the name of the performer whose id is `performerId`, 0 to 1, for ranking. */
+export function performerNameSimilarity(term: string, performerId: RawBuilder<unknown>): RawBuilder<number> {
+  return sql<number>`(select word_similarity(${term}, ${SEARCH_NAME}) from performers where performers.id = ${performerId})`;
+}
+
+/** Ids of performers engaged on any of these productions, as a sub-select. */
+export function performersEngagedOn(db: Db, productionIds: readonly string[]) {
+  return db.selectFrom('engagements').select('engagements.performer_id').where('engagements.production_id', 'in', productionIds.length ? [...productionIds] : ['00000000-0000-0000-0000-000000000000']);
+}
+
+/** The name a performer goes by (preferred, else legal), by id. */
+export async function performerNamesByIds(db: Db, ids: readonly string[]): Promise<Map<string, string>> {
+  if (ids.length === 0) return new Map();
+  const rows = await db.selectFrom('performers').select(['id', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where('id', 'in', [...new Set(ids)]).execute();
+  return new Map(rows.map((r) => [r.id, r.name]));
+}
+
 function sortKinds(kinds: readonly string[]): ConsentKind[] {
   return CONSENT_KINDS.filter((k) => kinds.includes(k));
 }
