@@ -3,6 +3,7 @@ import type { Seat } from '#shared/domain/seats.ts';
 import type { Actor } from '#shared/policy.ts';
 import type { Home } from '#shared/schemas/session.ts';
 import type { AppContext } from '../../context.ts';
+import { archivistTasks } from '../archive/home-tasks.ts';
 import { listBookings } from '../bookings/routes.ts';
 
 const DAY = 86_400_000;
@@ -111,6 +112,10 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
       count: active,
       href: `/performers/${performerId}`,
     });
+    return tasks;
+  }
+  if (seat.role === 'archivist') {
+    tasks.push(...(await archivistTasks(ctx.db, actor)));
     return tasks;
   }
   if (seat.role === 'head' || seat.role === 'lead') {
