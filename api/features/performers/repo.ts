@@ -148,12 +148,21 @@ export function withNameSearch<T>(db: Db, fn: (db: Db) => Promise<T>): Promise<T
   return withSearchSettings(db, true, fn);
 }
 
-/** Ids of performers whose legal or preferred name matches one search term, closely or by spelling; inside withNameSearch. */
+/**
+ * Ids of performers whose legal or preferred name matches one search term, inside withNameSearch.
+ * Close spellings count only for terms of three letters or more without digits: one trigram of
+ * "b2" or "oz" is a third of the term, so it would match every name starting with that letter.
+ */
 export function performerIdsMatchingName(db: Db, term: string) {
+  const close = term.length >= 3 && !/\d/.test(term);
   return db
     .selectFrom('performers')
     .select('performers.id')
-    .where(sql<boolean>`((${term} <% ${SEARCH_NAME} and word_similarity(${term}, ${SEARCH_NAME}) > ${WORD_SIMILARITY_THRESHOLD}) or ${SEARCH_NAME} ilike ${likePattern(term)})`);
+    .where(
+      close
+        ? sql<boolean>`((${term} <% ${SEARCH_NAME} and word_similarity(${term}, ${SEARCH_NAME}) > ${WORD_SIMILARITY_THRESHOLD}) or ${SEARCH_NAME} ilike ${likePattern(term)})`
+        : sql<boolean>`${SEARCH_NAME} ilike ${likePattern(term)}`,
+    );
 }
 
 /** How closely a term matches the name of the performer whose id is `performerId`, 0 to 1, for ranking. */
