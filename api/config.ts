@@ -38,8 +38,7 @@ const EnvSchema = z
       .default('Europe/London')
       .refine((tz) => {
         try {
-          new Intl.DateTimeFormat('en', { timeZone: tz });
-          return true;
+          return new Intl.DateTimeFormat('en', { timeZone: tz }).resolvedOptions().timeZone.length > 0;
         } catch {
           return false;
         }

@@ -18,3 +18,4 @@ export const tabletKey = ['tablet'] as const;
 export const signingLinkKey = ['signing-link'] as const;
 export const withdrawalLinkKey = ['withdrawal-link'] as const;
 export const identityLinkKey = ['identity-link'] as const;
+export const archiveKey = ['archive'] as const;

@@ -14,6 +14,7 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
+import { PerformerCasts } from '../../archive/components/performer-casts.tsx';
 import { BookingForm } from '../../bookings/components/booking-form.tsx';
 import { BookingsTable } from '../../bookings/components/bookings-table.tsx';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../session/seat.ts';
@@ -168,9 +169,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
         <EmptyState title="Nothing recorded yet.">Recorded here once the department starts testing.</EmptyState>
       </Section>
 
-      <Section title="Life casts">
-        <EmptyState title="Nothing recorded yet.">Recorded here once the department starts casting.</EmptyState>
-      </Section>
+      <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
     </div>
   );
 }
