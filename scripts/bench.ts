@@ -11,12 +11,15 @@ import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
+import { BODY_REGIONS, CAST_KINDS } from '../shared/domain/archive-casts.ts';
+import { LABEL_CODE_SPACE, labelCodeFromNumber } from '../shared/domain/label-codes.ts';
 import { createThrowawayCluster, ensureDatabase } from './pg.ts';
 
 const USERS = Number(process.env.BENCH_USERS ?? 5000);
 const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 400);
 const CONCURRENCY = Number(process.env.BENCH_CONCURRENCY ?? 8);
 const PERFORMERS = Number(process.env.BENCH_PERFORMERS ?? 3000);
+const CASTS = Number(process.env.BENCH_CASTS ?? 100_000);
 
 function percentile(sorted: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!;
@@ -76,6 +79,40 @@ try {
   }
   console.log(`Loaded ${PERFORMERS} extra performers on The Lantern Keeper in ${((performance.now() - t1) / 1000).toFixed(2)} s`);
 
+  // The archive: CASTS casts of the bench performers, spread over the demo store's shelves and bins.
+  const t2 = performance.now();
+  const performerIds = (await handle.db.selectFrom('performers').select('id').execute()).map((r) => r.id);
+  const shelves = (await handle.db.selectFrom('archive_locations').select('id').where('level', 'in', ['shelf', 'bin']).execute()).map((r) => r.id);
+  const taken = new Set((await handle.db.selectFrom('casts').select('label_code').execute()).map((r) => r.label_code));
+  const BATCH = 2500;
+  for (let i = 0; i < CASTS; i += BATCH) {
+    const rows = Array.from({ length: Math.min(BATCH, CASTS - i) }, (_, k) => {
+      const n = i + k;
+      let labelNumber = (n * 7_919 + 104_729) % LABEL_CODE_SPACE;
+      while (taken.has(labelCodeFromNumber('cast', labelNumber))) labelNumber = (labelNumber + 1) % LABEL_CODE_SPACE;
+      const label = labelCodeFromNumber('cast', labelNumber);
+      taken.add(label);
+      const shelf = shelves[n % shelves.length]!;
+      return {
+        label_code: label,
+        performer_id: performerIds[n % performerIds.length]!,
+        production_id: lantern.id,
+        region: BODY_REGIONS[n % BODY_REGIONS.length]!,
+        kind: CAST_KINDS[(n >> 2) % CAST_KINDS.length]!,
+        material: 'Gypsum stone',
+        made_on: `20${String(10 + (n % 16)).padStart(2, '0')}-0${1 + (n % 9)}-1${n % 10}`,
+        made_by: 'Bench Maker',
+        normal_location_id: shelf,
+        current_location_id: shelf,
+        since: new Date(),
+      };
+    });
+    await handle.db.insertInto('casts').values(rows).execute();
+  }
+  await handle.pool.query('analyze casts; analyze performers; analyze engagements; analyze productions');
+  console.log(`Loaded ${CASTS} casts in ${((performance.now() - t2) / 1000).toFixed(2)} s`);
+  const someLabel = labelCodeFromNumber('cast', (4_242 * 7_919 + 104_729) % LABEL_CODE_SPACE);
+
   const secret = 'bench-session-secret-0123456789abcdef-xyz';
   const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench'), STORAGE_DIR: storage });
   const app = createApp({
@@ -96,6 +133,7 @@ try {
   const cookie = await cookieFor('admin@plinth.test');
   const head = await cookieFor('head@plinth.test');
   const lead = await cookieFor('lead@plinth.test');
+  const archivist = await cookieFor('archivist@plinth.test');
 
   console.log(`\n${REQUESTS} requests each, ${CONCURRENCY} at a time, on ${base}:`);
   await measure('GET /api/health', `${base}/api/health`, cookie);
@@ -108,6 +146,13 @@ try {
   await measure('GET /api/performers fuzzy "castelane" (head)', `${base}/api/performers?q=castelane`, head);
   await measure('GET /api/performers consent=incomplete (head)', `${base}/api/performers?consent=incomplete&pageSize=25`, head);
   await measure('GET /api/consent-templates (lead)', `${base}/api/consent-templates`, lead);
+  const casts = `${CASTS + 20} casts`;
+  await measure(`GET /api/casts page 1 of ${casts}`, `${base}/api/casts?pageSize=25`, archivist);
+  await measure('GET /api/casts fuzzy "castelane"', `${base}/api/casts?q=castelane`, archivist);
+  await measure('GET /api/casts "arden face mold" (3 terms)', `${base}/api/casts?q=arden%20face%20mold`, archivist);
+  await measure('GET /api/casts label code', `${base}/api/casts?q=${someLabel}`, archivist);
+  await measure('GET /api/casts code path GH/NORTH/R1', `${base}/api/casts?q=GH%2FNORTH%2FR1&pageSize=25`, archivist);
+  await measure('GET /api/casts region=face&kind=mold, page 40', `${base}/api/casts?region=face&kind=mold&page=40`, archivist);
 
   server.closeAllConnections();
   server.close();

@@ -2,7 +2,7 @@ import { type Expression, type RawBuilder, type SqlBool, sql } from 'kysely';
 import type { BodyRegion, CastKind, CastStatus, ConditionGrade } from '#shared/domain/archive-casts.ts';
 import type { CastListQuery } from '#shared/schemas/archive.ts';
 import type { Db } from '../../db/index.ts';
-import { performerIdsMatchingName, performerNameSimilarity, performersEngagedOn, withNameSearch } from '../performers/repo.ts';
+import { performersEngagedOn, performersMatchingName, withNameSearch } from '../performers/repo-search.ts';
 import { productionIdsMatchingName } from '../productions/repo.ts';
 
 /** A cast as stored, with the names of its performer and production for display. */
@@ -187,7 +187,15 @@ export interface CastSearch {
   terms?: readonly { term: string; regions: BodyRegion[]; kinds: CastKind[]; placeIds: string[] }[];
 }
 
-function searchConditions(db: Db, scope: CastScope, s: CastSearch, now: Date): Expression<SqlBool>[] {
+/** What each term matched among performers and productions, looked up first so the cast query only compares ids. */
+interface TermHits {
+  performerIds: string[];
+  productionIds: string[];
+}
+
+const uuids = (ids: readonly string[]) => sql`${[...ids]}::uuid[]`;
+
+function searchConditions(db: Db, scope: CastScope, s: CastSearch, hits: readonly TermHits[], now: Date): Expression<SqlBool>[] {
   const conds: Expression<SqlBool>[] = [inScope(db, scope)];
   const f = s.filters;
   if (f.region) conds.push(sql<SqlBool>`casts.region = ${f.region}`);
@@ -196,22 +204,22 @@ function searchConditions(db: Db, scope: CastScope, s: CastSearch, now: Date): E
   if (f.productionId) conds.push(sql<SqlBool>`casts.production_id = ${f.productionId}`);
   if (f.overdue === 'true') conds.push(sql<SqlBool>`(casts.status in ('checked_out', 'on_loan') and casts.due_back_at < ${now})`);
   if (s.labelCode) conds.push(sql<SqlBool>`casts.label_code = ${s.labelCode}`);
-  if (s.placeIds) conds.push(s.placeIds.length ? sql<SqlBool>`casts.current_location_id in (${sql.join([...s.placeIds])})` : sql<SqlBool>`false`);
-  for (const t of s.terms ?? []) {
-    // Each arm is a lookup an index answers, so PostgreSQL can OR them as bitmaps.
-    const arms: RawBuilder<unknown>[] = [
-      sql`casts.performer_id in (${performerIdsMatchingName(db, t.term)})`,
-      sql`casts.production_id in (${productionIdsMatchingName(db, t.term)})`,
-    ];
+  if (s.placeIds) conds.push(sql<SqlBool>`casts.current_location_id = any(${uuids(s.placeIds)})`);
+  (s.terms ?? []).forEach((t, i) => {
+    // Each arm is a lookup a b-tree answers, so PostgreSQL can OR them as bitmaps.
+    const arms: RawBuilder<unknown>[] = [];
+    const hit = hits[i]!;
+    if (hit.performerIds.length) arms.push(sql`casts.performer_id = any(${uuids(hit.performerIds)})`);
+    if (hit.productionIds.length) arms.push(sql`casts.production_id = any(${uuids(hit.productionIds)})`);
     if (t.regions.length) arms.push(sql`casts.region in (${sql.join(t.regions)})`);
     if (t.kinds.length) arms.push(sql`casts.kind in (${sql.join(t.kinds)})`);
-    if (t.placeIds.length) arms.push(sql`casts.current_location_id in (${sql.join(t.placeIds)})`);
-    conds.push(sql<SqlBool>`(${sql.join(arms, sql` or `)})`);
-  }
+    if (t.placeIds.length) arms.push(sql`casts.current_location_id = any(${uuids(t.placeIds)})`);
+    conds.push(arms.length ? sql<SqlBool>`(${sql.join(arms, sql` or `)})` : sql<SqlBool>`false`);
+  });
   return conds;
 }
 
-function ordering(s: CastSearch): RawBuilder<unknown> {
+function ordering(s: CastSearch, ranked: boolean): RawBuilder<unknown> {
   const dir = sql.raw(s.filters.dir === 'desc' ? 'desc' : 'asc');
   const name = sql`lower(coalesce(p.preferred_name, p.legal_name))`;
   const tail = sql`casts.label_code ${dir}`;
@@ -222,29 +230,40 @@ function ordering(s: CastSearch): RawBuilder<unknown> {
       return sql`casts.made_on ${dir}, ${tail}`;
     case 'performer':
       return sql`${name} ${dir}, casts.made_on, ${tail}`;
-    case 'relevance': {
-      const terms = s.terms ?? [];
-      if (terms.length === 0) return sql`${name}, casts.made_on, casts.label_code`;
-      const score = sql.join(terms.map((t) => sql`coalesce(${performerNameSimilarity(t.term, sql.ref('casts.performer_id'))}, 0)`), sql` + `);
-      return sql`${score} desc, ${name}, casts.made_on, casts.label_code`;
-    }
+    case 'relevance':
+      // Best-matching performer names first; without words to rank by, the newest casts first (indexed).
+      return ranked ? sql`coalesce(rank.ordinality, 2147483647), casts.made_on desc, casts.label_code` : sql`casts.made_on desc, casts.label_code`;
   }
 }
 
 /** One page of casts in scope matching the search, and how many match in all. */
 export async function searchCasts(db: Db, scope: CastScope, s: CastSearch, now: Date): Promise<{ items: CastRecord[]; total: number }> {
   return withNameSearch(db, async (trx) => {
-    const conds = searchConditions(trx, scope, s, now);
+    // Short, index-backed queries: compiling them to machine code costs more than it saves.
+    await sql`set local jit = off`.execute(trx);
+    const hits: TermHits[] = [];
+    const score = new Map<string, number>();
+    for (const t of s.terms ?? []) {
+      const performers = await performersMatchingName(trx, t.term);
+      for (const p of performers) score.set(p.id, (score.get(p.id) ?? 0) + p.score);
+      hits.push({ performerIds: performers.map((p) => p.id), productionIds: await productionIdsMatchingName(trx, t.term) });
+    }
+    const conds = searchConditions(trx, scope, s, hits, now);
     const where = (eb: { and: (e: Expression<SqlBool>[]) => Expression<SqlBool> }) => eb.and(conds);
-    const [rows, count] = await Promise.all([
-      baseQuery(trx)
-        .where(where)
-        .orderBy(ordering(s))
-        .limit(s.filters.pageSize)
-        .offset((s.filters.page - 1) * s.filters.pageSize)
-        .execute(),
-      trx.selectFrom('casts').select((eb) => eb.fn.countAll<string>().as('n')).where(where).executeTakeFirstOrThrow(),
-    ]);
+    const ranked = s.filters.sort === 'relevance' && score.size > 0;
+    const byScore = [...score].sort((a, b) => b[1] - a[1]).map(([id]) => id);
+    const page = baseQuery(trx);
+    // Rank by a join on the ordered ids rather than a search of the array per row; a one-column
+    // function aliased "rank" names its column "rank" too.
+    const rank = sql<{ rank: string; ordinality: number }>`unnest(${uuids(byScore)}) with ordinality`.as('rank');
+    const query = ranked ? page.leftJoin(rank, (j) => j.on(sql<SqlBool>`rank.rank = casts.performer_id`)) : page;
+    const rows = await query
+      .where(where)
+      .orderBy(ordering(s, ranked))
+      .limit(s.filters.pageSize)
+      .offset((s.filters.page - 1) * s.filters.pageSize)
+      .execute();
+    const count = await trx.selectFrom('casts').select((eb) => eb.fn.countAll<string>().as('n')).where(where).executeTakeFirstOrThrow();
     return { items: rows.map(toRecord), total: Number(count.n) };
   });
 }

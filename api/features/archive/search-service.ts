@@ -83,7 +83,6 @@ export async function findCasts(db: Db, actor: Actor, query: CastListQuery, orig
       search.terms = termsOf(read.terms, tree);
       break;
   }
-  if (query.sort === 'relevance' && matched !== 'text') search.filters = { ...query, sort: 'performer' };
   const { items, total } = await searchCasts(db, scope, search, now);
   return {
     items: items.map((c) => toListItem(c, tree, now)),

@@ -70,7 +70,7 @@ const PERFORMER_COLUMNS = [
 // ---- SQL pieces shared by the list, its count and the export
 
 /** The expression the trigram index is built on (performers_name_trgm_idx); keep it identical so the index is used. */
-const SEARCH_NAME = sql<string>`(coalesce(performers.preferred_name, '') || ' ' || performers.legal_name)`;
+export const SEARCH_NAME = sql<string>`(coalesce(performers.preferred_name, '') || ' ' || performers.legal_name)`;
 const SORT_NAME = sql<string>`lower(coalesce(performers.preferred_name, performers.legal_name))`;
 /** Fuzzy-match cut-off for word_similarity; the `<%` operator reads the same value from the session setting. */
 export const WORD_SIMILARITY_THRESHOLD = 0.3;
@@ -87,7 +87,7 @@ const activeKindCount = (productionIds: readonly string[]) =>
 const EXPIRING_WITHIN_30 = sql`c.expires_at is not null and c.expires_at <= now() + interval '30 days'`;
 const WITHDRAWN = sql`c.withdrawn_at is not null and c.withdrawn_at <= now()`;
 
-function likePattern(q: string): string {
+export function likePattern(q: string): string {
   return `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 }
 
@@ -133,53 +133,12 @@ function orderings(q: Pick<PerformerListQuery, 'q' | 'sort' | 'dir'>): RawBuilde
  * Runs a search in a transaction whose `pg_trgm.word_similarity_threshold` matches ours, so the
  * index-backed `<%` operator and the word_similarity() cut-off agree.
  */
-async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
+export async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
   if (!searching) return fn(db);
   return db.transaction().execute(async (trx) => {
     await sql`select set_config('pg_trgm.word_similarity_threshold', ${String(WORD_SIMILARITY_THRESHOLD)}, true)`.execute(trx);
     return fn(trx);
   });
-}
-
-// ---- for other features' queries (the archive's cast search)
-
-/** Runs another feature's name search with the same trigram cut-off as the registry's. */
-export function withNameSearch<T>(db: Db, fn: (db: Db) => Promise<T>): Promise<T> {
-  return withSearchSettings(db, true, fn);
-}
-
-/**
- * Ids of performers whose legal or preferred name matches one search term, inside withNameSearch.
- * Close spellings count only for terms of three letters or more without digits: one trigram of
- * "b2" or "oz" is a third of the term, so it would match every name starting with that letter.
- */
-export function performerIdsMatchingName(db: Db, term: string) {
-  const close = term.length >= 3 && !/\d/.test(term);
-  return db
-    .selectFrom('performers')
-    .select('performers.id')
-    .where(
-      close
-        ? sql<boolean>`((${term} <% ${SEARCH_NAME} and word_similarity(${term}, ${SEARCH_NAME}) > ${WORD_SIMILARITY_THRESHOLD}) or ${SEARCH_NAME} ilike ${likePattern(term)})`
-        : sql<boolean>`${SEARCH_NAME} ilike ${likePattern(term)}`,
-    );
-}
-
-/** How closely a term matches the name of the performer whose id is `performerId`, 0 to 1, for ranking. */
-export function performerNameSimilarity(term: string, performerId: RawBuilder<unknown>): RawBuilder<number> {
-  return sql<number>`(select word_similarity(${term}, ${SEARCH_NAME}) from performers where performers.id = ${performerId})`;
-}
-
-/** Ids of performers engaged on any of these productions, as a sub-select. */
-export function performersEngagedOn(db: Db, productionIds: readonly string[]) {
-  return db.selectFrom('engagements').select('engagements.performer_id').where('engagements.production_id', 'in', productionIds.length ? [...productionIds] : ['00000000-0000-0000-0000-000000000000']);
-}
-
-/** The name a performer goes by (preferred, else legal), by id. */
-export async function performerNamesByIds(db: Db, ids: readonly string[]): Promise<Map<string, string>> {
-  if (ids.length === 0) return new Map();
-  const rows = await db.selectFrom('performers').select(['id', sql<string>`coalesce(preferred_name, legal_name)`.as('name')]).where('id', 'in', [...new Set(ids)]).execute();
-  return new Map(rows.map((r) => [r.id, r.name]));
 }
 
 function sortKinds(kinds: readonly string[]): ConsentKind[] {

@@ -136,9 +136,10 @@ export async function findHeads(db: Db, productionId: string): Promise<{ email: 
     .execute();
 }
 
-/** Ids of productions whose name holds the term, as a sub-select (trigram-indexed). */
-export function productionIdsMatchingName(db: Db, term: string) {
-  return db.selectFrom('productions').select('productions.id').where('productions.name', 'ilike', `%${term.replace(/[\\%_]/g, (c) => `\\${c}`)}%`);
+/** Ids of productions whose name holds the term (trigram-indexed). */
+export async function productionIdsMatchingName(db: Db, term: string): Promise<string[]> {
+  const rows = await db.selectFrom('productions').select('productions.id').where('productions.name', 'ilike', `%${term.replace(/[\\%_]/g, (c) => `\\${c}`)}%`).execute();
+  return rows.map((r) => r.id);
 }
 
 /** Staff who work on these productions (any role but performer), by name, for naming who holds or authorises something. */
