@@ -119,6 +119,37 @@ describe('the archivist on a tablet', () => {
     }
   });
 
+  it('the store, the retention review and a new cast’s form pass an accessibility check (landscape)', async () => {
+    const context = await tabletContext(browser, TABLET_LANDSCAPE);
+    const page = await context.newPage();
+    try {
+      await signInThroughIdp(page, appUrl, 'archivist@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('heading', { level: 1, name: /Today · Archivist/ }).waitFor();
+      await nav(page).getByRole('link', { name: 'Storage places' }).click();
+      await page.getByTestId('places-table').waitFor();
+      expect(await page.getByTestId('places-table').textContent()).toContain('GH/NORTH/R1/2/B1');
+      await page.getByLabel('Label for GH/NORTH/R1/2/B1').check();
+      await page.getByTestId('print-place-labels').filter({ hasText: 'Print labels for 1 place' }).waitFor();
+      await expectAccessible(page, 'storage places');
+      await noSidewaysScroll(page, 'storage places');
+
+      await nav(page).getByRole('link', { name: 'Retention' }).click();
+      const due = page.getByTestId('retention-due');
+      await due.getByRole('link').first().waitFor();
+      expect(await due.textContent()).toContain(demoCastLabel('halvard-teeth-positive'));
+      await expectAccessible(page, 'retention');
+
+      await nav(page).getByRole('link', { name: 'Archive' }).click();
+      await page.getByRole('link', { name: 'Record a cast' }).click();
+      await page.getByTestId('cast-form').waitFor();
+      expect(await page.getByRole('complementary', { name: 'Life casting safety' }).textContent()).toContain('never enclose fingers, hands or limbs');
+      await expectAccessible(page, 'record a cast');
+      await noSidewaysScroll(page, 'record a cast');
+    } finally {
+      await context.close();
+    }
+  });
+
   it('the performer sees their own casts and where each is kept on their record', async () => {
     const context = await tabletContext(browser, TABLET_PORTRAIT);
     const page = await context.newPage();
