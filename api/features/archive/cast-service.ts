@@ -130,7 +130,8 @@ export async function updateCast(db: Db, actor: Actor, id: string, input: Update
 export async function recordConditionCheck(db: Db, actor: Actor, id: string, input: ConditionCheckInput, req: Request): Promise<string> {
   const { cast } = await loadCastFor(db, actor, id, 'casts.manage');
   const [y, m, d] = input.checkedOn.split('-').map(Number) as [number, number, number];
-  // A date is "not in the future" if the day has begun anywhere: compare its start (UTC) with now.
+  // A calendar date is not in the future once that day has begun somewhere (UTC+14 is the earliest):
+  // the day's start in UTC is compared with now plus fourteen hours.
   const refusal = conditionCheckRefusal({ ...input, checkedOn: new Date(Date.UTC(y, m - 1, d)) }, new Date(Date.now() + 14 * 3_600_000));
   if (refusal) throw invalid(refusal);
   return db.transaction().execute(async (trx) => {
