@@ -31,6 +31,18 @@ const EnvSchema = z
     TRUST_PROXY: z.enum(['true', 'false']).default('false'),
     // Unset means on, except under NODE_ENV=test where tests that need them switch them on.
     RATE_LIMITS: z.enum(['on', 'off']).optional(),
+    // Unset means on, except under NODE_ENV=test where tests start the job runner themselves.
+    JOBS: z.enum(['on', 'off']).optional(),
+    TIME_ZONE: z
+      .string()
+      .default('Europe/London')
+      .refine((tz) => {
+        try {
+          return new Intl.DateTimeFormat('en', { timeZone: tz }).resolvedOptions().timeZone.length > 0;
+        } catch {
+          return false;
+        }
+      }, 'must be an IANA time zone such as Europe/London'),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && env.SESSION_SECRET === DEV_SESSION_SECRET) {
@@ -68,6 +80,10 @@ export interface Config {
   startFakes: boolean;
   trustProxy: boolean;
   rateLimits: boolean;
+  /** Run background jobs (daily reminders) in this process. */
+  jobs: boolean;
+  /** The studio's time zone: daily jobs run by its clock, and "once a day" counts its days. */
+  timeZone: string;
   root: string;
 }
 
@@ -116,6 +132,8 @@ export function parseConfig(source: Record<string, string | undefined>): Config 
     startFakes: env.START_FAKES ? env.START_FAKES === 'true' : env.NODE_ENV !== 'production',
     trustProxy: env.TRUST_PROXY === 'true',
     rateLimits: env.RATE_LIMITS ? env.RATE_LIMITS === 'on' : env.NODE_ENV !== 'test',
+    jobs: env.JOBS ? env.JOBS === 'on' : env.NODE_ENV !== 'test',
+    timeZone: env.TIME_ZONE,
     root,
   };
 }

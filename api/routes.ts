@@ -1,5 +1,8 @@
 import { authRoutes } from './auth/routes.ts';
 import { auditRoutes } from './features/audit/routes.ts';
+import { archiveRoutes } from './features/archive/archive-routes.ts';
+import { castRoutes } from './features/archive/cast-routes.ts';
+import { locationRoutes } from './features/archive/location-routes.ts';
 import { healthRoutes } from './features/health/routes.ts';
 import { identityRoutes } from './features/performers/identity-routes.ts';
 import { outboxRoutes } from './features/outbox/routes.ts';
@@ -32,6 +35,9 @@ const featureRoutes: AnyRoute[] = [
   ...ingredientRoutes,
   ...productRoutes,
   ...protocolRoutes,
+  ...locationRoutes,
+  ...archiveRoutes,
+  ...castRoutes,
   ...auditRoutes,
 ];
 

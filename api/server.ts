@@ -6,6 +6,8 @@ import { createOidcClient } from './auth/oidc-client.ts';
 import { type Config, ConfigError, parseConfig } from './config.ts';
 import type { AppContext } from './context.ts';
 import { createDb } from './db/index.ts';
+import { allJobs } from './jobs/jobs.ts';
+import { startJobRunner, type JobRunner } from './jobs/runner.ts';
 import { createMailer } from './mail/mailer.ts';
 
 export interface RunningServer {
@@ -24,6 +26,7 @@ export async function startServer(config: Config, databaseUrl: string, opts: { s
   const mailer = createMailer(config.smtpUrl, config.mailFrom);
   const ctx: AppContext = { config, db: handle.db, mailer, oidc: createOidcClient(config.oidc, log), log };
   const app = createApp({ ctx, pool: handle.pool, serveClient: opts.serveClient ?? true, clientMiddleware: opts.clientMiddleware });
+
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(config.port, config.host);
     s.once('listening', () => resolve(s));
@@ -31,9 +34,12 @@ export async function startServer(config: Config, databaseUrl: string, opts: { s
       reject(err.code === 'EADDRINUSE' ? new Error(`Port ${config.port} (app) is already in use.`) : err),
     );
   });
+  // Under NODE_ENV=test the runner stays off: tests start it themselves.
+  const jobs: JobRunner | null = config.jobs ? await startJobRunner(ctx, { connectionString: databaseUrl, jobs: allJobs }) : null;
   return {
     url: config.appOrigin,
     async close() {
+      await jobs?.stop();
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       mailer.close();

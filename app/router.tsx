@@ -129,6 +129,38 @@ const routes: RouteObject[] = [
                         const m = await import('./features/protocols/routes/protocol-page.tsx');
                         return { Component: m.ProtocolPage, loader: m.protocolLoader };
                       }),
+                      guarded(paths.archive.pattern, 'archive.view', async () => {
+                        const m = await import('./features/archive/routes/find-page.tsx');
+                        return { Component: m.FindPage, loader: m.findLoader };
+                      }),
+                      guarded(paths.newCast.pattern, 'casts.manage', async () => {
+                        const m = await import('./features/archive/routes/cast-form-pages.tsx');
+                        return { Component: m.NewCastPage };
+                      }),
+                      guarded(paths.cast.pattern, 'archive.view', async () => {
+                        const m = await import('./features/archive/routes/cast-page.tsx');
+                        return { Component: m.CastPage, loader: m.castLoader };
+                      }),
+                      guarded(paths.editCast.pattern, 'casts.manage', async () => {
+                        const m = await import('./features/archive/routes/cast-form-pages.tsx');
+                        return { Component: m.EditCastPage };
+                      }),
+                      guarded(paths.places.pattern, 'archive.view', async () => {
+                        const m = await import('./features/archive/routes/places-page.tsx');
+                        return { Component: m.PlacesPage, loader: m.placesLoader };
+                      }),
+                      guarded(paths.place.pattern, 'archive.view', async () => {
+                        const m = await import('./features/archive/routes/place-page.tsx');
+                        return { Component: m.PlacePage, loader: m.placeLoader };
+                      }),
+                      guarded(paths.label.pattern, 'archive.view', async () => {
+                        const m = await import('./features/archive/routes/label-page.tsx');
+                        return { Component: m.LabelPage };
+                      }),
+                      guarded(paths.retention.pattern, 'archive.view', async () => {
+                        const m = await import('./features/archive/routes/retention-page.tsx');
+                        return { Component: m.RetentionPage, loader: m.retentionLoader };
+                      }),
                       guarded(paths.consentForms.pattern, 'templates.manage', async () => {
                         const m = await import('./features/consent-forms/routes/consent-forms-page.tsx');
                         return { Component: m.ConsentFormsPage, loader: m.consentFormsLoader };

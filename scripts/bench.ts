@@ -19,6 +19,8 @@ import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
+import { BODY_REGIONS, CAST_KINDS } from '../shared/domain/archive-casts.ts';
+import { LABEL_CODE_SPACE, labelCodeFromNumber } from '../shared/domain/label-codes.ts';
 import { createThrowawayCluster, ensureDatabase } from './pg.ts';
 
 const USERS = Number(process.env.BENCH_USERS ?? 5000);
@@ -27,6 +29,7 @@ const SECONDS = Number(process.env.BENCH_SECONDS ?? 6);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
 /** A comma-separated list of words; only routes whose label contains one are measured (the baseline always is). */
 const ONLY = (process.env.BENCH_ONLY ?? '').split(',').map((w) => w.trim().toLowerCase()).filter(Boolean);
+const CASTS = Number(process.env.BENCH_CASTS ?? 100_000);
 
 interface Row {
   label: string;
@@ -100,6 +103,40 @@ try {
   await handle.pool.query('vacuum analyze');
   await handle.pool.query('checkpoint');
 
+  // The archive: CASTS casts of the bench performers, spread over the demo store's shelves and bins.
+  const t2 = performance.now();
+  const performerIds = (await handle.db.selectFrom('performers').select('id').execute()).map((r) => r.id);
+  const shelves = (await handle.db.selectFrom('archive_locations').select('id').where('level', 'in', ['shelf', 'bin']).execute()).map((r) => r.id);
+  const taken = new Set((await handle.db.selectFrom('casts').select('label_code').execute()).map((r) => r.label_code));
+  const BATCH = 2500;
+  for (let i = 0; i < CASTS; i += BATCH) {
+    const rows = Array.from({ length: Math.min(BATCH, CASTS - i) }, (_, k) => {
+      const n = i + k;
+      let labelNumber = (n * 7_919 + 104_729) % LABEL_CODE_SPACE;
+      while (taken.has(labelCodeFromNumber('cast', labelNumber))) labelNumber = (labelNumber + 1) % LABEL_CODE_SPACE;
+      const label = labelCodeFromNumber('cast', labelNumber);
+      taken.add(label);
+      const shelf = shelves[n % shelves.length]!;
+      return {
+        label_code: label,
+        performer_id: performerIds[n % performerIds.length]!,
+        production_id: lantern.id,
+        region: BODY_REGIONS[n % BODY_REGIONS.length]!,
+        kind: CAST_KINDS[(n >> 2) % CAST_KINDS.length]!,
+        material: 'Gypsum stone',
+        made_on: `20${String(10 + (n % 16)).padStart(2, '0')}-0${1 + (n % 9)}-1${n % 10}`,
+        made_by: 'Bench Maker',
+        normal_location_id: shelf,
+        current_location_id: shelf,
+        since: new Date(),
+      };
+    });
+    await handle.db.insertInto('casts').values(rows).execute();
+  }
+  await handle.pool.query('analyze casts; analyze performers; analyze engagements; analyze productions');
+  console.log(`Loaded ${CASTS} casts in ${((performance.now() - t2) / 1000).toFixed(2)} s`);
+  const someLabel = labelCodeFromNumber('cast', (4_242 * 7_919 + 104_729) % LABEL_CODE_SPACE);
+
   const secret = 'bench-session-secret-0123456789abcdef-xyz';
   const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench'), STORAGE_DIR: storage });
   const app = createApp({
@@ -150,6 +187,14 @@ try {
   rows.push(await measure(`GET /api/users page 1 of ${USERS + 8} (admin)`, `${p}/api/users?pageSize=25`, admin));
   rows.push(await measure('GET /api/users?q=person 42 (admin)', `${p}/api/users?q=person%2042&pageSize=25`, admin));
   rows.push(await measure('GET /api/consent-templates (lead)', `${p}/api/consent-templates`, lead));
+  const archivist = await cookieFor('archivist@plinth.test');
+  const casts = `${CASTS + 20} casts`;
+  rows.push(await measure(`GET /api/casts page 1 of ${casts} (archivist)`, `${p}/api/casts?pageSize=25`, archivist));
+  rows.push(await measure('GET /api/casts fuzzy "castelane" (archivist)', `${p}/api/casts?q=castelane`, archivist));
+  rows.push(await measure('GET /api/casts "arden face mold" (3 terms, archivist)', `${p}/api/casts?q=arden%20face%20mold`, archivist));
+  rows.push(await measure('GET /api/casts label code (archivist)', `${p}/api/casts?q=${someLabel}`, archivist));
+  rows.push(await measure('GET /api/casts code path GH/NORTH/R1 (archivist)', `${p}/api/casts?q=GH%2FNORTH%2FR1&pageSize=25`, archivist));
+  rows.push(await measure('GET /api/casts region=face&kind=mold, page 40 (archivist)', `${p}/api/casts?region=face&kind=mold&page=40`, archivist));
   // Measured again last: the ratio is to the mean of both, so a machine that slows down part-way shows up as two different baselines.
   const after = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, last)', bareUrl))!;
   rows.push(after);

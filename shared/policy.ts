@@ -50,7 +50,10 @@ export const ACTIONS = [
   'clearance.check',
   'applications.log',
   'reactions.report',
+  'casts.read',
   'casts.manage',
+  'archive.view',
+  'locations.manage',
   'performer.self',
   'performer.view',
   'templates.manage',
@@ -86,6 +89,7 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'protocols.manage',
   'patchtests.book',
   'clearance.check',
+  'casts.read',
   'sessions.view',
   'sessions.book',
   'accounts.unlink',
@@ -103,8 +107,9 @@ const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'clearance.check',
   'applications.log',
   'reactions.report',
+  'casts.read',
 ]);
-const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'casts.manage']);
+const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'casts.read', 'casts.manage']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
 /** What the performer may do with their own record, whatever production it is viewed through. */
 const SELF_ACTIONS: ReadonlySet<Action> = new Set<Action>(['performer.self', 'performer.view', 'medical.read', 'consents.view', 'consents.withdraw']);
@@ -184,6 +189,11 @@ const STUDIO_WIDE: Partial<Record<Action, (actor: Actor) => boolean>> = {
   'catalogue.read': (actor) => actor.isAdmin || roleGrantsSomewhere(actor, 'catalogue.read'),
   'catalogue.manage': (actor) => roleGrantsSomewhere(actor, 'catalogue.manage'),
   'protocols.manage': (actor) => roleGrantsSomewhere(actor, 'protocols.manage'),
+  // One store keeps every production's casts: its places are kept by whoever is an archivist
+  // somewhere, and Find opens for whoever may read a cast somewhere; each cast is still checked
+  // against its own production and performer.
+  'archive.view': (actor) => roleGrantsSomewhere(actor, 'casts.read'),
+  'locations.manage': (actor) => roleGrantsSomewhere(actor, 'casts.manage'),
 };
 
 /** Whether a role the actor holds on some production grants the action there. */

@@ -5,6 +5,8 @@ import sharp from 'sharp';
 import type { ConsentKind } from '#shared/domain/consent.ts';
 import { findCurrentTemplateVersion, writeSignedConsent } from '../features/consents/index.ts';
 import type { Db } from './index.ts';
+import { seedArchivePhotos, seedArchiveRecords } from './seed-archive.ts';
+import { ARCHIVE_DEMO_PERFORMERS, ARCHIVE_DEMO_PRODUCTIONS, ARCHIVE_DEMO_STORAGE_CONSENTS, type DemoProductionKey } from './seed-archive-data.ts';
 import { SEED_TEMPLATES } from './seed-templates.ts';
 import { seedCatalogue } from './seed-catalogue.ts';
 
@@ -83,12 +85,14 @@ export async function seedDemo(db: Db, opts: { storageDir?: string } = {}): Prom
       .values({ production_id: lantern.id, user_id: id('lead'), appointed_by: id('admin'), starts_at: '2026-09-01T09:00:00Z' })
       .execute();
 
+    const performerIds = new Map<string, string>();
     for (const p of DEMO_PERFORMERS) {
       const row = await trx
         .insertInto('performers')
         .values({ legal_name: p.legal, preferred_name: p.preferred, pronouns: p.pronouns, email: p.email, email_confirmed_at: p.confirmed ? new Date() : null, user_id: p.user ? id(p.user) : null, emergency_contact_name: 'Production office', emergency_contact_phone: '+44 20 7946 0000' })
         .returning('id')
         .executeTakeFirstOrThrow();
+      performerIds.set(p.legal, row.id);
       await trx
         .insertInto('engagements')
         .values({ performer_id: row.id, production_id: lantern.id, character_name: p.character, starts_on: '2026-09-14', ends_on: '2027-04-30' })
@@ -102,13 +106,29 @@ export async function seedDemo(db: Db, opts: { storageDir?: string } = {}): Prom
         .execute();
     }
     await seedCatalogue(trx, id('head'));
+    // The archive keeps older casts too: from an earlier production nobody here works on any more.
+    const { orchard } = ARCHIVE_DEMO_PRODUCTIONS;
+    const glass = await trx
+      .insertInto('productions')
+      .values({ name: orchard.name, kind: orchard.kind, starts_on: orchard.startsOn, ends_on: orchard.endsOn })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await seedArchiveRecords(trx, {
+      users: new Map(DEMO_USERS.map((u) => [u.key, { id: id(u.key), name: u.name }])),
+      performers: performerIds,
+      productions: { lantern: lantern.id, saltglass: saltglass.id, orchard: glass.id },
+      now: new Date(),
+    });
     await trx
       .insertInto('audit_log')
       .values({ actor_user_id: null, action: 'demo.seed', entity_type: 'system', details: JSON.stringify({ production: DEMO_PRODUCTION }) })
       .execute();
     return true;
   });
-  if (seeded && opts.storageDir) await seedDemoConsents(db, opts.storageDir);
+  if (seeded && opts.storageDir) {
+    await seedDemoConsents(db, opts.storageDir);
+    await seedArchivePhotos(db, opts.storageDir);
+  }
   return seeded;
 }
 
@@ -133,10 +153,13 @@ const DEMO_ANSWERS: Record<ConsentKind, Record<string, boolean | string>> = {
 async function seedDemoConsents(db: Db, storageDir: string): Promise<void> {
   const performers = new Map((await db.selectFrom('performers').select(['id', 'legal_name']).execute()).map((p) => [p.legal_name, p.id]));
   const templates = new Map((await db.selectFrom('consent_templates').select(['id', 'kind']).execute()).map((t) => [t.kind, t.id]));
-  const production = await db.selectFrom('productions').select('id').where('name', '=', DEMO_PRODUCTION).executeTakeFirstOrThrow();
+  const productionIds = new Map((await db.selectFrom('productions').select(['id', 'name']).execute()).map((p) => [p.name, p.id]));
+  const production = { id: productionIds.get(DEMO_PRODUCTION)! };
+  const productionOf = (key: DemoProductionKey) => productionIds.get(ARCHIVE_DEMO_PRODUCTIONS[key].name)!;
+  const performerNames = new Map<string, string>(ARCHIVE_DEMO_PERFORMERS.map((p) => [p.key, p.legalName]));
   const head = await db.selectFrom('users').select('id').where('email', '=', 'head@plinth.test').executeTakeFirstOrThrow();
   const now = Date.now();
-  const plan: { performer: string; kind: ConsentKind; daysAgo: number; withdrawnDaysAgo?: number; answers?: Record<string, boolean | string> }[] = [
+  const plan: { performer: string; kind: ConsentKind; daysAgo: number; withdrawnDaysAgo?: number; answers?: Record<string, boolean | string>; productionId?: string }[] = [
     { performer: 'Juno Castellane', kind: 'patch_testing', daysAgo: 40, answers: { ...DEMO_ANSWERS.patch_testing, known_allergies: 'Sticking plasters make my skin itch' } },
     { performer: 'Juno Castellane', kind: 'life_casting', daysAgo: 38 },
     { performer: 'Juno Castellane', kind: 'cast_storage', daysAgo: 38 },
@@ -148,6 +171,13 @@ async function seedDemoConsents(db: Db, storageDir: string): Promise<void> {
     { performer: 'Beatrix Nwachukwu', kind: 'cast_storage', daysAgo: 60 },
     { performer: 'Tamsin Achebe-Lowry', kind: 'patch_testing', daysAgo: 355 },
     { performer: 'Corentin Malik Ashdown', kind: 'health_data', daysAgo: 20 },
+    // Storage consents for the archive's casts, each given to the production its casts came from.
+    ...ARCHIVE_DEMO_STORAGE_CONSENTS.map((c) => ({
+      performer: performerNames.get(c.performerKey)!,
+      kind: 'cast_storage' as const,
+      daysAgo: c.signedDaysAgo,
+      productionId: productionOf(c.productionKey),
+    })),
   ];
   let n = 0;
   for (const item of plan) {
@@ -155,7 +185,7 @@ async function seedDemoConsents(db: Db, storageDir: string): Promise<void> {
     const performerId = performers.get(item.performer)!;
     const { consentId } = await writeSignedConsent(db, storageDir, {
       performerId,
-      productionId: production.id,
+      productionId: item.productionId ?? production.id,
       requestId: null,
       template: template!,
       answers: item.answers ?? DEMO_ANSWERS[item.kind],

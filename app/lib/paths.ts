@@ -50,6 +50,20 @@ export const paths = {
   newConsentForm: { pattern: '/consent-forms/new', href: () => '/consent-forms/new' },
   consentForm: { pattern: '/consent-forms/:id', href: (id: string) => `/consent-forms/${encodeURIComponent(id)}` },
   bookings: { pattern: '/bookings', href: () => '/bookings' },
+
+  /** The life-cast archive: Find, one cast, the store's places, a scanned label, retention. */
+  archive: {
+    pattern: '/archive',
+    href: (search: { q?: string; overdue?: 'true' } = {}) => withSearch('/archive', { q: search.q, overdue: search.overdue }),
+  },
+  newCast: { pattern: '/archive/casts/new', href: (performerId?: string) => withSearch('/archive/casts/new', { performerId }) },
+  cast: { pattern: '/archive/casts/:id', href: (id: string) => `/archive/casts/${encodeURIComponent(id)}` },
+  editCast: { pattern: '/archive/casts/:id/edit', href: (id: string) => `/archive/casts/${encodeURIComponent(id)}/edit` },
+  places: { pattern: '/archive/places', href: () => '/archive/places' },
+  place: { pattern: '/archive/places/:id', href: (id: string) => `/archive/places/${encodeURIComponent(id)}` },
+  /** What a label's QR opens: the label code, resolved to its cast or place. */
+  label: { pattern: '/archive/labels/:code', href: (code: string) => `/archive/labels/${encodeURIComponent(code)}` },
+  retention: { pattern: '/archive/retention', href: () => '/archive/retention' },
   verify: { pattern: '/verify', href: () => '/verify' },
   catalogue: { pattern: '/catalogue', href: () => '/catalogue' },
   newProduct: { pattern: '/catalogue/new', href: () => '/catalogue/new' },
@@ -84,4 +98,7 @@ export const serverPaths = {
   /** The filtered registry as CSV, downloaded by the browser. */
   performersCsv: (query: Record<string, string | undefined>) => withSearch('/api/performers/export.csv', query),
   consentPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/pdf`,
+  /** A printable sheet of QR labels for these casts and places. */
+  labelSheet: (ids: { casts?: readonly string[]; locations?: readonly string[] }) =>
+    withSearch('/api/archive/labels.pdf', { casts: ids.casts?.join(','), locations: ids.locations?.join(',') }),
 } as const;

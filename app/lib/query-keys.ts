@@ -27,3 +27,4 @@ export const identityLinkKey = ['identity-link'] as const;
 export function invalidate(queryClient: QueryClient, keys: readonly (readonly unknown[])[]): Promise<unknown> {
   return Promise.all(keys.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
 }
+export const archiveKey = ['archive'] as const;

@@ -196,7 +196,8 @@ describe('productions, memberships and the designated lead', () => {
     expect(res.body.lead).toBeNull();
     const home = await request(t.app).get('/api/home').set('Cookie', admin);
     const task = home.body.tasks.find((x: { id: string }) => x.id === 'productions-without-lead');
-    expect(task.count).toBe(2);
+    // Saltglass Mile, The Glass Orchard (the earlier production the archive keeps casts of) and now this one.
+    expect(task.count).toBe(3);
   });
 });
 

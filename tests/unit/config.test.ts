@@ -42,6 +42,13 @@ describe('parseConfig', () => {
     expect(parseConfig({}).startFakes).toBe(true);
     expect(parseConfig({ START_FAKES: 'false' }).startFakes).toBe(false);
   });
+  it('runs background jobs except under test, in the studio time zone, which must be a real one', () => {
+    expect(parseConfig({}).jobs).toBe(true);
+    expect(parseConfig({ NODE_ENV: 'test' }).jobs).toBe(false);
+    expect(parseConfig({ NODE_ENV: 'test', JOBS: 'on' }).jobs).toBe(true);
+    expect(parseConfig({}).timeZone).toBe('Europe/London');
+    expect(() => parseConfig({ TIME_ZONE: 'Mars/Olympus_Mons' })).toThrow(/TIME_ZONE/);
+  });
   it('treats empty variables as unset', () => {
     expect(parseConfig({ PORT: '' }).port).toBe(3000);
   });

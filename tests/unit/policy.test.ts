@@ -34,6 +34,8 @@ const TABLE: [Action, boolean[]][] = [
   ['applications.log', [false, false, true, true, false, false, false]],
   ['reactions.report', [false, false, true, true, false, false, false]],
   ['casts.manage', [false, false, false, false, true, false, false]],
+  // Everyone who works with the performer's casts reads them; only the archivist records their moves.
+  ['casts.read', [false, true, true, true, true, false, false]],
   ['production.view', [false, true, true, true, true, true, false]],
   ['catalogue.read', [true, true, true, true, true, false, false]],
   ['catalogue.manage', [false, true, true, false, false, false, false]],
@@ -105,6 +107,36 @@ describe('the catalogue and protocols are studio-wide', () => {
   });
 });
 
+describe('the life-cast archive', () => {
+  const CAST = { productionId: P2, performerId: PERF, performerProductionIds: [P1] };
+  it('a cast from an earlier production is read by staff of a production its performer is engaged on', () => {
+    for (const a of [head, lead, artist, archivist]) expect(can(a, 'casts.read', CAST)).toBe(true);
+    expect(can(archivist, 'casts.manage', CAST)).toBe(true);
+    expect(can(head, 'casts.manage', CAST)).toBe(false);
+  });
+  it('staff of an unrelated production neither read nor manage the cast', () => {
+    const elsewhere = actor({ memberships: [{ productionId: P2, role: 'archivist' }] });
+    expect(can(elsewhere, 'casts.read', { productionId: P1, performerId: OTHER_PERF, performerProductionIds: [P1] })).toBe(false);
+    expect(can(elsewhere, 'casts.manage', { productionId: P1, performerProductionIds: [P1] })).toBe(false);
+  });
+  it('the performer reads their own casts through their own record, not as staff', () => {
+    expect(can(performer, 'casts.read', CAST)).toBe(false);
+    expect(can(performer, 'performer.self', CAST)).toBe(true);
+  });
+  // Studio-wide: admin, head, lead, artist, archivist, performer, nobody.
+  const STUDIO: [string, boolean[]][] = [
+    ['archive.view', [false, true, true, true, true, false, false]],
+    ['locations.manage', [false, false, false, false, true, false, false]],
+  ];
+  const actors = [admin, head, lead, artist, archivist, performer, nobody];
+  for (const [action, expected] of STUDIO) {
+    it(`${action} is studio-wide and follows the roles that grant it somewhere`, () => {
+      expect(actors.map((a) => can(a, action as Action))).toEqual(expected);
+      expect(actors.map((a) => canSomewhere(a, action as Action))).toEqual(expected);
+    });
+  }
+});
+
 describe('scoping', () => {
   it('a production action with no production named is refused', () => {
     expect(can(head, 'performers.manage')).toBe(false);
@@ -152,7 +184,11 @@ describe('every action, for every role, on one performer record of production P1
     'clearance.check': [N, Y, Y, Y, N, N, N, N],
     'applications.log': [N, N, N, Y, N, N, N, N],
     'reactions.report': [N, N, N, Y, N, N, N, N],
+    'casts.read': [N, Y, Y, Y, Y, N, N, N],
     'casts.manage': [N, N, N, N, Y, N, N, N],
+    // Studio-wide: one store for every production's casts.
+    'archive.view': [N, Y, Y, Y, Y, N, N, Y],
+    'locations.manage': [N, N, N, N, Y, N, N, N],
     'performer.self': [N, N, N, N, N, Y, N, N],
     'performer.view': [N, Y, Y, Y, Y, Y, N, N],
     // Studio-wide: the forms every production uses, and the PDF checker.

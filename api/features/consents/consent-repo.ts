@@ -233,3 +233,24 @@ export async function insertConsent(
       .execute();
   }
 }
+
+/** Cast-storage consents of these performers, each with the production it was given to (null: none named). */
+export async function storageConsentTimes(
+  db: Db,
+  performerIds: readonly string[],
+): Promise<{ performerId: string; productionId: string | null; signedAt: Date; expiresAt: Date | null; withdrawnAt: Date | null }[]> {
+  if (performerIds.length === 0) return [];
+  const rows = await db
+    .selectFrom('consents')
+    .select(['performer_id', 'production_id', 'signed_at', 'expires_at', 'withdrawn_at'])
+    .where('kind', '=', 'cast_storage')
+    .where('performer_id', 'in', [...new Set(performerIds)])
+    .execute();
+  return rows.map((r) => ({
+    performerId: r.performer_id,
+    productionId: r.production_id,
+    signedAt: new Date(r.signed_at),
+    expiresAt: r.expires_at ? new Date(r.expires_at) : null,
+    withdrawnAt: r.withdrawn_at ? new Date(r.withdrawn_at) : null,
+  }));
+}

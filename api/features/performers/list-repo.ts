@@ -10,7 +10,7 @@ import { type EngagementRecord, PERFORMER_COLUMNS, type PerformerFields, listEng
 // ---- SQL pieces shared by the list, its count and the export
 
 /** The expression the trigram index is built on (performers_name_trgm_idx); keep it identical so the index is used. */
-const SEARCH_NAME = sql<string>`(coalesce(performers.preferred_name, '') || ' ' || performers.legal_name)`;
+export const SEARCH_NAME = sql<string>`(coalesce(performers.preferred_name, '') || ' ' || performers.legal_name)`;
 const SORT_NAME = sql<string>`lower(coalesce(performers.preferred_name, performers.legal_name))`;
 /** Fuzzy-match cut-off for word_similarity; the `<%` operator reads the same value from the session setting. */
 export const WORD_SIMILARITY_THRESHOLD = 0.3;
@@ -28,7 +28,7 @@ const expiringWithin30 = (now: Date) => sql`(c.expires_at is not null and c.expi
 const activeKindCount = (productionIds: readonly string[], now: Date) =>
   sql<number>`(select count(distinct c.kind) from consents c where c.performer_id = performers.id and ${consentFor(productionIds)} and c.kind in (${KIND_LIST}) and ${active(now)})`;
 
-function likePattern(q: string): string {
+export function likePattern(q: string): string {
   return `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 }
 
@@ -74,7 +74,7 @@ function orderings(q: Pick<PerformerListQuery, 'q' | 'sort' | 'dir'>): RawBuilde
  * Runs a search in a transaction whose `pg_trgm.word_similarity_threshold` matches ours, so the
  * index-backed `<%` operator and the word_similarity() cut-off agree.
  */
-async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
+export async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
   if (!searching) return fn(db);
   return db.transaction().execute(async (trx) => {
     await sql`select set_config('pg_trgm.word_similarity_threshold', ${String(WORD_SIMILARITY_THRESHOLD)}, true)`.execute(trx);

@@ -1,2 +1,3 @@
 // What other features may use of productions, memberships and lead appointments.
 export { addPerformerMemberships, findCurrentLeads, findHeads, countProductionsWithoutLead, findProductionName, productionNames, removePerformerMemberships } from './repo.ts';
+export { findProduction, productionIdsMatchingName, staffOf } from './repo.ts';

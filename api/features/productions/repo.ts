@@ -262,3 +262,23 @@ export async function findCurrentLeads(db: Db, productionIds: readonly string[])
     .execute();
 }
 
+/** Ids of productions whose name holds the term (trigram-indexed). */
+export async function productionIdsMatchingName(db: Db, term: string): Promise<string[]> {
+  const rows = await db.selectFrom('productions').select('productions.id').where('productions.name', 'ilike', `%${term.replace(/[\\%_]/g, (c) => `\\${c}`)}%`).execute();
+  return rows.map((r) => r.id);
+}
+
+/** Staff who work on these productions (any role but performer), by name, for naming who holds or authorises something. */
+export async function staffOf(db: Db, productionIds: readonly string[]): Promise<{ userId: string; name: string; email: string }[]> {
+  if (productionIds.length === 0) return [];
+  const rows = await db
+    .selectFrom('memberships as m')
+    .innerJoin('users as u', 'u.id', 'm.user_id')
+    .select(['u.id', 'u.display_name', 'u.email'])
+    .where('m.production_id', 'in', [...productionIds])
+    .where('m.role', '<>', 'performer')
+    .distinct()
+    .orderBy('u.display_name')
+    .execute();
+  return rows.map((r) => ({ userId: r.id, name: r.display_name, email: r.email }));
+}

@@ -2,6 +2,7 @@ import type { Seat } from '#shared/domain/seats.ts';
 import type { Actor } from '#shared/policy.ts';
 import type { Home } from '#shared/schemas/session.ts';
 import type { AppContext } from '../../context.ts';
+import { archivistTasks } from '../archive/index.ts';
 import { listBookings } from '../bookings/index.ts';
 import { countActiveConsents, countExpiringForProduction, countOpenLinkRequests } from '../consents/index.ts';
 import { countEngagedNow } from '../performers/index.ts';
@@ -75,6 +76,7 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
       },
     ];
   }
+  if (seat.role === 'archivist') return archivistTasks(ctx.db, actor);
   if (seat.role === 'head' || seat.role === 'lead') {
     const tasks = await consentTasks(ctx, seat.productionId);
     tasks.push({

@@ -5,7 +5,7 @@ import { Icon } from '../ui/icons.tsx';
 export const CAUTIONS: Partial<Record<ConsentKind, { title: string; text: string }>> = {
   life_casting: {
     title: 'Life casting safety',
-    text: 'Never cover the nostrils or airway. Agree a stop signal before starting. A second person stays with you throughout. Setting plaster gets hot: it is never put around fingers, hands or limbs.',
+    text: 'Never cover the nostrils or airway. Agree a stop signal before starting. A second person stays throughout. Protect hair with a release agent. Setting gypsum plaster heats up: never enclose fingers, hands or limbs in it.',
   },
   patch_testing: {
     title: 'Patch testing',

@@ -14,6 +14,7 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
+import { PerformerCasts } from '../../archive/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
@@ -167,9 +168,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
         <EmptyState title="Nothing recorded yet.">Recorded here once the department starts testing.</EmptyState>
       </Section>
 
-      <Section title="Life casts">
-        <EmptyState title="Nothing recorded yet.">Recorded here once the department starts casting.</EmptyState>
-      </Section>
+      <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
     </div>
   );
 }

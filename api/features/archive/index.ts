@@ -1,0 +1,2 @@
+// What other features may use of the life-cast archive.
+export { archivistTasks } from './home-tasks.ts';

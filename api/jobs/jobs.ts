@@ -1,0 +1,5 @@
+import { overdueRemindersJob } from '../features/archive/overdue-job.ts';
+import type { JobDefinition } from './define.ts';
+
+/** Every background job the API process runs; a new one is one line here. */
+export const allJobs: readonly JobDefinition[] = [overdueRemindersJob];

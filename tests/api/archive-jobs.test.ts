@@ -1,0 +1,119 @@
+import { promises as fs } from 'node:fs';
+import path from 'node:path';
+import { simpleParser } from 'mailparser';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { overdueRemindersJob } from '../../api/features/archive/overdue-job.ts';
+import { dayIn } from '../../api/jobs/define.ts';
+import { startJobRunner, type JobRunner } from '../../api/jobs/runner.ts';
+import { createTestApp, type TestApp } from '../support/app.ts';
+import { castByKey } from '../fixtures/archive.ts';
+
+let t: TestApp;
+const running = new Set<JobRunner>();
+
+beforeAll(async () => {
+  t = await createTestApp();
+});
+afterAll(async () => {
+  for (const r of running) await r.stop();
+  await t?.close();
+});
+
+const JOB = overdueRemindersJob.name;
+
+async function start(ctx = t.ctx): Promise<JobRunner> {
+  const runner = await startJobRunner(ctx, { connectionString: t.db.url, jobs: [overdueRemindersJob], pollingIntervalSeconds: 0.5 });
+  running.add(runner);
+  return runner;
+}
+async function stop(runner: JobRunner): Promise<void> {
+  await runner.stop();
+  running.delete(runner);
+}
+
+/** Sends one run and waits until the queue says it has finished (or is waiting for a retry). */
+async function runOnce(runner: JobRunner, until: 'completed' | 'retry' = 'completed'): Promise<void> {
+  const id = await runner.send(JOB);
+  await expect.poll(() => runner.state(JOB, id), { timeout: 30_000, interval: 100 }).toBe(until);
+}
+
+async function reminders(): Promise<{ to: string; subject: string; text: string }[]> {
+  const files = (await fs.readdir(t.mail.dir)).filter((f) => f.endsWith('.eml'));
+  const out = [];
+  for (const f of files) {
+    const mail = await simpleParser(await fs.readFile(path.join(t.mail.dir, f)));
+    if (!/overdue back at the store/.test(mail.subject ?? '')) continue;
+    out.push({ to: [mail.to ?? []].flat().flatMap((a) => a.value.map((v) => v.address ?? '')).join(','), subject: mail.subject ?? '', text: mail.text ?? '' });
+  }
+  return out;
+}
+
+describe('overdue check-outs are e-mailed to the holder once a day', () => {
+  it('is scheduled daily at 08:00 in the studio’s time zone', async () => {
+    const runner = await start();
+    const schedules = await runner.schedules();
+    expect(schedules).toContainEqual({ name: JOB, cron: '0 8 * * *', timezone: 'Europe/London' });
+    await stop(runner);
+  });
+
+  it('sends one reminder per overdue cast, and none again on a second run or after the runner restarts', async () => {
+    const oz = await castByKey(t, 'oz-head-positive');
+    const first = await start();
+    await runOnce(first);
+    const sent = await reminders();
+    expect(sent).toHaveLength(1);
+    expect(sent[0]!.to).toBe('artist@plinth.test');
+    expect(sent[0]!.subject).toBe(`Cast ${oz.labelCode} is overdue back at the store`);
+    expect(sent[0]!.text).toContain(`${t.config.appOrigin}/archive/casts/${oz.id}`);
+    expect(sent[0]!.text).toMatch(/It was due back on \d{1,2} \w+ \d{4}, 4 days ago\./);
+    await runOnce(first);
+    await stop(first);
+
+    const restarted = await start();
+    await runOnce(restarted);
+    await stop(restarted);
+    expect(await reminders()).toHaveLength(1);
+    const key = `archive-overdue:${oz.id}:${dayIn('Europe/London', new Date())}`;
+    const claimed = await t.db.db.selectFrom('job_once').select(['job', 'done_at']).where('key', '=', key).executeTakeFirstOrThrow();
+    expect(claimed.job).toBe(JOB);
+    expect(claimed.done_at).not.toBeNull();
+    expect(await t.db.db.selectFrom('audit_log').select('id').where('action', '=', 'cast.overdue_reminder').execute()).toHaveLength(1);
+  });
+
+  it('two API processes running at once send a newly overdue cast’s reminder once', async () => {
+    const cory = await castByKey(t, 'cory-head-mold');
+    const sol = await t.db.db.selectFrom('users').select(['id']).where('email', '=', 'artist2@plinth.test').executeTakeFirstOrThrow();
+    await t.db.db
+      .updateTable('casts')
+      .set({ status: 'checked_out', current_location_id: null, current_holder: 'Sol Varga', current_holder_user_id: sol.id, due_back_at: new Date(Date.now() - 3_600_000) })
+      .where('id', '=', cory.id)
+      .execute();
+    const [a, b] = await Promise.all([start(), start()]);
+    await Promise.all([runOnce(a), runOnce(b), runOnce(a), runOnce(b)]);
+    const toSol = (await reminders()).filter((m) => m.to === 'artist2@plinth.test');
+    expect(toSol).toHaveLength(1);
+    expect(toSol[0]!.subject).toContain(cory.labelCode);
+    await Promise.all([stop(a), stop(b)]);
+  });
+
+  it('a reminder that could not be sent is tried again by a later run', async () => {
+    const bea = await castByKey(t, 'bea-arm-mold');
+    const lead = await t.db.db.selectFrom('users').select(['id']).where('email', '=', 'lead@plinth.test').executeTakeFirstOrThrow();
+    await t.db.db
+      .updateTable('casts')
+      .set({ status: 'checked_out', current_location_id: null, current_holder: 'Dr. Tomasz Brill', current_holder_user_id: lead.id, due_back_at: new Date(Date.now() - 3_600_000) })
+      .where('id', '=', bea.id)
+      .execute();
+    const broken = await start({ ...t.ctx, mailer: { send: async () => Promise.reject(new Error('relay down')), close() {} } });
+    await runOnce(broken, 'retry');
+    await stop(broken);
+    const key = `archive-overdue:${bea.id}:${dayIn('Europe/London', new Date())}`;
+    expect(await t.db.db.selectFrom('job_once').select('key').where('key', '=', key).executeTakeFirst()).toBeUndefined();
+    expect((await reminders()).filter((m) => m.to === 'lead@plinth.test')).toHaveLength(0);
+
+    const working = await start();
+    await runOnce(working);
+    await stop(working);
+    expect((await reminders()).filter((m) => m.to === 'lead@plinth.test')).toHaveLength(1);
+  });
+});
