@@ -75,7 +75,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
       const expires = new Date(Date.now() + 3600_000);
       await db.db
         .insertInto('sessions')
-        .values({ sid, sess: JSON.stringify({ cookie: { originalMaxAge: 3600_000, expires: expires.toISOString(), httpOnly: true, path: '/', sameSite: 'lax' }, userId: id }), expire: expires })
+        .values({ sid, sess: JSON.stringify({ cookie: { originalMaxAge: 3600_000, expires: expires.toISOString(), httpOnly: true, path: '/', sameSite: 'lax' }, userId: id, signedInAt: Date.now() }), expire: expires })
         .execute();
       // The same signature express-session checks: HMAC-SHA256, base64 without padding.
       const sig = createHmac('sha256', TEST_SESSION_SECRET).update(sid).digest('base64').replace(/=+$/, '');
