@@ -20,6 +20,7 @@ import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { performerQueryOptions, useResendConfirmation } from '../api.ts';
 import { ConsentsSection } from '../components/consents-section.tsx';
+import { HealthReads } from '../components/health-reads.tsx';
 import { LinkedAccount } from '../components/linked-account.tsx';
 import { displayName } from '../components/names.tsx';
 import { PortraitPanel } from '../components/portrait-panel.tsx';
@@ -169,6 +170,8 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
       </Section>
 
       <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
+
+      {p.canSeeMedical ? <HealthReads performerId={p.id} isSelf={isSelf} /> : null}
     </div>
   );
 }
