@@ -1,2 +1,3 @@
 // What other features may use of the life-cast archive.
 export { archivistTasks } from './home-tasks.ts';
+export { listCastsOfPerformer } from './repo-casts.ts';

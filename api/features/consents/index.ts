@@ -3,3 +3,4 @@ export { consentFromJson, consentsJsonSql, consentCoversSql, consentStateSql, co
 export { countOpenLinkRequests } from './request-repo.ts';
 export { writeSignedConsent } from './signing-service.ts';
 export { findCurrentTemplateVersion } from './template-repo.ts';
+export { findConsentDetailRow, listConsentAnswers } from './consent-repo.ts';

@@ -377,3 +377,8 @@ interface EngagementJsonRow {
   starts_on: string | null;
   ends_on: string | null;
 }
+
+/** One performer's engagements, by production name. */
+export async function listEngagementsOf(db: Db, performerId: string): Promise<EngagementRecord[]> {
+  return (await listEngagements(db, [performerId])).get(performerId) ?? [];
+}

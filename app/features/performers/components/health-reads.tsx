@@ -16,6 +16,12 @@ export function HealthReads({ performerId, isSelf }: { performerId: string; isSe
           ? 'Plinth records every time someone opens your health answers or your signed forms that hold them. Only the designated lead of your production, and you, can see them.'
           : 'Every opening of this performer’s health details is recorded; the performer sees this same list on their record.'}
       </p>
+      <p>
+        {/* A plain download: the browser saves the ZIP the server builds. */}
+        <a href={`/api/performers/${encodeURIComponent(performerId)}/records.zip`} className="inline-flex min-h-11 items-center font-semibold" download>
+          {isSelf ? 'Download everything Plinth holds about you (ZIP)' : 'Download this performer’s records to hand over (ZIP)'}
+        </a>
+      </p>
       <QueryView query={reads} loadingLabel="Loading the record of reads…">
         {(data) =>
           data.items.length === 0 ? (
