@@ -31,6 +31,9 @@ const EnvSchema = z
     // Unset means: start them in development and test, never in production.
     START_FAKES: z.enum(['true', 'false']).optional(),
     TRUST_PROXY: z.enum(['true', 'false']).default('false'),
+    // Health details at rest are sealed with this key (32 bytes, base64); else with the key file.
+    MEDICAL_DATA_KEY: z.string().regex(/^[A-Za-z0-9+/]{43}=$/, 'must be 32 bytes in base64 (openssl rand -base64 32)').optional(),
+    MEDICAL_DATA_KEY_FILE: z.string().optional(),
     // Unset means on, except under NODE_ENV=test where tests that need them switch them on.
     RATE_LIMITS: z.enum(['on', 'off']).optional(),
     // Unset means on, except under NODE_ENV=test where tests start the job runner themselves.
@@ -87,6 +90,8 @@ export interface Config {
   startFakes: boolean;
   trustProxy: boolean;
   rateLimits: boolean;
+  medicalDataKey: string | null;
+  medicalDataKeyFile: string;
   /** Run background jobs (daily reminders) in this process. */
   jobs: boolean;
   /** The studio's time zone: daily jobs run by its clock, and "once a day" counts its days. */
@@ -141,6 +146,8 @@ export function parseConfig(source: Record<string, string | undefined>): Config 
     startFakes: env.START_FAKES ? env.START_FAKES === 'true' : env.NODE_ENV !== 'production',
     trustProxy: env.TRUST_PROXY === 'true',
     rateLimits: env.RATE_LIMITS ? env.RATE_LIMITS === 'on' : env.NODE_ENV !== 'test',
+    medicalDataKey: env.MEDICAL_DATA_KEY ?? null,
+    medicalDataKeyFile: path.resolve(root, env.MEDICAL_DATA_KEY_FILE ?? path.join('.data', 'medical-data.key')),
     jobs: env.JOBS ? env.JOBS === 'on' : env.NODE_ENV !== 'test',
     timeZone: env.TIME_ZONE,
     root,

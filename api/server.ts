@@ -2,6 +2,7 @@ import type { Server } from 'node:http';
 import { pathToFileURL } from 'node:url';
 import type { RequestHandler } from 'express';
 import { createApp } from './app.ts';
+import { installMedicalKeys } from './crypto/medical-keys.ts';
 import { createOidcClient } from './auth/oidc-client.ts';
 import { type Config, ConfigError, parseConfig } from './config.ts';
 import type { AppContext } from './context.ts';
@@ -22,6 +23,7 @@ export function log(msg: string, err?: unknown): void {
 
 /** Builds the app around a database URL and listens; the caller owns the database itself. */
 export async function startServer(config: Config, databaseUrl: string, opts: { serveClient?: boolean; clientMiddleware?: RequestHandler } = {}): Promise<RunningServer> {
+  installMedicalKeys(config);
   const handle = createDb(databaseUrl, { log });
   const mailer = createMailer(config.smtpUrl, config.mailFrom);
   const ctx: AppContext = { config, db: handle.db, mailer, oidc: createOidcClient(config.oidc, log), log };

@@ -18,6 +18,7 @@ import { parseConfig } from '../api/config.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
+import { installKeyring, keyringOf } from '../api/crypto/medical.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
 import { BODY_REGIONS, CAST_KINDS } from '../shared/domain/archive-casts.ts';
 import { LABEL_CODE_SPACE, labelCodeFromNumber } from '../shared/domain/label-codes.ts';
@@ -80,6 +81,7 @@ try {
   const storage = await mkdtemp(`${tmpdir()}/plinth-bench-`);
   process.on('exit', () => rmSync(storage, { recursive: true, force: true }));
   const s0 = performance.now();
+  installKeyring(keyringOf(randomBytes(32).toString('base64')));
   await seedDemo(handle.db, { storageDir: storage });
   console.log(`Demo scenario (11 signed consents with PDFs) seeded in ${((performance.now() - s0) / 1000).toFixed(2)} s`);
   const t0 = performance.now();

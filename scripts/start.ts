@@ -10,6 +10,7 @@ import { type Config, ConfigError, parseConfig } from '../api/config.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
+import { installMedicalKeys } from '../api/crypto/medical-keys.ts';
 import { ensureDefaultProtocols } from '../api/features/protocols/index.ts';
 import { startServer } from '../api/server.ts';
 import { DEMO_PASSWORD, demoAccounts } from '../fake-idp/accounts.ts';
@@ -86,6 +87,8 @@ async function main(): Promise<void> {
     databaseUrl = cluster.url('plinth');
   }
 
+  // Health details are sealed from the first demo consent on: the key exists before the seed runs.
+  installMedicalKeys(config);
   const handle = createDb(databaseUrl, { max: 2 });
   try {
     const applied = await migrateToLatest(handle.db);

@@ -1,4 +1,5 @@
 import { sql } from 'kysely';
+import { sealJson } from '../crypto/medical.ts';
 import { pathToFileURL } from 'node:url';
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
@@ -201,7 +202,7 @@ async function seedDemoConsents(db: Db, storageDir: string): Promise<void> {
     if (item.withdrawnDaysAgo !== undefined) {
       await db
         .updateTable('consents')
-        .set({ withdrawn_at: new Date(now - item.withdrawnDaysAgo * DAY), withdrawn_via: 'performer', withdrawal_reason: 'No longer comfortable with face casting', version: 2 })
+        .set({ withdrawn_at: new Date(now - item.withdrawnDaysAgo * DAY), withdrawn_via: 'performer', withdrawal_reason: sealJson('No longer comfortable with face casting'), version: 2 })
         .where('id', '=', consentId)
         .execute();
     }

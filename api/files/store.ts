@@ -1,6 +1,7 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { promises as fs } from 'node:fs';
 import path from 'node:path';
+import { openBytes, sealBytes } from '../crypto/medical.ts';
 import type { Db } from '../db/index.ts';
 
 export interface StoredFile {
@@ -23,7 +24,17 @@ export function sha256Hex(buf: Buffer | Uint8Array): string {
 export async function storeFile(
   db: Db,
   storageDir: string,
-  file: { purpose: string; contentType: string; ext: string; bytes: Buffer; width?: number | null; height?: number | null; createdBy?: string | null },
+  file: {
+    purpose: string;
+    contentType: string;
+    ext: string;
+    bytes: Buffer;
+    width?: number | null;
+    height?: number | null;
+    createdBy?: string | null;
+    /** Health details: the bytes on disk are sealed with the medical data key (readStoredFile opens them). */
+    sealed?: boolean;
+  },
 ): Promise<StoredFile> {
   if (!/^[a-z_]+$/.test(file.purpose) || !/^[a-z0-9]+$/.test(file.ext)) throw new Error('bad file purpose or extension');
   const id = randomUUID();
@@ -31,7 +42,7 @@ export async function storeFile(
   const abs = path.join(storageDir, rel);
   await fs.mkdir(path.dirname(abs), { recursive: true });
   const tmp = `${abs}.part`;
-  await fs.writeFile(tmp, file.bytes, { flag: 'wx' });
+  await fs.writeFile(tmp, file.sealed ? sealBytes(file.bytes) : file.bytes, { flag: 'wx' });
   await fs.rename(tmp, abs);
   const sha256 = sha256Hex(file.bytes);
   await db
@@ -62,7 +73,8 @@ export async function readStoredFile(db: Db, storageDir: string, id: string): Pr
   const abs = path.resolve(storageDir, row.storage_path);
   if (!abs.startsWith(path.resolve(storageDir) + path.sep)) return null;
   try {
-    return { bytes: await fs.readFile(abs), contentType: row.content_type, sha256: row.sha256 };
+    // Sealed files open transparently; the recorded SHA-256 is always of the plain bytes.
+    return { bytes: openBytes(await fs.readFile(abs)), contentType: row.content_type, sha256: row.sha256 };
   } catch (err) {
     if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
     throw err;

@@ -1,3 +1,4 @@
+import { openBytes } from '../../api/crypto/medical.ts';
 import { createHash, randomBytes } from 'node:crypto';
 import { promises as fs } from 'node:fs';
 import os from 'node:os';
@@ -71,9 +72,9 @@ describe('backup and restore', () => {
     expect(await sha256sOf(storage, [])).toEqual(await sha256sOf(source.config.storageDir, ['mail']));
 
     // The restored app recognises a consent PDF it issued before the backup.
-    restored = await createTestApp({ DATABASE_URL: adminUrl(emptyDb), STORAGE_DIR: storage }, { seed: false, database: adminUrl(emptyDb) });
+    restored = await createTestApp({ DATABASE_URL: adminUrl(emptyDb), STORAGE_DIR: storage, MEDICAL_DATA_KEY: source.config.medicalDataKey! }, { seed: false, database: adminUrl(emptyDb) });
     const c = await restored.db.db.selectFrom('consents').innerJoin('files', 'files.id', 'consents.pdf_file_id').select(['consents.id', 'files.storage_path']).executeTakeFirstOrThrow();
-    const pdf = await fs.readFile(path.join(storage, c.storage_path));
+    const pdf = openBytes(await fs.readFile(path.join(storage, c.storage_path)));
     const check = await request(restored.app).post('/api/consents/verify').set('Cookie', await restored.sessionFor('head@plinth.test')).attach('file', pdf, 'consent.pdf');
     expect(check.status).toBe(200);
     expect(check.body).toMatchObject({ match: true, consent: { id: c.id } });

@@ -1,3 +1,4 @@
+import { openBytes, openJson } from '../../api/crypto/medical.ts';
 import { afterResponseSettled } from '../../api/http/after-response.ts';
 import { createHash, randomUUID } from 'node:crypto';
 import { promises as fs } from 'node:fs';
@@ -124,12 +125,19 @@ describe('signing through a one-time link', () => {
     expect(Math.round((consent.expires_at!.getTime() - new Date(consent.signed_at).getTime()) / 86_400_000)).toBe(365);
 
     const answers = await t.db.db.selectFrom('consent_answers').selectAll().where('consent_id', '=', consent.id).execute();
-    expect(answers.find((a) => a.question_id === 'known_allergies')).toMatchObject({ medical: true, answer: PATCH_ANSWERS.known_allergies });
+    // Health answers are sealed at rest: no plain text in the row, the answer once opened with the key.
+    const allergy = answers.find((a) => a.question_id === 'known_allergies')!;
+    expect(allergy.medical).toBe(true);
+    expect(JSON.stringify(allergy.answer)).not.toContain(PATCH_ANSWERS.known_allergies);
+    expect(openJson(allergy.answer)).toBe(PATCH_ANSWERS.known_allergies);
     expect(answers.find((a) => a.question_id === 'photos_ok')).toMatchObject({ medical: false, answer: true });
 
     // The stored PDF: its SHA-256 (computed here with node:crypto) is the one on record.
     const pdfRow = await t.db.db.selectFrom('files').selectAll().where('id', '=', consent.pdf_file_id).executeTakeFirstOrThrow();
-    const pdf = await fs.readFile(path.join(t.config.storageDir, pdfRow.storage_path));
+    const onDisk = await fs.readFile(path.join(t.config.storageDir, pdfRow.storage_path));
+    // It carries health answers, so the bytes on disk are sealed; opened, they are the PDF on record.
+    expect(onDisk.subarray(0, 5).toString()).not.toBe('%PDF-');
+    const pdf = openBytes(onDisk);
     expect(createHash('sha256').update(pdf).digest('hex')).toBe(consent.pdf_sha256);
     // Read back with pdf.js, an independent PDF reader: text, answers and the footer hash are in it.
     const parsed = await pdfText(pdf);
@@ -351,7 +359,9 @@ describe('withdrawal', () => {
     expect(res.status).toBe(200);
     expect(res.body.state).toBe('withdrawn');
     const row = await t.db.db.selectFrom('consents').select(['withdrawn_via', 'withdrawal_reason']).where('id', '=', c.id).executeTakeFirstOrThrow();
-    expect(row).toEqual({ withdrawn_via: 'performer', withdrawal_reason: 'Changed my mind' });
+    expect(row.withdrawn_via).toBe('performer');
+    expect(row.withdrawal_reason).not.toContain('Changed my mind');
+    expect(openJson(row.withdrawal_reason)).toBe('Changed my mind');
     expect((await lastMailTo('performer@plinth.test')).subject).toMatch(/withdrawn/);
     const again = await request(t.app).post(`/api/consents/${c.id}/withdraw`).set('Cookie', me).send({ version: c.version + 1 });
     expect(again.status).toBe(409);
@@ -399,7 +409,7 @@ describe('withdrawal', () => {
 describe('verifying a PDF', () => {
   it('recognises an unaltered consent and rejects a one-byte change', async () => {
     const c = await t.db.db.selectFrom('consents').innerJoin('files', 'files.id', 'consents.pdf_file_id').select(['consents.id', 'files.storage_path']).executeTakeFirstOrThrow();
-    const pdf = await fs.readFile(path.join(t.config.storageDir, c.storage_path));
+    const pdf = openBytes(await fs.readFile(path.join(t.config.storageDir, c.storage_path)));
     const ok = await request(t.app).post('/api/consents/verify').set('Cookie', head).attach('file', pdf, 'consent.pdf');
     expect(ok.status).toBe(200);
     expect(ok.body).toMatchObject({ match: true, consent: { id: c.id } });

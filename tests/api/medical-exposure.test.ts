@@ -1,3 +1,4 @@
+import { openJson } from '../../api/crypto/medical.ts';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { allRoutes } from '../../api/routes.ts';
@@ -32,7 +33,10 @@ beforeAll(async () => {
   expect(sds.status).toBe(200);
   ids.id = [juno.id, production.id, ...consents.map((c) => c.id), templates[0]!.id, bookings[0]!.id, harbour.id, tidewater.id, rosin.id, 'occluded-48h'];
   const answers = await db.selectFrom('consent_answers').select(['answer', 'medical']).where('medical', '=', true).execute();
-  for (const a of answers) if (typeof a.answer === 'string' && a.answer.length > 3) medicalTexts.push(a.answer);
+  for (const a of answers) {
+    const text = openJson(a.answer);
+    if (typeof text === 'string' && text.length > 3) medicalTexts.push(text);
+  }
   expect(medicalTexts).toContain('Sticking plasters make my skin itch');
   ids.performerId = [juno.id];
   ids.productionId = [production.id];

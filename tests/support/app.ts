@@ -8,6 +8,7 @@ import { createOidcClient } from '../../api/auth/oidc-client.ts';
 import { type Config, parseConfig } from '../../api/config.ts';
 import type { AppContext } from '../../api/context.ts';
 import { seedDemo } from '../../api/db/seed.ts';
+import { installKeyring, keyringOf } from '../../api/crypto/medical.ts';
 import { SESSION_COOKIE } from '../../api/http/session.ts';
 import { createMailer } from '../../api/mail/mailer.ts';
 import { startMailCatcher, type MailCatcher } from '../../scripts/mail-catcher.ts';
@@ -28,6 +29,9 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
+/** The key health details are sealed with in tests (a test may pass its own as MEDICAL_DATA_KEY). */
+export const TEST_MEDICAL_KEY = Buffer.alloc(32, 7).toString('base64');
+
 export const TEST_SESSION_SECRET = 'test-session-secret-0123456789abcdef-xyz';
 
 /** The real app on a fresh database with the demo data, a real SMTP catcher, and config from an object. */
@@ -35,6 +39,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
   // A database of the test's own (a restored one, say), left in place on close; else a fresh clone.
   const db: TestDb = opts.database ? { ...createDb(opts.database, { max: 5, log: () => {} }), name: 'given', url: opts.database, async drop() { await this.close(); } } : await createTestDb();
   const storage = await mkdtemp(path.join(os.tmpdir(), 'plinth-storage-'));
+  installKeyring(keyringOf(overrides.MEDICAL_DATA_KEY ?? TEST_MEDICAL_KEY));
   if (opts.seed !== false) await seedDemo(db.db, { storageDir: storage });
   const mail = await startMailCatcher({ port: 0, dir: path.join(storage, 'mail') });
   const config = parseConfig({
@@ -45,6 +50,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
     SMTP_URL: `smtp://127.0.0.1:${mail.port}`,
     STORAGE_DIR: storage,
     DATABASE_URL: db.url,
+    MEDICAL_DATA_KEY: TEST_MEDICAL_KEY,
     ...overrides,
   });
   const logged: string[] = [];

@@ -4,6 +4,8 @@ import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { parseConfig } from '../../api/config.ts';
 import { seedDemo } from '../../api/db/seed.ts';
+import { installKeyring, keyringOf } from '../../api/crypto/medical.ts';
+import { TEST_MEDICAL_KEY } from './app.ts';
 import { startServer } from '../../api/server.ts';
 import { startIdp } from '../../fake-idp/server.ts';
 import { startMailCatcher } from '../../scripts/mail-catcher.ts';
@@ -30,6 +32,7 @@ export default async function setup(project: TestProject) {
 
   const db = await createTestDb();
   const storage = await mkdtemp(path.join(os.tmpdir(), 'plinth-browser-'));
+  installKeyring(keyringOf(TEST_MEDICAL_KEY));
   await seedDemo(db.db, { storageDir: storage });
   const mail = await startMailCatcher({ port: 0, dir: path.join(storage, 'mail') });
   const appPort = await freePort();
@@ -47,6 +50,7 @@ export default async function setup(project: TestProject) {
     SMTP_URL: `smtp://127.0.0.1:${mail.port}`,
     STORAGE_DIR: storage,
     DATABASE_URL: db.url,
+    MEDICAL_DATA_KEY: TEST_MEDICAL_KEY,
   });
   const server = await startServer(config, db.url, { serveClient: true });
 

@@ -22,7 +22,7 @@ export const auditRoutes: AnyRoute[] = [
     method: 'get',
     path: '/api/performers/:id/health-reads',
     summary: "Who has read this performer's health details, and when (the performer and the designated lead)",
-    tag: 'admin',
+    tag: 'performers',
     auth: 'session',
     params: IdParamsSchema,
     response: HealthReadListSchema,

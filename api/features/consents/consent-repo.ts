@@ -2,6 +2,7 @@ import { type RawBuilder, sql } from 'kysely';
 import type { ConsentForGate } from '#shared/domain/bookings.ts';
 import { type ConsentKind, type ConsentState, consentState } from '#shared/domain/consent.ts';
 import type { ConsentSummary } from '#shared/schemas/consents.ts';
+import { openJson, sealJson } from '../../crypto/medical.ts';
 import type { Db } from '../../db/index.ts';
 
 // ---- the consent rules in SQL, mirroring consentState() and coversMoment() in shared/domain/consent.ts
@@ -92,7 +93,7 @@ export async function findConsentDetailRow(db: Db, id: string) {
   return {
     summary: toConsentSummary(r),
     body: r.body,
-    withdrawalReason: r.withdrawal_reason,
+    withdrawalReason: r.withdrawal_reason === null ? null : openJson<string>(r.withdrawal_reason),
     withdrawnVia: r.withdrawn_via,
     pdfSha256: r.pdf_sha256,
     contentSha256: r.content_sha256,
@@ -102,7 +103,10 @@ export async function findConsentDetailRow(db: Db, id: string) {
 
 export async function listConsentAnswers(db: Db, consentId: string): Promise<{ questionId: string; label: string; medical: boolean; answer: boolean | string | null }[]> {
   const rows = await db.selectFrom('consent_answers').select(['question_id', 'question_label', 'medical', 'answer']).where('consent_id', '=', consentId).orderBy('id').execute();
-  return rows.map((a) => ({ questionId: a.question_id, label: a.question_label, medical: a.medical, answer: typeof a.answer === 'boolean' || typeof a.answer === 'string' ? a.answer : null }));
+  return rows.map((a) => {
+    const answer = openJson(a.answer);
+    return { questionId: a.question_id, label: a.question_label, medical: a.medical, answer: typeof answer === 'boolean' || typeof answer === 'string' ? answer : null };
+  });
 }
 
 /** Consents of these performers in the shape the session gates read: one query for any number of performers. */
@@ -163,7 +167,8 @@ export async function lockConsentForWithdrawal(db: Db, id: string) {
 export async function markConsentWithdrawn(db: Db, id: string, v: { by: string | null; via: 'performer' | 'lead' | 'link'; reason: string | null }): Promise<void> {
   await db
     .updateTable('consents')
-    .set({ withdrawn_at: new Date(), withdrawn_by_user_id: v.by, withdrawn_via: v.via, withdrawal_reason: v.reason, version: sql`version + 1` })
+    // A reason may speak of health: sealed at rest like the answers.
+    .set({ withdrawn_at: new Date(), withdrawn_by_user_id: v.by, withdrawn_via: v.via, withdrawal_reason: v.reason === null ? null : sealJson(v.reason), version: sql`version + 1` })
     .where('id', '=', id)
     .execute();
 }
@@ -229,7 +234,8 @@ export async function insertConsent(
   if (answers.length) {
     await db
       .insertInto('consent_answers')
-      .values(answers.map((a) => ({ consent_id: v.id, question_id: a.questionId, question_label: a.label, medical: a.medical, answer: JSON.stringify(a.answer) })))
+      // Health answers are sealed at rest; the others stay readable to the database.
+      .values(answers.map((a) => ({ consent_id: v.id, question_id: a.questionId, question_label: a.label, medical: a.medical, answer: JSON.stringify(a.medical ? sealJson(a.answer) : a.answer) })))
       .execute();
   }
 }

@@ -91,7 +91,8 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
       if (p.requestId && (await lockRequestStatus(trx, p.requestId)) !== 'open') throw new RequestNotOpen();
       const sig = await storeFile(trx, storageDir, { purpose: 'signature', contentType: 'image/png', ext: 'png', bytes: p.signaturePng, createdBy: p.staffUserId });
       written.push(sig);
-      const file = await storeFile(trx, storageDir, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId });
+      // A copy that carries health answers is sealed at rest like the answers themselves.
+      const file = await storeFile(trx, storageDir, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId, sealed: answers.some((a) => a.medical) });
       written.push(file);
       await insertConsent(
         trx,

@@ -28,6 +28,8 @@ describe('every performer route × every role', () => {
     { route: 'DELETE /api/performers/:id/portrait', run: (who) => api().delete(`/api/performers/${oz}/portrait`).set('Cookie', as[who]) },
     { route: 'GET /api/performers/:id/portrait', run: (who) => api().get(`/api/performers/${oz}/portrait`).set('Cookie', as[who]) },
     { route: 'GET /api/performers/:id/portrait/thumbnail', run: (who) => api().get(`/api/performers/${oz}/portrait/thumbnail`).set('Cookie', as[who]) },
+    { route: 'GET /api/performers/:id/health-reads', run: (who) => api().get(`/api/performers/${oz}/health-reads`).set('Cookie', as[who]) },
+    { route: 'GET /api/performers/:id/records.zip', run: (who) => api().get(`/api/performers/${oz}/records.zip`).set('Cookie', as[who]) },
     { route: 'POST /api/performers/import', run: (who) => api().post(`/api/performers/import?productionId=${lantern}`).set('Cookie', as[who]).attach('file', csv(), 'p.csv') },
   ];
   // Lantern's head and lead manage; its artists (artist2 is head of Saltglass only) and archivist view;
@@ -45,6 +47,9 @@ describe('every performer route × every role', () => {
     'GET /api/performers/:id/portrait': { allowed: ok.view, status: 200 },
     'GET /api/performers/:id/portrait/thumbnail': { allowed: ok.view, status: 200 },
     'POST /api/performers/import': { allowed: ok.manage, status: 200 },
+    // Health data: the lead only (Oz, the performer here, has no sign-in of his own).
+    'GET /api/performers/:id/health-reads': { allowed: ['lead'], status: 200 },
+    'GET /api/performers/:id/records.zip': { allowed: ['lead'], status: 200 },
   };
   const everyone: Who[] = ['head', 'lead', 'artist', 'archivist', 'artist2', 'performer', 'admin', 'norole'];
   for (const c of cases) {

@@ -1,0 +1,8 @@
+/**
+ * Every column that holds sealed health details, for the key rotation to re-seal. A feature that
+ * seals a new column adds it here (and a test reads its raw rows to prove no plain text is left).
+ */
+export const SEALED_COLUMNS: readonly { table: string; key: string; column: string; jsonb: boolean }[] = [
+  { table: 'consent_answers', key: 'id', column: 'answer', jsonb: true },
+  { table: 'consents', key: 'id', column: 'withdrawal_reason', jsonb: false },
+];

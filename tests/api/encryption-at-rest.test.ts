@@ -1,0 +1,86 @@
+import { existsSync, promises as fs } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { sealedWith } from '../../api/crypto/medical.ts';
+import { rotateMedicalKey } from '../../scripts/rotate-key-lib.ts';
+import { createTestApp, TEST_MEDICAL_KEY, type TestApp } from '../support/app.ts';
+
+let t: TestApp;
+let work: string;
+const ALLERGY = 'Sticking plasters make my skin itch';
+
+beforeAll(async () => {
+  t = await createTestApp();
+  work = await fs.mkdtemp(path.join(os.tmpdir(), 'plinth-key-'));
+  // A withdrawal with a reason, so a sealed reason exists too.
+  const bea = (await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Beatrix Nwachukwu').executeTakeFirstOrThrow()).id;
+  const c = await t.db.db.selectFrom('consents').select(['id', 'version']).where('performer_id', '=', bea).where('withdrawn_at', 'is', null).executeTakeFirstOrThrow();
+  await request(t.app).post(`/api/consents/${c.id}/withdraw`).set('Cookie', await t.sessionFor('lead@plinth.test')).send({ reason: 'My eczema flared up', version: c.version }).expect(200);
+});
+afterAll(async () => {
+  await t?.close();
+  await fs.rm(work, { recursive: true, force: true });
+});
+
+async function rawMedical() {
+  const answers = await t.db.db.selectFrom('consent_answers').select(['answer']).where('medical', '=', true).execute();
+  const reasons = await t.db.db.selectFrom('consents').select(['withdrawal_reason']).where('withdrawal_reason', 'is not', null).execute();
+  return { answers: answers.map((a) => JSON.stringify(a.answer)), reasons: reasons.map((r) => r.withdrawal_reason!) };
+}
+
+async function medicalPdfFiles() {
+  const rows = await t.db.db
+    .selectFrom('consents as c')
+    .innerJoin('files as f', 'f.id', 'c.pdf_file_id')
+    .select(['f.storage_path'])
+    .where((eb) => eb.exists(eb.selectFrom('consent_answers as a').select('a.id').whereRef('a.consent_id', '=', 'c.id').where('a.medical', '=', true)))
+    .execute();
+  return Promise.all(rows.map(async (r) => fs.readFile(path.join(t.config.storageDir, r.storage_path))));
+}
+
+describe('health details at rest', () => {
+  it('no health answer, withdrawal reason or health-bearing PDF is stored in plain text', async () => {
+    const { answers, reasons } = await rawMedical();
+    expect(answers.length).toBeGreaterThan(3);
+    for (const a of answers) expect(a).toMatch(/^"sealed:v1:/);
+    expect(answers.join('\n')).not.toContain(ALLERGY);
+    expect(reasons.length).toBeGreaterThan(0);
+    for (const r of reasons) expect(r.startsWith('sealed:v1:')).toBe(true);
+    expect(reasons.join('\n')).not.toContain('eczema');
+    const pdfs = await medicalPdfFiles();
+    expect(pdfs.length).toBeGreaterThan(2);
+    for (const bytes of pdfs) {
+      expect(bytes.subarray(0, 5).toString('latin1')).not.toBe('%PDF-');
+      expect(bytes.toString('latin1')).not.toContain('Sticking');
+    }
+  });
+
+  it('the lead still reads them through the app', async () => {
+    const juno = (await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow()).id;
+    const c = (await t.db.db.selectFrom('consents').select('id').where('performer_id', '=', juno).where('kind', '=', 'patch_testing').executeTakeFirstOrThrow()).id;
+    const res = await request(t.app).get(`/api/consents/${c}`).set('Cookie', await t.sessionFor('lead@plinth.test'));
+    expect(JSON.stringify(res.body)).toContain(ALLERGY);
+  });
+
+  it('a rotation seals everything again under a new key, drops the old one, and the app reads on', async () => {
+    const keyFile = path.join(work, 'medical-data.key');
+    await fs.writeFile(keyFile, `${TEST_MEDICAL_KEY}\n`, { mode: 0o600 });
+    const before = await rawMedical();
+    const oldId = sealedWith(JSON.parse(before.answers[0]!) as string);
+    const report = await rotateMedicalKey({ db: t.db.db, storageDir: t.config.storageDir, keyFile });
+    expect(report.keyId).not.toBe(oldId);
+    expect(report.values).toBe(before.answers.length + before.reasons.length);
+    expect(report.files).toBe((await medicalPdfFiles()).length);
+    const after = await rawMedical();
+    for (const a of after.answers) expect(sealedWith(JSON.parse(a) as string)).toBe(report.keyId);
+    for (const f of await medicalPdfFiles()) expect(sealedWith(f)).toBe(report.keyId);
+    expect((await fs.stat(keyFile)).mode & 0o777).toBe(0o600);
+    expect(existsSync(`${keyFile}.previous`)).toBe(false);
+    // The process now holds only the new key, and the lead still reads the answer.
+    const juno = (await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow()).id;
+    const c = (await t.db.db.selectFrom('consents').select('id').where('performer_id', '=', juno).where('kind', '=', 'patch_testing').executeTakeFirstOrThrow()).id;
+    expect(JSON.stringify((await request(t.app).get(`/api/consents/${c}`).set('Cookie', await t.sessionFor('lead@plinth.test'))).body)).toContain(ALLERGY);
+  });
+});
