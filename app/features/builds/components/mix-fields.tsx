@@ -28,6 +28,8 @@ interface MixFieldsProps {
 }
 
 const decimal = { inputMode: 'decimal' as const, autoComplete: 'off' };
+/** A figure taken from the catalogue looks fixed as well as saying so. */
+export const LOCKED = '[&_input]:bg-sand-100';
 
 /** The ratio, softener, pigment, batch size and scale of an appliance run. */
 export function MixFields({ field, error, values, locked }: MixFieldsProps) {
@@ -37,8 +39,8 @@ export function MixFields({ field, error, values, locked }: MixFieldsProps) {
       <fieldset className="flex flex-col gap-3">
         <legend className="mb-1 text-lg font-bold text-ink-900">Mix ratio, by weight</legend>
         <div className="grid gap-4 sm:grid-cols-2">
-          <TextField label="Part A (parts)" {...decimal} readOnly={locked.ratio} hint={locked.ratio ? fromCatalogue : undefined} error={error('ratio.partA') ?? error('ratio')} {...field('ratio.partA')} />
-          <TextField label="Part B (parts)" {...decimal} readOnly={locked.ratio} hint={locked.ratio ? fromCatalogue : undefined} error={error('ratio.partB')} {...field('ratio.partB')} />
+          <TextField label="Part A (parts)" {...decimal} readOnly={locked.ratio} className={locked.ratio ? LOCKED : ''} hint={locked.ratio ? fromCatalogue : undefined} error={error('ratio.partA') ?? error('ratio')} {...field('ratio.partA')} />
+          <TextField label="Part B (parts)" {...decimal} readOnly={locked.ratio} className={locked.ratio ? LOCKED : ''} hint={locked.ratio ? fromCatalogue : undefined} error={error('ratio.partB')} {...field('ratio.partB')} />
         </div>
       </fieldset>
       <fieldset className="flex flex-col gap-3">
@@ -49,6 +51,7 @@ export function MixFields({ field, error, values, locked }: MixFieldsProps) {
             label="Maker’s maximum softener (%)"
             {...decimal}
             readOnly={locked.makerMax}
+            className={locked.makerMax ? LOCKED : ''}
             hint={locked.makerMax ? fromCatalogue : 'From the material’s data sheet.'}
             error={error('softener.makerMaxPercent')}
             {...field('softener.makerMaxPercent')}

@@ -8,6 +8,7 @@ import { TextField } from '../../../components/ui/text-field.tsx';
 import { BuildCautions } from '../components/build-cautions.tsx';
 import { MoldBoxFormSchema, moldBoxFormValues, readLive, type MoldBoxFormValues } from '../components/calc-values.ts';
 import { CalculatorTabs, MaterialChoice, useChosenProduct } from '../components/material-choice.tsx';
+import { LOCKED } from '../components/mix-fields.tsx';
 
 const decimal = { inputMode: 'decimal' as const, autoComplete: 'off' };
 const one = (n: number, unit: string) => `${new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1, minimumFractionDigits: 1 }).format(n)} ${unit}`;
@@ -77,9 +78,9 @@ export function MoldBoxCalculatorPage() {
           </div>
           <MaterialChoice value={productId} onChange={setProductId} />
           <div className="grid gap-4 sm:grid-cols-3">
-            <TextField label="Density (g/cm³)" {...decimal} readOnly={lockedDensity} hint={lockedDensity ? 'From the catalogue' : 'Of the mixed material, from its data sheet.'} error={error('densityGPerCm3')} {...form.register('densityGPerCm3')} />
-            <TextField label="Part A (parts)" {...decimal} readOnly={lockedRatio} hint={lockedRatio ? 'From the catalogue' : undefined} error={error('ratio.partA') ?? error('ratio')} {...form.register('ratio.partA')} />
-            <TextField label="Part B (parts)" {...decimal} readOnly={lockedRatio} hint={lockedRatio ? 'From the catalogue' : undefined} error={error('ratio.partB')} {...form.register('ratio.partB')} />
+            <TextField label="Density (g/cm³)" {...decimal} readOnly={lockedDensity} className={lockedDensity ? LOCKED : ''} hint={lockedDensity ? 'From the catalogue' : 'Of the mixed material, from its data sheet.'} error={error('densityGPerCm3')} {...form.register('densityGPerCm3')} />
+            <TextField label="Part A (parts)" {...decimal} readOnly={lockedRatio} className={lockedRatio ? LOCKED : ''} hint={lockedRatio ? 'From the catalogue' : undefined} error={error('ratio.partA') ?? error('ratio')} {...form.register('ratio.partA')} />
+            <TextField label="Part B (parts)" {...decimal} readOnly={lockedRatio} className={lockedRatio ? LOCKED : ''} hint={lockedRatio ? 'From the catalogue' : undefined} error={error('ratio.partB')} {...form.register('ratio.partB')} />
           </div>
         </Section>
         <Section title="The box and the pour">
