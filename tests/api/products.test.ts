@@ -183,7 +183,7 @@ describe('POST /api/products', () => {
     expect(cat.status).toBe(400);
     expect(fieldsOf(cat.body).category).toEqual(['Choose a category']);
     expect(await count('products')).toBe(before);
-    expect(await count('product_formulations')).toBe(18);
+    expect(await count('product_formulations')).toBe(23);
   });
 
   it('refuses artists, the archivist, the administrator, performers and the role-less', async () => {
@@ -227,7 +227,7 @@ describe('formulations', () => {
     expect(d.version).toBe(2);
     const stale = await api().post(`/api/products/${id}/formulations`).set('Cookie', as.head).send({ inciLabel: 'Aqua', version: 1 });
     expect(stale.status).toBe(409);
-    expect(await count('product_formulations')).toBe(19);
+    expect(await count('product_formulations')).toBe(24);
   });
 
   it('records the ingredients of a formulation that had none, once', async () => {
@@ -281,7 +281,7 @@ describe('lots', () => {
     }
     const far = await api().post(`/api/products/${id}/lots`).set('Cookie', as.head).send({ code: 'TC-Y', expiresOn: '2999-01-31' });
     expect(fieldsOf(far.body).expiresOn).toEqual(['Use an expiry date between the years 2000 and 2100']);
-    expect(await count('product_lots')).toBe(20);
+    expect(await count('product_lots')).toBe(26);
   });
 
   it('refuses a formulation of another product for a lot', async () => {
