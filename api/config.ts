@@ -15,7 +15,9 @@ const EnvSchema = z
     DB_PORT: z.coerce.number().int().min(1).max(65535).default(54329),
     DB_PASSWORD: z.string().min(8, 'must be at least 8 characters').default('plinth-dev-db'),
     SESSION_SECRET: z.string().min(32, 'must be at least 32 characters').default(DEV_SESSION_SECRET),
-    SESSION_TTL_HOURS: z.coerce.number().positive().default(12),
+    SESSION_IDLE_MINUTES: z.coerce.number().positive().default(30),
+    SESSION_MAX_HOURS: z.coerce.number().positive().default(12),
+    TABLET_IDLE_MINUTES: z.coerce.number().positive().default(10),
     OIDC_ISSUER: z.url({ message: 'must be the issuer URL of the identity provider' }).default('http://127.0.0.1:3001'),
     OIDC_CLIENT_ID: z.string().min(1).default('plinth'),
     OIDC_CLIENT_SECRET: z.string().min(1).default('plinth-dev-secret'),
@@ -69,7 +71,12 @@ export interface Config {
   dbPort: number;
   dbPassword: string;
   sessionSecret: string;
+  /** A session unused this long is gone. */
   sessionTtlMs: number;
+  /** However busy, a sign-in lasts at most this long. */
+  sessionMaxMs: number;
+  /** The lent tablet's signing screen, left alone this long, locks for good (staff sign in again). */
+  tabletIdleMs: number;
   oidc: { issuer: string; clientId: string; clientSecret: string; scopes: string; redirectUri: string; postLogoutRedirectUri: string };
   idpPort: number;
   smtpUrl: string;
@@ -114,7 +121,9 @@ export function parseConfig(source: Record<string, string | undefined>): Config 
     dbPort: env.DB_PORT,
     dbPassword: env.DB_PASSWORD,
     sessionSecret: env.SESSION_SECRET,
-    sessionTtlMs: env.SESSION_TTL_HOURS * 3600_000,
+    sessionTtlMs: env.SESSION_IDLE_MINUTES * 60_000,
+    sessionMaxMs: env.SESSION_MAX_HOURS * 3600_000,
+    tabletIdleMs: env.TABLET_IDLE_MINUTES * 60_000,
     oidc: {
       issuer: env.OIDC_ISSUER.replace(/\/$/, ''),
       clientId: env.OIDC_CLIENT_ID,

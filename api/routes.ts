@@ -6,6 +6,7 @@ import { locationRoutes } from './features/archive/location-routes.ts';
 import { healthRoutes } from './features/health/routes.ts';
 import { identityRoutes } from './features/performers/identity-routes.ts';
 import { outboxRoutes } from './features/outbox/routes.ts';
+import { recordsExportRoutes } from './features/records-export/routes.ts';
 import { performerRoutes } from './features/performers/routes.ts';
 import { bookingRoutes } from './features/bookings/routes.ts';
 import { buildRoutes } from './features/builds/routes.ts';
@@ -29,6 +30,7 @@ const featureRoutes: AnyRoute[] = [
   ...outboxRoutes,
   ...performerRoutes,
   ...identityRoutes,
+  ...recordsExportRoutes,
   ...templateRoutes,
   ...signingRoutes,
   ...consentRoutes,

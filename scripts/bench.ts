@@ -164,7 +164,7 @@ try {
     const sid = randomBytes(24).toString('base64url');
     const expires = new Date(Date.now() + config.sessionTtlMs);
     const cookie = { originalMaxAge: config.sessionTtlMs, expires: expires.toISOString(), httpOnly: true, path: '/', sameSite: 'lax' };
-    await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie, userId: user.id }), expire: expires }).execute();
+    await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie, userId: user.id, signedInAt: Date.now() }), expire: expires }).execute();
     return `${SESSION_COOKIE}=${encodeURIComponent(`s:${sid}.${createHmac('sha256', secret).update(sid).digest('base64').replace(/=+$/, '')}`)}`;
   }
   const admin = await cookieFor('admin@plinth.test');

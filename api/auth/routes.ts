@@ -133,6 +133,7 @@ export const authRoutes = [
       // A new session id at sign-in, so an id planted before sign-in is worthless after it.
       await regenerate(req);
       req.session.userId = user.id;
+      req.session.signedInAt = Date.now();
       req.session.idToken = tokens.id_token;
       await save(req);
       await recordEvent(ctx.db, { actorUserId: user.id, action: 'auth.sign_in', entityType: 'user', entityId: user.id, req, details: { created: user.created } });

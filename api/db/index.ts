@@ -9,6 +9,12 @@ pg.types.setTypeParser(20, (v) => v);
 
 export type Db = Kysely<Database>;
 
+/**
+ * Fuzzy-match cut-off for pg_trgm's word similarity, set on every connection so the index-backed
+ * `<%` operator and an explicit word_similarity() comparison agree without a transaction per search.
+ */
+export const WORD_SIMILARITY_THRESHOLD = 0.3;
+
 export interface DbHandle {
   db: Db;
   pool: pg.Pool;
@@ -19,6 +25,7 @@ export interface DbHandle {
 export function createDb(databaseUrl: string, opts: { max?: number; log?: (msg: string) => void } = {}): DbHandle {
   const pool = new pg.Pool({
     connectionString: databaseUrl,
+    options: `-c pg_trgm.word_similarity_threshold=${WORD_SIMILARITY_THRESHOLD}`,
     max: opts.max ?? 10,
     connectionTimeoutMillis: 5000,
     idleTimeoutMillis: 30_000,

@@ -99,6 +99,10 @@ export interface AuditLogTable {
   ip: string | null;
   /** The performer who acted without a sign-in (through a one-time link). */
   actor_performer_id: ColumnType<string | null, string | null | undefined, string | null>;
+  /** Whose record the entry is about (a performer), when it is about one. */
+  subject_performer_id: ColumnType<string | null, string | null | undefined, string | null>;
+  /** The route that made it ("GET /api/consents/:id"). */
+  route: ColumnType<string | null, string | null | undefined, string | null>;
 }
 
 export interface FilesTable {

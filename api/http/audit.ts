@@ -12,6 +12,8 @@ export interface AuditEvent {
   /** The performer who acted through a one-time link, with no sign-in. */
   actorPerformerId?: string | null;
   action: AuditAction;
+  /** Whose record this is about, when it is a performer's (medical reads always say). */
+  performerId?: string | null;
   entityType: string;
   entityId?: string | null;
   productionId?: string | null;
@@ -35,6 +37,8 @@ export async function writeAudit(trx: Trx, e: AuditEvent): Promise<void> {
       production_id: e.productionId ?? null,
       details: JSON.stringify(e.details ?? {}),
       ip: e.req?.ip ?? null,
+      subject_performer_id: e.performerId ?? null,
+      route: e.req ? routeOf(e.req) : null,
     })
     .execute();
 }
@@ -45,4 +49,10 @@ export async function writeAudit(trx: Trx, e: AuditEvent): Promise<void> {
  */
 export async function recordEvent(db: Db, e: AuditEvent): Promise<void> {
   await db.transaction().execute((trx) => writeAudit(trx, e));
+}
+
+/** The route pattern a request matched ("GET /api/consents/:id"), never its concrete URL: no ids or tokens. */
+function routeOf(req: Request): string | null {
+  const path = (req.route as { path?: unknown } | undefined)?.path;
+  return typeof path === 'string' ? `${req.method} ${path}` : null;
 }

@@ -87,7 +87,7 @@ export function mountRoutes(router: Router, routes: readonly AnyRoute[], ctx: Ap
     const handlers: express.RequestHandler[] = [...(route.before ?? [])];
     handlers.push(async (req: Request, res: Response, next: NextFunction) => {
       try {
-        const actor = await sessionActor(req, ctx.db);
+        const actor = await sessionActor(req, ctx.db, ctx.config.sessionMaxMs);
         if (route.auth === 'session' && !actor) {
           if (req.session?.tablet) {
             throw new ApiError('unauthenticated', 'This tablet is lent to a performer for signing. Staff must sign in again.', { tablet: req.session.tablet.phase });

@@ -1,6 +1,7 @@
 import connectPgSimple from 'connect-pg-simple';
 import type { Request } from 'express';
 import session, { type SessionData } from 'express-session';
+import { sql } from 'kysely';
 import type pg from 'pg';
 import type { Actor } from '#shared/policy.ts';
 import type { Config } from '../config.ts';
@@ -10,6 +11,8 @@ import { loadActor, type StampedActor } from './actor.ts';
 declare module 'express-session' {
   interface SessionData {
     userId?: string;
+    /** When this sign-in was made (ms since the epoch): it lasts at most SESSION_MAX_HOURS, however busy. */
+    signedInAt?: number;
     idToken?: string;
     oidc?: { codeVerifier: string; state: string; nonce: string; returnTo: string; forceLogin?: boolean; startedAt: number };
     current?: { productionId: string | null; role: string };
@@ -22,7 +25,7 @@ export const SESSION_COOKIE = 'plinth.sid';
 
 /**
  * The stored expiry is rewritten at most this often. An active session's row therefore lags its
- * last request by less than this, and an idle one is gone SESSION_TTL after its last refresh.
+ * last request by less than this, and an idle one is gone SESSION_IDLE_MINUTES after its last refresh.
  */
 export const SESSION_REFRESH_MS = 60_000;
 
@@ -123,10 +126,17 @@ export class SessionStore extends PgStore {
  * The signed-in actor: the one kept with the session while its stamp holds (no extra round trip),
  * otherwise read afresh and kept. Null when the session has no user (signed out, or a lent tablet).
  */
-export async function sessionActor(req: Request, db: Db): Promise<Actor | null> {
+export async function sessionActor(req: Request, db: Db, maxMs: number): Promise<Actor | null> {
   const sess = req.session;
   const userId = sess?.userId;
   if (!userId) return null;
+  // The absolute limit: a sign-in older than it (or from before the limit existed) is over.
+  if (!sess.signedInAt || Date.now() - sess.signedInAt > maxMs) {
+    delete sess.userId;
+    delete sess.idToken;
+    delete sess.current;
+    return null;
+  }
   const kept = keptOf(sess);
   if (kept?.access && kept.access.actor.userId === userId) return kept.access.actor;
   const loaded = await loadActor(db, userId);
@@ -135,6 +145,12 @@ export async function sessionActor(req: Request, db: Db): Promise<Actor | null> 
   else keep(sess, { access: loaded, storedExpireMs: null });
   if (req.sessionStore instanceof SessionStore) await req.sessionStore.keepAccess(req.sessionID, userId, loaded);
   return loaded.actor;
+}
+
+/** Ends every session of a user at once (the tablet a user lent is locked already and stays so). */
+export async function endSessionsOf(db: Db, userId: string): Promise<number> {
+  const res = await db.deleteFrom('sessions').where(sql`sess->>'userId'`, '=', userId).executeTakeFirst();
+  return Number(res.numDeletedRows);
 }
 
 /** Server-side sessions in PostgreSQL; the cookie holds only a signed id. */

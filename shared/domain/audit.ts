@@ -8,6 +8,7 @@ export const AUDIT_ACTION_LABELS = {
   'auth.sign_out': 'Signed out',
   'user.create': 'Added a user',
   'user.update': 'Changed a user',
+  'user.sessions_end': 'Ended every session of a user',
   'production.create': 'Added a production',
   'production.update': 'Changed a production',
   'membership.add': 'Gave a role',

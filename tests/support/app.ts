@@ -11,6 +11,7 @@ import { seedDemo } from '../../api/db/seed.ts';
 import { SESSION_COOKIE } from '../../api/http/session.ts';
 import { createMailer } from '../../api/mail/mailer.ts';
 import { startMailCatcher, type MailCatcher } from '../../scripts/mail-catcher.ts';
+import { createDb } from '../../api/db/index.ts';
 import { createTestDb, type TestDb } from './db.ts';
 
 export interface TestApp {
@@ -30,8 +31,9 @@ export interface TestApp {
 export const TEST_SESSION_SECRET = 'test-session-secret-0123456789abcdef-xyz';
 
 /** The real app on a fresh database with the demo data, a real SMTP catcher, and config from an object. */
-export async function createTestApp(overrides: Record<string, string> = {}, opts: { seed?: boolean } = {}): Promise<TestApp> {
-  const db = await createTestDb();
+export async function createTestApp(overrides: Record<string, string> = {}, opts: { seed?: boolean; database?: string } = {}): Promise<TestApp> {
+  // A database of the test's own (a restored one, say), left in place on close; else a fresh clone.
+  const db: TestDb = opts.database ? { ...createDb(opts.database, { max: 5, log: () => {} }), name: 'given', url: opts.database, async drop() { await this.close(); } } : await createTestDb();
   const storage = await mkdtemp(path.join(os.tmpdir(), 'plinth-storage-'));
   if (opts.seed !== false) await seedDemo(db.db, { storageDir: storage });
   const mail = await startMailCatcher({ port: 0, dir: path.join(storage, 'mail') });
@@ -75,7 +77,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
       const expires = new Date(Date.now() + 3600_000);
       await db.db
         .insertInto('sessions')
-        .values({ sid, sess: JSON.stringify({ cookie: { originalMaxAge: 3600_000, expires: expires.toISOString(), httpOnly: true, path: '/', sameSite: 'lax' }, userId: id }), expire: expires })
+        .values({ sid, sess: JSON.stringify({ cookie: { originalMaxAge: 3600_000, expires: expires.toISOString(), httpOnly: true, path: '/', sameSite: 'lax' }, userId: id, signedInAt: Date.now() }), expire: expires })
         .execute();
       // The same signature express-session checks: HMAC-SHA256, base64 without padding.
       const sig = createHmac('sha256', TEST_SESSION_SECRET).update(sid).digest('base64').replace(/=+$/, '');

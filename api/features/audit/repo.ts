@@ -33,3 +33,26 @@ export async function listAuditPage(db: Db, query: AuditQuery): Promise<AuditPag
     pageSize: query.pageSize,
   };
 }
+
+export interface AccessEntry {
+  at: string;
+  who: string | null;
+  action: string;
+  entityType: string;
+  route: string | null;
+}
+
+/** Who read a performer's health details, and when, newest first (at most 500). */
+export async function listHealthReadsOf(db: Db, performerId: string): Promise<AccessEntry[]> {
+  const rows = await db
+    .selectFrom('audit_log as a')
+    .leftJoin('users as u', 'u.id', 'a.actor_user_id')
+    .select(['a.at', 'u.display_name', 'a.action', 'a.entity_type', 'a.route'])
+    .where('a.subject_performer_id', '=', performerId)
+    .where('a.action', '=', 'medical.read')
+    .orderBy('a.at', 'desc')
+    .orderBy('a.id', 'desc')
+    .limit(500)
+    .execute();
+  return rows.map((r) => ({ at: new Date(r.at).toISOString(), who: r.display_name, action: r.action, entityType: r.entity_type, route: r.route }));
+}

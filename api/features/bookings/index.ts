@@ -1,2 +1,3 @@
 // What other features may use of sessions (bookings); everything else here is the feature's own.
-export { listBookings } from './service.ts';
+export { upcomingBookingsJsonSql } from './repo.ts';
+export { bookingsFromJson, listBookings } from './service.ts';

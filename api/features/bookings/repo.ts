@@ -1,4 +1,4 @@
-import { sql } from 'kysely';
+import { type RawBuilder, sql } from 'kysely';
 import type { BookingPurpose } from '#shared/domain/bookings.ts';
 import type { Db } from '../../db/index.ts';
 
@@ -79,4 +79,22 @@ export async function insertBooking(
 
 export async function setBookingStatus(db: Db, id: string, status: BookingRow['status']): Promise<void> {
   await db.updateTable('bookings').set({ status }).where('id', '=', id).execute();
+}
+
+/** A session as the JSON fragment below returns it. */
+export interface BookingJsonRow {
+  id: string;
+  production_id: string;
+  purpose: BookingPurpose;
+  starts_at: string;
+  location: string | null;
+  status: BookingRow['status'];
+}
+
+/** The booked sessions of the performer whose id is `performerId` starting from `from`, in start order, as a JSON array. */
+export function upcomingBookingsJsonSql(performerId: RawBuilder<string>, from: Date): RawBuilder<BookingJsonRow[]> {
+  return sql<BookingJsonRow[]>`coalesce((
+    select json_agg(json_build_object('id', b.id, 'production_id', b.production_id, 'purpose', b.purpose, 'starts_at', b.starts_at, 'location', b.location, 'status', b.status) order by b.starts_at, b.id)
+    from bookings b where b.performer_id = ${performerId} and b.status = 'booked' and b.starts_at >= ${from}
+  ), '[]'::json)`;
 }

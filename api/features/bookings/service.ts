@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import { sessionsMissingConsent } from '#shared/domain/bookings.ts';
+import { type ConsentForGate, sessionsMissingConsent } from '#shared/domain/bookings.ts';
 import type { Actor } from '#shared/policy.ts';
 import type { Booking, CreateBookingInput } from '#shared/schemas/bookings.ts';
 import type { AppContext } from '../../context.ts';
@@ -9,7 +9,7 @@ import { authorize } from '../../http/authorize.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { listConsentsForGate } from '../consents/index.ts';
 import { isEngagedOn } from '../performers/index.ts';
-import { type BookingFilter, findBookingForChange, findBookingProduction, insertBooking, listBookingRows, setBookingStatus } from './repo.ts';
+import { type BookingFilter, type BookingJsonRow, findBookingForChange, findBookingProduction, insertBooking, listBookingRows, setBookingStatus } from './repo.ts';
 
 /** Sessions with, for each, whether its consent will be in force when it starts: one query for the sessions, one for the consents. */
 export async function listBookings(db: Db, where: BookingFilter): Promise<Booking[]> {
@@ -50,4 +50,13 @@ export async function cancelBooking(ctx: AppContext, actor: Actor, id: string, r
     await writeAudit(trx, { actorUserId: actor.userId, action: 'booking.cancel', entityType: 'booking', entityId: id, productionId: b.productionId, req });
   });
   return bookingById(ctx.db, id);
+}
+
+/** Sessions read as JSON within another record's statement, with their consent flags from consents read the same way. */
+export function bookingsFromJson(rows: readonly BookingJsonRow[], performer: { id: string; name: string }, consents: readonly ConsentForGate[], showsProduction: (productionId: string) => boolean): Booking[] {
+  const sessions = rows
+    .filter((r) => showsProduction(r.production_id))
+    .map((r) => ({ id: r.id, performerId: performer.id, performerName: performer.name, productionId: r.production_id, purpose: r.purpose, startsAt: new Date(r.starts_at), location: r.location, status: r.status }));
+  const missing = sessionsMissingConsent(sessions, consents);
+  return sessions.map((s) => ({ ...s, startsAt: s.startsAt.toISOString(), consentMissing: missing.has(s.id) }));
 }

@@ -34,7 +34,7 @@ export async function setPhoto(ctx: AppContext, actor: Actor, id: string, req: R
       const small = await storeFile(trx, storageDir, { purpose: 'build_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
       written.push(small);
       replaced = await deleteFileRows(trx, await setBuildPhoto(trx, id, big.id, small.id));
-      await writeAudit(trx, { actorUserId: actor.userId, action: 'build.photo_set', entityType: 'appliance_build', entityId: id, productionId: build.productionId, req, details: { fileId: big.id } });
+      await writeAudit(trx, { actorUserId: actor.userId, action: 'build.photo_set', performerId: build.performerId, entityType: 'appliance_build', entityId: id, productionId: build.productionId, req, details: { fileId: big.id } });
     });
   } catch (err) {
     await discardFiles(storageDir, written);

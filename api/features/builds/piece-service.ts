@@ -35,6 +35,7 @@ export async function markPiece(ctx: AppContext, actor: Actor, pieceId: string, 
     await writeAudit(trx, {
       actorUserId: actor.userId,
       action: 'piece.mark',
+      performerId: build.performerId,
       entityType: 'appliance_piece',
       entityId: pieceId,
       productionId: build.productionId,
@@ -76,6 +77,7 @@ export async function setPlan(ctx: AppContext, actor: Actor, input: SetPlanValue
     await writeAudit(trx, {
       actorUserId: actor.userId,
       action: 'appliance_plan.set',
+      performerId: mold.performerId,
       entityType: 'cast',
       entityId: mold.id,
       productionId: input.productionId,

@@ -90,6 +90,7 @@ export async function createBuild(ctx: AppContext, actor: Actor, input: CreateBu
     await writeAudit(trx, {
       actorUserId: actor.userId,
       action: 'build.create',
+      performerId: mold.performerId,
       entityType: 'appliance_build',
       entityId: buildId,
       productionId: input.productionId,
@@ -128,6 +129,7 @@ export async function updateBuild(ctx: AppContext, actor: Actor, id: string, inp
     await writeAudit(trx, {
       actorUserId: actor.userId,
       action: 'build.update',
+      performerId: current.performerId,
       entityType: 'appliance_build',
       entityId: id,
       productionId: current.productionId,

@@ -254,3 +254,58 @@ export async function storageConsentTimes(
     withdrawnAt: r.withdrawn_at ? new Date(r.withdrawn_at) : null,
   }));
 }
+
+// ---- a performer's consents as one JSON column, for reads that gather a whole record in one statement
+
+/** A consent as the JSON fragment below returns it. */
+export interface ConsentJsonRow {
+  id: string;
+  production_id: string | null;
+  kind: ConsentKind;
+  title: string;
+  template_version: number;
+  signed_at: string;
+  expires_at: string | null;
+  withdrawn_at: string | null;
+  signer_name: string;
+  signing_method: 'tablet' | 'link';
+  version: number;
+}
+
+/** The consents of the performer whose id is `performerId` (a column reference), newest first, as a JSON array. */
+export function consentsJsonSql(performerId: RawBuilder<string>): RawBuilder<ConsentJsonRow[]> {
+  return sql<ConsentJsonRow[]>`coalesce((
+    select json_agg(json_build_object(
+      'id', c.id, 'production_id', c.production_id, 'kind', c.kind, 'title', v.title, 'template_version', v.version,
+      'signed_at', c.signed_at, 'expires_at', c.expires_at, 'withdrawn_at', c.withdrawn_at,
+      'signer_name', c.signer_name, 'signing_method', c.signing_method, 'version', c.version
+    ) order by c.signed_at desc, c.id)
+    from consents c join consent_template_versions v on v.id = c.template_version_id
+    where c.performer_id = ${performerId}
+  ), '[]'::json)`;
+}
+
+export function consentFromJson(r: ConsentJsonRow, performer: { id: string; name: string }, now = new Date()): { summary: ConsentSummary; gate: ConsentForGate } {
+  const signedAt = new Date(r.signed_at);
+  const expiresAt = r.expires_at ? new Date(r.expires_at) : null;
+  const withdrawnAt = r.withdrawn_at ? new Date(r.withdrawn_at) : null;
+  return {
+    summary: {
+      id: r.id,
+      performerId: performer.id,
+      performerName: performer.name,
+      productionId: r.production_id,
+      kind: r.kind,
+      title: r.title,
+      templateVersion: r.template_version,
+      signedAt: signedAt.toISOString(),
+      expiresAt: expiresAt?.toISOString() ?? null,
+      state: consentState({ signedAt, expiresAt, withdrawnAt }, now),
+      signerName: r.signer_name,
+      signingMethod: r.signing_method,
+      withdrawnAt: withdrawnAt?.toISOString() ?? null,
+      version: r.version,
+    },
+    gate: { performerId: performer.id, productionId: r.production_id, kind: r.kind, signedAt, expiresAt, withdrawnAt },
+  };
+}

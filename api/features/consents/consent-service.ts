@@ -67,6 +67,7 @@ export async function consentDetail(ctx: AppContext, actor: Actor, id: string, r
     await recordEvent(ctx.db, {
       actorUserId: actor.userId,
       action: 'medical.read',
+      performerId: row.summary.performerId,
       entityType: 'consent',
       entityId: id,
       productionId: row.summary.productionId,
@@ -99,7 +100,7 @@ export async function consentPdf(ctx: AppContext, actor: Actor, id: string, req:
   const answers = await listConsentAnswers(ctx.db, id);
   if (answers.some((a) => isMedicalAnswer(row.summary.kind, a.medical))) {
     authorize(actor, 'medical.read', resource);
-    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'consent_pdf', entityId: id, productionId: row.summary.productionId, req, details: { performerId: row.summary.performerId } });
+    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.summary.performerId, entityType: 'consent_pdf', entityId: id, productionId: row.summary.productionId, req, details: { performerId: row.summary.performerId } });
   }
   const file = await readStoredFile(ctx.db, ctx.config.storageDir, row.pdfFileId);
   if (!file) throw notFound('The PDF');

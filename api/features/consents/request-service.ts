@@ -116,6 +116,8 @@ export async function handOver(ctx: AppContext, actor: Actor, id: string, req: R
   delete req.session.userId;
   delete req.session.idToken;
   req.session.tablet = { requestId: r.id, staffUserId: actor.userId, phase: 'signing', idempotencyKey: randomUUID() };
+  // A lent tablet left alone locks sooner than a staff session would.
+  req.session.cookie.maxAge = ctx.config.tabletIdleMs;
   await ctx.db.transaction().execute((trx) => markRequestOpened(trx, r.id));
   return { ok: true, redirectTo };
 }

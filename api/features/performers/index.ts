@@ -5,3 +5,4 @@ export { linkConfirmedPerformerAtSignIn } from './identity-service.ts';
 export { countEngagedNow, findPerformerScope, isEngagedOn, type PerformerScope } from './repo.ts';
 export { engagedProductionIds, findPerformer } from './repo.ts';
 export { performersEngagedOn, performersMatchingName, withNameSearch } from './repo-search.ts';
+export { listEngagementsOf } from './repo.ts';

@@ -1,7 +1,9 @@
 import { type RawBuilder, sql } from 'kysely';
 import { CONSENT_KINDS, type ConsentKind } from '#shared/domain/consent.ts';
 import type { PerformerListItem, PerformerListQuery } from '#shared/schemas/performers.ts';
-import type { Db } from '../../db/index.ts';
+import { type Db, WORD_SIMILARITY_THRESHOLD } from '../../db/index.ts';
+
+export { WORD_SIMILARITY_THRESHOLD };
 import { consentCoversSql, consentStateSql } from '../consents/index.ts';
 import { type EngagementRecord, PERFORMER_COLUMNS, type PerformerFields, listEngagements, thumbnailUrl, toRecord } from './repo.ts';
 
@@ -12,8 +14,6 @@ import { type EngagementRecord, PERFORMER_COLUMNS, type PerformerFields, listEng
 /** The expression the trigram index is built on (performers_name_trgm_idx); keep it identical so the index is used. */
 export const SEARCH_NAME = sql<string>`(coalesce(performers.preferred_name, '') || ' ' || performers.legal_name)`;
 const SORT_NAME = sql<string>`lower(coalesce(performers.preferred_name, performers.legal_name))`;
-/** Fuzzy-match cut-off for word_similarity; the `<%` operator reads the same value from the session setting. */
-export const WORD_SIMILARITY_THRESHOLD = 0.3;
 
 
 const KIND_LIST = sql.join(CONSENT_KINDS.map((k) => sql.lit(k)));
@@ -70,20 +70,16 @@ function orderings(q: Pick<PerformerListQuery, 'q' | 'sort' | 'dir'>): RawBuilde
   return sql.join(parts);
 }
 
-/**
- * Runs a search in a transaction whose `pg_trgm.word_similarity_threshold` matches ours, so the
- * index-backed `<%` operator and the word_similarity() cut-off agree.
- */
-export async function withSearchSettings<T>(db: Db, searching: boolean, fn: (db: Db) => Promise<T>): Promise<T> {
-  if (!searching) return fn(db);
-  return db.transaction().execute(async (trx) => {
-    await sql`select set_config('pg_trgm.word_similarity_threshold', ${String(WORD_SIMILARITY_THRESHOLD)}, true)`.execute(trx);
-    return fn(trx);
-  });
-}
-
 function sortKinds(kinds: readonly string[]): ConsentKind[] {
   return CONSENT_KINDS.filter((k) => kinds.includes(k));
+}
+
+interface EngagementJson {
+  production_id: string;
+  production_name: string;
+  character_name: string | null;
+  starts_on: string | null;
+  ends_on: string | null;
 }
 
 // ---- list and export
@@ -96,28 +92,38 @@ export async function listPerformers(
 ): Promise<{ items: PerformerListItem[]; total: number }> {
   const now = new Date();
   const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds, now });
-  const { rows, total } = await withSearchSettings(db, !!q.q, async (trx) => {
-    const rows = await trx
-      .selectFrom('performers')
-      .select([
-        'performers.id',
-        'performers.legal_name',
-        'performers.preferred_name',
-        'performers.pronouns',
-        'performers.portrait_thumb_file_id',
-        sql<string[]>`array(select distinct c.kind from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${active(now)})`.as('active_kinds'),
-        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${active(now)} and ${expiringWithin30(now)})`.as('expiring_soon'),
-        sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${withdrawn(now)})`.as('withdrawn'),
-      ])
-      .where(where)
-      .orderBy(orderings(q))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute();
-    const count = await trx.selectFrom('performers').select(sql<number>`count(*)::int`.as('n')).where(where).executeTakeFirstOrThrow();
-    return { rows, total: count.n };
-  });
-  const engagements = await listEngagements(db, rows.map((r) => r.id));
+  // One statement for the page, its total and each row's engagements; every connection already
+  // carries the word-similarity cut-off (api/db/index.ts).
+  const rows = await db
+    .selectFrom('performers')
+    .select([
+      'performers.id',
+      'performers.legal_name',
+      'performers.preferred_name',
+      'performers.pronouns',
+      'performers.portrait_thumb_file_id',
+      sql<string[]>`array(select distinct c.kind from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${active(now)})`.as('active_kinds'),
+      sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${active(now)} and ${expiringWithin30(now)})`.as('expiring_soon'),
+      sql<number>`(select count(*)::int from consents c where c.performer_id = performers.id and ${consentFor(scope.productionIds)} and ${withdrawn(now)})`.as('withdrawn'),
+      sql<EngagementJson[]>`coalesce((
+        select json_agg(json_build_object('production_id', e.production_id, 'production_name', pr.name, 'character_name', e.character_name, 'starts_on', e.starts_on, 'ends_on', e.ends_on) order by pr.name)
+        from engagements e join productions pr on pr.id = e.production_id where e.performer_id = performers.id
+      ), '[]'::json)`.as('engagements_json'),
+      sql<number>`(count(*) over ())::int`.as('total'),
+    ])
+    .where(where)
+    .orderBy(orderings(q))
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize)
+    .execute();
+  // Past the last page there is no row to carry the total: only then is it counted on its own.
+  const total = rows[0]?.total ?? (q.page > 1 ? (await db.selectFrom('performers').select(sql<number>`count(*)::int`.as('n')).where(where).executeTakeFirstOrThrow()).n : 0);
+  const engagements = new Map(
+    rows.map((r) => [
+      r.id,
+      r.engagements_json.map((e) => ({ performerId: r.id, productionId: e.production_id, productionName: e.production_name, characterName: e.character_name, startsOn: e.starts_on, endsOn: e.ends_on })),
+    ]),
+  );
   return {
     total,
     items: rows.map((r) => ({
@@ -146,9 +152,7 @@ export async function listPerformersForExport(
   scope: { productionIds: readonly string[] },
 ): Promise<ExportRow[]> {
   const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds, now: new Date() });
-  const rows = await withSearchSettings(db, !!q.q, (trx) =>
-    trx.selectFrom('performers').select(PERFORMER_COLUMNS).where(where).orderBy(orderings(q)).execute(),
-  );
+  const rows = await db.selectFrom('performers').select(PERFORMER_COLUMNS).where(where).orderBy(orderings(q)).execute();
   const engagements = await listEngagements(db, rows.map((r) => r.id));
   return rows.map((r) => ({ ...toRecord(r), engagements: engagements.get(r.id) ?? [] }));
 }

@@ -1,12 +1,15 @@
 import { sql } from 'kysely';
 import type { Db } from '../../db/index.ts';
-import { likePattern, SEARCH_NAME, WORD_SIMILARITY_THRESHOLD, withSearchSettings } from './list-repo.ts';
+import { likePattern, SEARCH_NAME, WORD_SIMILARITY_THRESHOLD } from './list-repo.ts';
 
 // Performer lookups for other features' queries (the archive's cast search), on the registry's own name index.
 
-/** Runs another feature's name search with the same trigram cut-off as the registry's. */
+/**
+ * Runs another feature's name search in a transaction of its own (so it may `set local` what it
+ * needs); the trigram cut-off is the registry's, carried by every connection.
+ */
 export function withNameSearch<T>(db: Db, fn: (db: Db) => Promise<T>): Promise<T> {
-  return withSearchSettings(db, true, fn);
+  return db.transaction().execute(fn);
 }
 
 /**

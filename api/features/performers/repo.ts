@@ -1,5 +1,8 @@
 import { sql } from 'kysely';
 import type { Db } from '../../db/index.ts';
+import { upcomingBookingsJsonSql } from '../bookings/index.ts';
+import { consentsJsonSql } from '../consents/index.ts';
+import { userSummaryJsonSql } from '../users/index.ts';
 
 // ---- shapes
 
@@ -334,4 +337,48 @@ export async function findPerformerUserIds(db: Db, performerIds: readonly string
   if (performerIds.length === 0) return new Map();
   const rows = await db.selectFrom('performers').select(['id', 'user_id']).where('id', 'in', [...performerIds]).where('user_id', 'is not', null).execute();
   return new Map(rows.map((r) => [r.id, r.user_id!]));
+}
+
+/**
+ * One performer with everything their page shows, in one statement: engagements (ours), and the
+ * consents, upcoming sessions and linked sign-in from the fragments their own features export.
+ */
+export async function findPerformerDetailRow(db: Db, id: string, now: Date) {
+  const pid = sql.ref<string>('performers.id');
+  const row = await selectPerformer(db)
+    .select([
+      sql<EngagementJsonRow[]>`coalesce((
+        select json_agg(json_build_object('production_id', e.production_id, 'production_name', pr.name, 'character_name', e.character_name, 'starts_on', e.starts_on, 'ends_on', e.ends_on) order by pr.name)
+        from engagements e join productions pr on pr.id = e.production_id where e.performer_id = performers.id
+      ), '[]'::json)`.as('engagements_json'),
+      consentsJsonSql(sql`${pid}`).as('consents_json'),
+      upcomingBookingsJsonSql(sql`${pid}`, now).as('bookings_json'),
+      userSummaryJsonSql(sql`performers.user_id`).as('linked_user_json'),
+    ])
+    .where('performers.id', '=', id)
+    .executeTakeFirst();
+  if (!row) return undefined;
+  const performer = toRecord(row);
+  const engagements: EngagementRecord[] = row.engagements_json.map((e) => ({
+    performerId: id,
+    productionId: e.production_id,
+    productionName: e.production_name,
+    characterName: e.character_name,
+    startsOn: e.starts_on,
+    endsOn: e.ends_on,
+  }));
+  return { performer, engagements, consents: row.consents_json, bookings: row.bookings_json, linkedUser: row.linked_user_json };
+}
+
+interface EngagementJsonRow {
+  production_id: string;
+  production_name: string;
+  character_name: string | null;
+  starts_on: string | null;
+  ends_on: string | null;
+}
+
+/** One performer's engagements, by production name. */
+export async function listEngagementsOf(db: Db, performerId: string): Promise<EngagementRecord[]> {
+  return (await listEngagements(db, [performerId])).get(performerId) ?? [];
 }

@@ -1,5 +1,7 @@
 import type { Request } from 'express';
 import type { Actor } from '#shared/policy.ts';
+import type { Booking } from '#shared/schemas/bookings.ts';
+import type { ConsentSummary } from '#shared/schemas/consents.ts';
 import { type CreatePerformerInput, PERFORMER_FIELD_KEYS, type PerformerDetail, type UpdatePerformerInput } from '#shared/schemas/performers.ts';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
@@ -8,8 +10,8 @@ import { type Trx, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { conflict, duplicateAsFields, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { deliverAll } from '../../mail/deliver.ts';
-import { listBookings } from '../bookings/index.ts';
-import { listConsentSummaries } from '../consents/index.ts';
+import { bookingsFromJson } from '../bookings/index.ts';
+import { consentFromJson } from '../consents/index.ts';
 import { addPerformerMemberships, removePerformerMemberships } from '../productions/index.ts';
 import { findUserSummary } from '../users/index.ts';
 import { performerAccess, productionsWhere } from './access.ts';
@@ -20,6 +22,7 @@ import {
   deleteFileRows,
   type EngagementValues,
   findPerformer,
+  findPerformerDetailRow,
   findPerformerIdByEmail,
   insertEngagements,
   insertPerformer,
@@ -61,14 +64,14 @@ export async function loadForActor(db: Db, actor: Actor, id: string) {
 }
 type Loaded = Awaited<ReturnType<typeof loadForActor>>;
 
-/** The performer as this actor may see them: contact, linked sign-in, consents and sessions only where allowed. */
-async function detailFor(db: Db, { performer: p, engagements, productionIds, access }: Loaded): Promise<PerformerDetail> {
-  const visible = productionIds.filter(access.showsProduction);
-  const [all, bookings, linkedUser] = await Promise.all([
-    access.canView ? listConsentSummaries(db, p.id) : Promise.resolve([]),
-    access.canView ? listBookings(db, { performerId: p.id, productionIds: visible, from: new Date(), status: 'booked' }) : Promise.resolve([]),
-    p.userId && access.canSeeLinkedUser ? findUserSummary(db, p.userId) : Promise.resolve(undefined),
-  ]);
+/** What of a performer this actor sees: contact, linked sign-in, consents and sessions only where allowed. */
+function shapeDetail(
+  { performer: p, engagements, access }: Loaded,
+  data: { consents: ConsentSummary[]; bookings: Booking[]; linkedUser: { id: string; email: string; displayName: string } | undefined },
+): PerformerDetail {
+  const linkedUser = access.canSeeLinkedUser ? data.linkedUser : undefined;
+  const all = access.canView ? data.consents : [];
+  const bookings = access.canView ? data.bookings : [];
   return {
     id: p.id,
     legalName: p.legalName,
@@ -99,16 +102,37 @@ async function detailFor(db: Db, { performer: p, engagements, productionIds, acc
   };
 }
 
-/** One performer as this actor may see them. */
+/**
+ * One performer as this actor may see them, read in one statement: a page opened before every
+ * application must not wait on a query per section.
+ */
 export async function performerDetail(ctx: AppContext, actor: Actor, id: string): Promise<PerformerDetail> {
-  const loaded = await loadForActor(ctx.db, actor, id);
-  authorize(actor, 'performer.view', { performerId: id, performerProductionIds: loaded.productionIds });
-  return detailFor(ctx.db, loaded);
+  return readDetail(ctx.db, actor, id, { check: true });
+}
+
+async function readDetail(db: Db, actor: Actor, id: string, opts: { check: boolean }): Promise<PerformerDetail> {
+  const now = new Date();
+  const row = await findPerformerDetailRow(db, id, now);
+  if (!row) throw notFound('That performer');
+  const productionIds = row.engagements.map((e) => e.productionId);
+  const access = performerAccess(actor, id, productionIds);
+  if (opts.check) authorize(actor, 'performer.view', { performerId: id, performerProductionIds: productionIds });
+  const p = row.performer;
+  const named = { id: p.id, name: p.preferredName ?? p.legalName };
+  const consents = row.consents.map((c) => consentFromJson(c, named, now));
+  return shapeDetail(
+    { performer: p, engagements: row.engagements, productionIds, access },
+    {
+      consents: consents.map((c) => c.summary),
+      bookings: bookingsFromJson(row.bookings, named, consents.map((c) => c.gate), access.showsProduction),
+      linkedUser: row.linkedUser ? { id: row.linkedUser.id, email: row.linkedUser.email, displayName: row.linkedUser.display_name } : undefined,
+    },
+  );
 }
 
 /** The detail after a change, as the actor who made it sees it. */
-async function freshDetail(db: Db, actor: Actor, id: string): Promise<PerformerDetail> {
-  return detailFor(db, await loadForActor(db, actor, id));
+function freshDetail(db: Db, actor: Actor, id: string): Promise<PerformerDetail> {
+  return readDetail(db, actor, id, { check: false });
 }
 
 /** Scope of the list and the export: productions where the actor may view performers (permission checked here). */

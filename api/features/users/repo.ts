@@ -1,4 +1,4 @@
-import { sql } from 'kysely';
+import { type RawBuilder, sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import type { User, UserListQuery } from '#shared/schemas/admin.ts';
 import type { Db } from '../../db/index.ts';
@@ -163,4 +163,9 @@ export async function findUserWithProductionNames(
     .executeTakeFirst();
   if (!user) return undefined;
   return { id: user.id, email: user.email, displayName: user.display_name, isAdmin: user.is_admin, productions: new Map(user.productions.map((p) => [p.id, p.name])) };
+}
+
+/** A user's name and address as a JSON object (null when `userId` is null), for one-statement reads. */
+export function userSummaryJsonSql(userId: RawBuilder<string | null>): RawBuilder<{ id: string; email: string; display_name: string } | null> {
+  return sql<{ id: string; email: string; display_name: string } | null>`(select json_build_object('id', u.id, 'email', u.email, 'display_name', u.display_name) from users u where u.id = ${userId})`;
 }

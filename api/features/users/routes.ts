@@ -1,8 +1,9 @@
+import { z } from 'zod';
 import { IdParamsSchema } from '#shared/schemas/common.ts';
 import { CreateUserInputSchema, UpdateUserInputSchema, UserListQuerySchema, UserPageSchema, UserSchema } from '#shared/schemas/admin.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { listUsers } from './repo.ts';
-import { createUser, editUser, userById } from './service.ts';
+import { createUser, editUser, endUserSessions, userById } from './service.ts';
 
 export const userRoutes: AnyRoute[] = [
   defineRoute({
@@ -57,5 +58,17 @@ export const userRoutes: AnyRoute[] = [
     response: UserSchema,
     errors: [403, 404, 409],
     handler: ({ ctx, actor, params, body, req }) => editUser(ctx, actor, params.id, body, req),
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/users/:id/sessions/end',
+    summary: 'End every session of a user at once (their next request on any device gets 401)',
+    tag: 'admin',
+    auth: 'session',
+    requires: 'users.manage',
+    params: IdParamsSchema,
+    response: z.object({ ended: z.number().int() }),
+    errors: [403, 404],
+    handler: ({ ctx, actor, params, req }) => endUserSessions(ctx, actor, params.id, req),
   }),
 ];

@@ -3,6 +3,7 @@ import type { Actor } from '#shared/policy.ts';
 import type { CreateUserInput, UpdateUserInput, User } from '#shared/schemas/admin.ts';
 import type { AppContext } from '../../context.ts';
 import { writeAudit } from '../../http/audit.ts';
+import { endSessionsOf } from '../../http/session.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { countAdmins, findUserById, insertUser, isEmailTaken, lockUser, updateUserAtVersion } from './repo.ts';
 
@@ -35,4 +36,15 @@ export async function editUser(ctx: AppContext, actor: Actor, id: string, input:
     await writeAudit(trx, { actorUserId: actor.userId, action: 'user.update', entityType: 'user', entityId: id, req, details: { displayName: input.displayName, isAdmin: input.isAdmin } });
   });
   return userById(ctx, id);
+}
+
+/** Ends every session of a user at once: their next request, on any device, must sign in again. */
+export async function endUserSessions(ctx: AppContext, actor: Actor, id: string, req: Request): Promise<{ ended: number }> {
+  await userById(ctx, id);
+  const ended = await ctx.db.transaction().execute(async (trx) => {
+    const n = await endSessionsOf(trx, id);
+    await writeAudit(trx, { actorUserId: actor.userId, action: 'user.sessions_end', entityType: 'user', entityId: id, req, details: { ended: n } });
+    return n;
+  });
+  return { ended };
 }

@@ -18,7 +18,10 @@ import {
   type UpdateUserInput,
   type UserListQuery,
 } from '#shared/schemas/admin.ts';
+import { z } from 'zod';
 import { api, withQuery } from '../../lib/api-client.ts';
+
+const EndSessionsResultSchema = z.object({ ended: z.number().int() });
 import { auditKey, homeKey, outboxKey, productionsKey, sessionKey, usersKey, invalidate } from '../../lib/query-keys.ts';
 
 // ---- query shapes (outputs of the API's own query schemas, so defaults are filled in)
@@ -57,6 +60,11 @@ export function useCreateUser() {
     mutationFn: (input: CreateUserInput) => api.post('/api/users', input, UserSchema),
     onSuccess: () => invalidate(queryClient, [usersKey, homeKey, auditKey]),
   });
+}
+
+/** Signs a user out everywhere: every session of theirs ends at once. */
+export function useEndSessions(id: string) {
+  return useMutation({ mutationFn: () => api.post(`/api/users/${encodeURIComponent(id)}/sessions/end`, {}, EndSessionsResultSchema) });
 }
 
 export function useUpdateUser() {

@@ -12,6 +12,7 @@ import {
   type PerformerListQuery,
   type UpdatePerformerInput,
 } from '#shared/schemas/performers.ts';
+import { HealthReadListSchema } from '#shared/schemas/audit.ts';
 import { IdentityMailSentSchema } from '#shared/schemas/identity.ts';
 import { api, isApiError, withQuery } from '../../lib/api-client.ts';
 import { bookingsKey, homeKey, performersKey, sessionKey, invalidate } from '../../lib/query-keys.ts';
@@ -129,4 +130,12 @@ export function importReportOf(err: unknown): CsvImportResult | null {
 
 export function invalidateAfterImport(queryClient: QueryClient) {
   return invalidate(queryClient, [performersKey, homeKey]);
+}
+
+/** Who has read this performer's health details, and when (only the performer and the lead may ask). */
+export function healthReadsQueryOptions(id: string) {
+  return queryOptions({
+    queryKey: [...performersKey, 'health-reads', id] as const,
+    queryFn: ({ signal }) => api.get(performerPath(id, '/health-reads'), HealthReadListSchema, signal),
+  });
 }

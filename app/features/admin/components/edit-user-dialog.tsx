@@ -9,7 +9,7 @@ import { Dialog } from '../../../components/ui/dialog.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { ApiError, errorMessage } from '../../../lib/api-client.ts';
 import { applyServerErrors } from '../../../lib/form-errors.ts';
-import { useUpdateUser, userQueryOptions } from '../api.ts';
+import { useEndSessions, useUpdateUser, userQueryOptions } from '../api.ts';
 import { VersionedEditNotice } from '../../../components/ui/versioned-edit-notice.tsx';
 import { useVersionedEdit } from '../../../lib/use-versioned-edit.ts';
 import { FormError } from '../../../components/ui/form-error.tsx';
@@ -58,6 +58,7 @@ function EditUserForm({ user, onDone }: { user: User; onDone: () => void }) {
       <CheckboxField label="Studio administrator" error={errors.isAdmin?.message} {...form.register('isAdmin')} />
       <VersionedEditNotice edit={edit} />
       <FormError messages={formError} />
+      <EndSessions userId={user.id} name={user.displayName} />
       <div className="flex flex-wrap justify-end gap-3">
         <Button variant="secondary" onClick={onDone}>
           Cancel
@@ -67,5 +68,19 @@ function EditUserForm({ user, onDone }: { user: User; onDone: () => void }) {
         </Button>
       </div>
     </form>
+  );
+}
+
+/** A lost tablet or a left-behind sign-in: every session of this person ends at once. */
+function EndSessions({ userId, name }: { userId: string; name: string }) {
+  const end = useEndSessions(userId);
+  return (
+    <div className="flex flex-wrap items-center gap-3 border-t border-sand-300 pt-4">
+      <Button variant="secondary" pending={end.isPending} pendingLabel="Signing out…" onClick={() => end.mutate()}>
+        Sign {name} out everywhere
+      </Button>
+      {end.isSuccess ? <output className="text-sm font-semibold">{end.data.ended === 1 ? '1 session ended.' : `${end.data.ended} sessions ended.`}</output> : null}
+      {end.isError ? <output className="text-sm font-semibold">{errorMessage(end.error)}</output> : null}
+    </div>
   );
 }

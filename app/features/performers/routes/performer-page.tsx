@@ -21,6 +21,7 @@ import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { performerQueryOptions, useResendConfirmation } from '../api.ts';
 import { ConsentsSection } from '../components/consents-section.tsx';
+import { HealthReads } from '../components/health-reads.tsx';
 import { LinkedAccount } from '../components/linked-account.tsx';
 import { displayName } from '../components/names.tsx';
 import { PortraitPanel } from '../components/portrait-panel.tsx';
@@ -171,6 +172,8 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
 
       <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
       <PerformerBuilds performerId={p.id} isSelf={isSelf} />
+
+      {p.canSeeMedical ? <HealthReads performerId={p.id} isSelf={isSelf} /> : null}
     </div>
   );
 }

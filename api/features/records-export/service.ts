@@ -1,0 +1,75 @@
+import type { Request } from 'express';
+import archiver from 'archiver';
+import type { Actor } from '#shared/policy.ts';
+import type { AppContext } from '../../context.ts';
+import { readStoredFile } from '../../files/store.ts';
+import { recordEvent } from '../../http/audit.ts';
+import { authorize } from '../../http/authorize.ts';
+import { notFound } from '../../http/errors.ts';
+import { listCastsOfPerformer } from '../archive/index.ts';
+import { listHealthReadsOf } from '../audit/index.ts';
+import { findConsentDetailRow, listConsentAnswers, listConsentSummaries } from '../consents/index.ts';
+import { findPerformer, findPerformerScope, listEngagementsOf } from '../performers/index.ts';
+
+const README = `Everything Plinth holds about you
+================================
+
+This archive is your copy of the records the make-up department keeps about you in Plinth:
+
+  me.json            your details and the productions you are engaged on
+  consents.json      every consent you signed, with your answers (health answers included) and any withdrawal
+  consents/*.pdf     the signed copy of each consent
+  casts.json         every life cast, mold and positive taken of you, where it is kept and where it has been
+  health-reads.json  who has read your health details, and when
+
+Plinth records skin screening and consent; it is not a medical diagnosis.
+`;
+
+/**
+ * A performer's own records (their right of access), as one ZIP: for the performer themself, or
+ * handed over by the designated lead. It holds health answers, so it is guarded and logged like them.
+ */
+export async function performerRecordsZip(ctx: AppContext, actor: Actor, performerId: string, req: Request): Promise<archiver.Archiver> {
+  const scope = await findPerformerScope(ctx.db, performerId);
+  if (!scope) throw notFound('That performer');
+  authorize(actor, 'medical.read', { performerId, performerProductionIds: scope.productionIds });
+  const performer = (await findPerformer(ctx.db, performerId))!;
+  const [engagements, summaries, casts, reads] = await Promise.all([
+    listEngagementsOf(ctx.db, performerId),
+    listConsentSummaries(ctx.db, performerId),
+    listCastsOfPerformer(ctx.db, performerId),
+    listHealthReadsOf(ctx.db, performerId),
+  ]);
+  const consents = [];
+  const pdfs: { name: string; bytes: Buffer }[] = [];
+  for (const s of summaries) {
+    const detail = await findConsentDetailRow(ctx.db, s.id);
+    const answers = await listConsentAnswers(ctx.db, s.id);
+    consents.push({ ...s, body: detail?.body, answers, withdrawalReason: detail?.withdrawalReason ?? null, withdrawnVia: detail?.withdrawnVia ?? null, contentSha256: detail?.contentSha256, pdfSha256: detail?.pdfSha256 });
+    const file = detail ? await readStoredFile(ctx.db, ctx.config.storageDir, detail.pdfFileId) : null;
+    if (file) pdfs.push({ name: `consents/${s.signedAt.slice(0, 10)}-${s.kind}-${s.id}.pdf`, bytes: file.bytes });
+  }
+  await recordEvent(ctx.db, {
+    actorUserId: actor.userId,
+    action: 'medical.read',
+    performerId,
+    entityType: 'records_export',
+    entityId: performerId,
+    req,
+    details: { consents: consents.length, casts: casts.length, handedOverBy: actor.performerIds.includes(performerId) ? null : actor.userId },
+  });
+  const zip = archiver('zip', { zlib: { level: 9 } });
+  const json = (value: unknown) => JSON.stringify(value, null, 2);
+  zip.append(README, { name: 'README.txt' });
+  const { userId: _u, portraitFileId: _p, portraitThumbFileId: _t, ...me } = performer;
+  zip.append(json({ ...me, engagements }), { name: 'me.json' });
+  zip.append(json(consents), { name: 'consents.json' });
+  for (const p of pdfs) zip.append(p.bytes, { name: p.name });
+  zip.append(
+    json(casts.map((c) => ({ label: c.labelCode, production: c.productionName, region: c.region, kind: c.kind, material: c.material, madeOn: c.madeOn, madeBy: c.madeBy, status: c.status, notes: c.notes }))),
+    { name: 'casts.json' },
+  );
+  zip.append(json(reads.map((r) => ({ at: r.at, who: r.who, what: r.entityType }))), { name: 'health-reads.json' });
+  void zip.finalize();
+  return zip;
+}
