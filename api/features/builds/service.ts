@@ -13,7 +13,7 @@ import { listHeldMoldsFor } from '../archive/index.ts';
 import { engagedProductionIds, findPerformer, productionsWhere } from '../performers/index.ts';
 import { productionNames } from '../productions/index.ts';
 import { checkBuildFields, checkMold, type CheckedMaterial } from './rules.ts';
-import { findBuild, insertBuild, listBuilds, listBuildsOfPerformer, lockBuild, replaceMaterials, updateBuildAtVersion, type BuildRow, type BuildValues } from './repo.ts';
+import { findBuild, insertBuild, listBuilds, listBuildsOfPerformer, listMaterials, lockBuild, replaceMaterials, updateBuildAtVersion, type BuildRow, type BuildValues } from './repo.ts';
 import { deletePieces, insertPieces, listPieces, listPlans, tallyByMold } from './repo-pieces.ts';
 import { buildPhotoUrl, listItem, materialsView, moldRef, namesFor, outlookView, piecesView } from './view.ts';
 
@@ -107,7 +107,7 @@ export async function updateBuild(ctx: AppContext, actor: Actor, id: string, inp
   const current = await findBuild(ctx.db, id);
   if (!current) throw notFound('That build');
   authorize(actor, 'builds.manage', { productionId: current.productionId });
-  const listed = new Set(((await namesFor(ctx.db, [current])).materials.get(id) ?? []).map((m) => m.lotId));
+  const listed = new Set(((await listMaterials(ctx.db, [id])).get(id) ?? []).map((m) => m.lotId));
   const materials = await checkBuildFields(ctx.db, input, { now: new Date(), listedLotIds: listed });
   const values = valuesOf(input);
   await ctx.db.transaction().execute(async (trx) => {
@@ -164,7 +164,8 @@ export async function performerBuilds(ctx: AppContext, actor: Actor, performerId
   if (!performer) throw notFound('That performer');
   const engaged = await engagedProductionIds(ctx.db, performerId);
   const isSelf = can(actor, 'performer.self', { performerId, performerProductionIds: engaged });
-  const readable = engaged.filter((p) => productionsWhere(actor, 'builds.read').includes(p));
+  const readsBuilds = new Set(productionsWhere(actor, 'builds.read'));
+  const readable = engaged.filter((p) => readsBuilds.has(p));
   if (!isSelf && readable.length === 0) throw forbidden('see appliance builds');
   const rows = await listBuildsOfPerformer(ctx.db, performerId, isSelf ? null : readable);
   const [names, productions] = await Promise.all([namesFor(ctx.db, rows), productionNames(ctx.db, [...new Set(rows.map((r) => r.productionId))])]);
