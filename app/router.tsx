@@ -161,6 +161,30 @@ const routes: RouteObject[] = [
                         const m = await import('./features/archive/routes/retention-page.tsx');
                         return { Component: m.RetentionPage, loader: m.retentionLoader };
                       }),
+                      guarded(paths.builds.pattern, 'builds.read', async () => {
+                        const m = await import('./features/builds/routes/builds-page.tsx');
+                        return { Component: m.BuildsPage, loader: m.buildsLoader };
+                      }),
+                      guarded(paths.newBuild.pattern, 'builds.manage', async () => {
+                        const m = await import('./features/builds/routes/build-form-pages.tsx');
+                        return { Component: m.NewBuildPage };
+                      }),
+                      guarded(paths.build.pattern, 'builds.read', async () => {
+                        const m = await import('./features/builds/routes/build-page.tsx');
+                        return { Component: m.BuildPage, loader: m.buildLoader };
+                      }),
+                      guarded(paths.editBuild.pattern, 'builds.manage', async () => {
+                        const m = await import('./features/builds/routes/build-form-pages.tsx');
+                        return { Component: m.EditBuildPage };
+                      }),
+                      guarded(paths.mixCalculator.pattern, 'builds.read', async () => {
+                        const m = await import('./features/builds/routes/mix-calculator-page.tsx');
+                        return { Component: m.MixCalculatorPage, loader: m.mixCalculatorLoader };
+                      }),
+                      guarded(paths.moldBoxCalculator.pattern, 'builds.read', async () => {
+                        const m = await import('./features/builds/routes/mold-box-calculator-page.tsx');
+                        return { Component: m.MoldBoxCalculatorPage };
+                      }),
                       guarded(paths.consentForms.pattern, 'templates.manage', async () => {
                         const m = await import('./features/consent-forms/routes/consent-forms-page.tsx');
                         return { Component: m.ConsentFormsPage, loader: m.consentFormsLoader };

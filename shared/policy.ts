@@ -65,6 +65,9 @@ export const ACTIONS = [
   'consents.verify',
   'accounts.unlink',
   'accounts.invite',
+  'builds.read',
+  'builds.manage',
+  'builds.plan',
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
@@ -94,9 +97,22 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'sessions.book',
   'accounts.unlink',
   'accounts.invite',
+  'builds.read',
+  'builds.manage',
+  'builds.plan',
 ]);
+/**
+ * The head's workshop decisions that the lead appointment does not carry: the lead reads appliance
+ * builds, and makes or plans them only through a head or artist role of their own.
+ */
+const HEAD_WORKSHOP_ACTIONS: ReadonlySet<Action> = new Set<Action>(['builds.manage', 'builds.plan']);
 // The lead alone among staff may withdraw a consent on the performer's behalf (and read what it holds).
-const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([...HEAD_ACTIONS, 'medical.read', 'medical.write', 'consents.withdraw']);
+const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
+  ...[...HEAD_ACTIONS].filter((a) => !HEAD_WORKSHOP_ACTIONS.has(a)),
+  'medical.read',
+  'medical.write',
+  'consents.withdraw',
+]);
 const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'production.view',
   'performers.view',
@@ -108,8 +124,10 @@ const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'applications.log',
   'reactions.report',
   'casts.read',
+  'builds.read',
+  'builds.manage',
 ]);
-const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'casts.read', 'casts.manage']);
+const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'casts.read', 'casts.manage', 'builds.read']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
 /** What the performer may do with their own record, whatever production it is viewed through. */
 const SELF_ACTIONS: ReadonlySet<Action> = new Set<Action>(['performer.self', 'performer.view', 'medical.read', 'consents.view', 'consents.withdraw']);

@@ -140,6 +140,7 @@ export const SEED_INGREDIENTS: Ingredient[] = [
   ing('Potassium Oleate', '143-18-0', 'other'),
   ing('Zinc Stearate', '557-05-1', 'other'),
   ing('Decyl Glucoside', null, 'other'),
+  ing('Rayon', null, 'other', ['Viscose', 'Regenerated Cellulose']),
 ];
 
 export interface SeedFormulation {
@@ -164,6 +165,8 @@ export interface SeedProduct {
   /** Oldest first; the highest version is current. */
   formulations: SeedFormulation[];
   lots: SeedLot[];
+  /** The maker's figures for a mixed material, from its data sheet (invented here). */
+  figures?: { densityGPerCm3: number; mixRatio: { partA: number; partB: number }; makerMaxSoftenerPercent: number };
 }
 
 const GULLHAVEN = 'Gullhaven Effects Supply';
@@ -312,7 +315,11 @@ export const SEED_PRODUCTS: SeedProduct[] = [
     category: 'silicone',
     exposure: 'leave_on',
     formulations: one('Ingredients: Vinyl Dimethicone, Silica, Dimethicone.'),
-    lots: [{ code: 'SP-2606', expiresOn: '2027-10-31', formulationVersion: 1 }],
+    lots: [
+      { code: 'SP-2606', expiresOn: '2027-10-31', formulationVersion: 1 },
+      { code: 'SP-2611', expiresOn: '2028-04-30', formulationVersion: 1 },
+    ],
+    figures: { densityGPerCm3: 1.08, mixRatio: { partA: 1, partB: 1 }, makerMaxSoftenerPercent: 100 },
   },
   {
     key: 'tern',
@@ -331,6 +338,52 @@ export const SEED_PRODUCTS: SeedProduct[] = [
     exposure: 'leave_on',
     formulations: one('Ingredients: Talc, Silica, Zinc Stearate, Parfum.'),
     lots: [{ code: 'MS-2604', expiresOn: '2028-02-29', formulationVersion: 1 }],
+  },
+  // The appliance workshop: what goes into a run of silicone pieces besides the silicone itself.
+  {
+    key: 'slack-tide',
+    name: 'Slack Tide silicone softener',
+    maker: NORTHWICK,
+    category: 'silicone',
+    exposure: 'leave_on',
+    formulations: one('Ingredients: Dimethicone.'),
+    lots: [{ code: 'ST-2605', expiresOn: '2028-01-31', formulationVersion: 1 }],
+  },
+  {
+    key: 'kelpwrack',
+    name: 'Kelpwrack flesh-red silicone pigment',
+    maker: GULLHAVEN,
+    category: 'pigment',
+    exposure: 'leave_on',
+    formulations: one('Ingredients: Dimethicone, CI 77491, CI 77891.'),
+    lots: [{ code: 'KW-2604', expiresOn: '2028-03-31', formulationVersion: 1 }],
+  },
+  {
+    key: 'sea-fret',
+    name: 'Sea-fret rayon flocking',
+    maker: MARROWBY,
+    category: 'other',
+    exposure: 'leave_on',
+    formulations: one('Ingredients: Rayon, CI 77491.'),
+    lots: [{ code: 'SF-2602', expiresOn: '2028-02-29', formulationVersion: 1 }],
+  },
+  {
+    key: 'mooring',
+    name: 'Mooring acetone',
+    maker: MARROWBY,
+    category: 'other',
+    exposure: 'rinse_off',
+    formulations: one('Ingredients: Acetone.'),
+    lots: [{ code: 'MA-2603', expiresOn: '2027-12-31', formulationVersion: 1 }],
+  },
+  {
+    key: 'wharfside',
+    name: 'Wharfside mold release',
+    maker: GULLHAVEN,
+    category: 'other',
+    exposure: 'rinse_off',
+    formulations: one('Ingredients: Petrolatum, Dimethicone, Isopropyl Alcohol.'),
+    lots: [{ code: 'WR-2602', expiresOn: '2027-11-30', formulationVersion: 1 }],
   },
   {
     key: 'flotsam',

@@ -13,7 +13,8 @@ export async function seedCatalogue(trx: Db, createdBy: string): Promise<void> {
   await insertIngredients(trx, SEED_INGREDIENTS.map(ingredientValues), createdBy);
   const lots: Parameters<typeof insertLots>[1][number][] = [];
   for (const p of SEED_PRODUCTS) {
-    const productId = await insertProduct(trx, { name: p.name, maker: p.maker, category: p.category, exposure: p.exposure, densityGPerCm3: null, mixRatio: null, makerMaxSoftenerPercent: null }, createdBy);
+    const figures = p.figures ?? { densityGPerCm3: null, mixRatio: null, makerMaxSoftenerPercent: null };
+    const productId = await insertProduct(trx, { name: p.name, maker: p.maker, category: p.category, exposure: p.exposure, ...figures }, createdBy);
     const byVersion = new Map<number, string>();
     for (const f of p.formulations) {
       const id = await insertFormulation(trx, { productId, version: f.version, inciLabel: f.inciLabel, note: null, createdBy });

@@ -10,6 +10,7 @@ import { seedArchivePhotos, seedArchiveRecords } from './seed-archive.ts';
 import { ARCHIVE_DEMO_PERFORMERS, ARCHIVE_DEMO_PRODUCTIONS, ARCHIVE_DEMO_STORAGE_CONSENTS, type DemoProductionKey } from './seed-archive-data.ts';
 import { SEED_TEMPLATES } from './seed-templates.ts';
 import { seedCatalogue } from './seed-catalogue.ts';
+import { seedBuilds } from './seed-builds.ts';
 
 // The demo scenario: everything here is invented (production, people, characters).
 export const DEMO_PRODUCTION = 'The Lantern Keeper';
@@ -114,12 +115,15 @@ export async function seedDemo(db: Db, opts: { storageDir?: string } = {}): Prom
       .values({ name: orchard.name, kind: orchard.kind, starts_on: orchard.startsOn, ends_on: orchard.endsOn })
       .returning('id')
       .executeTakeFirstOrThrow();
+    const demoUsers = new Map(DEMO_USERS.map((u) => [u.key, { id: id(u.key), name: u.name }]));
+    const now = new Date();
     await seedArchiveRecords(trx, {
-      users: new Map(DEMO_USERS.map((u) => [u.key, { id: id(u.key), name: u.name }])),
+      users: demoUsers,
       performers: performerIds,
       productions: { lantern: lantern.id, saltglass: saltglass.id, orchard: glass.id },
-      now: new Date(),
+      now,
     });
+    await seedBuilds(trx, { productionId: lantern.id, users: demoUsers, now });
     await trx
       .insertInto('audit_log')
       .values({ actor_user_id: null, action: 'demo.seed', entity_type: 'system', details: JSON.stringify({ production: DEMO_PRODUCTION }) })

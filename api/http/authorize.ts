@@ -37,6 +37,9 @@ const ACTION_WORDS: Record<Action, string> = {
   'consents.verify': 'verify consent documents',
   'accounts.unlink': 'unlink the sign-in of this performer',
   'accounts.invite': 'invite this performer to sign in',
+  'builds.read': 'see appliance builds',
+  'builds.manage': 'record appliance builds and their pieces',
+  'builds.plan': 'plan shoot days for appliances',
 };
 
 /** Permission checked here: the only server wrapper around the policy. */

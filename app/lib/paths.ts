@@ -71,6 +71,14 @@ export const paths = {
   editProduct: { pattern: '/catalogue/:id/edit', href: (id: string) => `/catalogue/${encodeURIComponent(id)}/edit` },
   ingredients: { pattern: '/ingredients', href: (search: { q?: string } = {}) => withSearch('/ingredients', { q: search.q }) },
   protocols: { pattern: '/protocols', href: () => '/protocols' },
+
+  /** Appliance builds of the seat's production, their pieces, and the workshop calculators. */
+  builds: { pattern: '/builds', href: () => '/builds' },
+  newBuild: { pattern: '/builds/new', href: (moldId?: string) => withSearch('/builds/new', { moldId }) },
+  build: { pattern: '/builds/:id', href: (id: string) => `/builds/${encodeURIComponent(id)}` },
+  editBuild: { pattern: '/builds/:id/edit', href: (id: string) => `/builds/${encodeURIComponent(id)}/edit` },
+  mixCalculator: { pattern: '/calculators/mix', href: () => '/calculators/mix' },
+  moldBoxCalculator: { pattern: '/calculators/mold-box', href: () => '/calculators/mold-box' },
   protocol: { pattern: '/protocols/:id', href: (id: string) => `/protocols/${encodeURIComponent(id)}` },
 
   // Public pages, outside the signed-in shell.
@@ -98,6 +106,8 @@ export const serverPaths = {
   /** The filtered registry as CSV, downloaded by the browser. */
   performersCsv: (query: Record<string, string | undefined>) => withSearch('/api/performers/export.csv', query),
   consentPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/pdf`,
+  /** A catalogue product's safety data sheet, downloaded by the browser. */
+  safetySheet: (productId: string) => `/api/products/${encodeURIComponent(productId)}/safety-data-sheet`,
   /** A printable sheet of QR labels for these casts and places. */
   labelSheet: (ids: { casts?: readonly string[]; locations?: readonly string[] }) =>
     withSearch('/api/archive/labels.pdf', { casts: ids.casts?.join(','), locations: ids.locations?.join(',') }),

@@ -17,6 +17,7 @@ export const bookingsKey = ['bookings'] as const;
 export const productsKey = ['products'] as const;
 export const ingredientsKey = ['ingredients'] as const;
 export const protocolsKey = ['protocols'] as const;
+export const buildsKey = ['appliance-builds'] as const;
 /** Public signing and withdrawal screens: never mixed with a signed-in person's data. */
 export const tabletKey = ['tablet'] as const;
 export const signingLinkKey = ['signing-link'] as const;

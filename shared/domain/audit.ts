@@ -68,6 +68,11 @@ export const AUDIT_ACTION_LABELS = {
   'cast.photo_remove': 'Removed a cast photo',
   'cast.overdue_reminder': 'Reminded a holder of an overdue cast',
   'labels.print': 'Printed labels',
+  'build.create': 'Recorded an appliance build',
+  'build.update': 'Changed an appliance build',
+  'build.photo_set': 'Set an appliance build’s photo',
+  'piece.mark': 'Marked an appliance piece',
+  'appliance_plan.set': 'Planned shoot days for an appliance',
   'medical.read': 'Read health details',
   'demo.seed': 'Loaded the demo scenario',
 } as const;

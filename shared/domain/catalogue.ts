@@ -89,14 +89,14 @@ export interface LotForTest {
 }
 
 /**
- * Why a lot cannot go on a test of this product, or null when it can: it must exist, belong to the
- * product being tested, be in use and not be past its last day when the test is applied.
+ * Why a lot cannot go on a test (or into another use, named by `use`) of this product, or null when it
+ * can: it must exist, belong to the product, be in use and not be past its last day at the time of use.
  */
-export function lotRefusal(lot: LotForTest | undefined, productId: string, at: Date): string | null {
+export function lotRefusal(lot: LotForTest | undefined, productId: string, at: Date, use = 'for a test'): string | null {
   if (!lot) return 'That lot is not in the catalogue.';
   if (lot.productId !== productId) return `Lot ${lot.code} belongs to another product.`;
-  if (lot.retiredAt !== null) return `Lot ${lot.code} has been retired and cannot be used for a test.`;
-  if (lotExpired(lot.expiresOn, at)) return `Lot ${lot.code} expired on ${lot.expiresOn} and cannot be used for a test.`;
+  if (lot.retiredAt !== null) return `Lot ${lot.code} has been retired and cannot be used ${use}.`;
+  if (lotExpired(lot.expiresOn, at)) return `Lot ${lot.code} expired on ${lot.expiresOn} and cannot be used ${use}.`;
   return null;
 }
 

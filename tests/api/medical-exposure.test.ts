@@ -5,6 +5,7 @@ import { allRoutes } from '../../api/routes.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
 import { pdfText } from '../support/pdf.ts';
 import { samplePdf } from '../fixtures/pdfs.ts';
+import { cameraJpeg } from '../fixtures/images.ts';
 import { concretePath } from '../support/routes.ts';
 
 /**
@@ -49,6 +50,12 @@ beforeAll(async () => {
   ids.locationId = places.map((p) => p.id);
   ids.code = [casts[0]!.label_code, places[0]!.label_code];
   photoOf = new Map(photos.map((p) => [p.cast_id, p.id]));
+  // Appliance builds hold no health data; their reads are swept with real ids, one with a photo.
+  const builds = await db.selectFrom('appliance_builds').select('id').execute();
+  expect(builds.length).toBeGreaterThan(0);
+  const photo = await request(t.app).put(`/api/appliance-builds/${builds[0]!.id}/photo`).set('Cookie', headCookie).attach('photo', await cameraJpeg(), 'piece.jpg');
+  expect(photo.status).toBe(200);
+  ids.id.push(...builds.map((b) => b.id));
 });
 let photoOf = new Map<string, string>();
 afterAll(async () => {
@@ -65,6 +72,7 @@ describe('no staff role but the designated lead reads health answers through any
       expect(reads.length).toBeGreaterThan(15);
       let answered = 0;
       let archiveAnswered = 0;
+      let buildsAnswered = 0;
       let sawPerformer = false;
       for (const route of reads) {
         const fills = route.path.includes(':id') ? ids.id! : route.path.includes(':code') ? ids.code! : [''];
@@ -83,6 +91,7 @@ describe('no staff role but the designated lead reads health answers through any
           (res as { text?: string }).text = (res.body as Buffer).toString('latin1');
           if (res.status === 200) answered++;
           if (res.status === 200 && (url.startsWith('/api/casts') || url.startsWith('/api/archive') || url.endsWith('/casts'))) archiveAnswered++;
+          if (res.status === 200 && url.includes('/appliance-')) buildsAnswered++;
           const text = res.text ?? '';
           if (text.includes('Juno Castellane')) sawPerformer = true;
           for (const m of medicalTexts) expect(text, `${email} ${url}`).not.toContain(m);
@@ -105,6 +114,7 @@ describe('no staff role but the designated lead reads health answers through any
       // The sweep really reached data, not only refusals.
       expect(answered).toBeGreaterThan(5);
       if (email === 'archivist@plinth.test') expect(archiveAnswered, 'the archive routes answered the archivist').toBeGreaterThan(10);
+      if (email !== 'admin@plinth.test') expect(buildsAnswered, 'the appliance build routes answered production staff').toBeGreaterThan(5);
       // …and the replies were really read (a performer's name appears somewhere).
       expect(sawPerformer).toBe(true);
     });

@@ -44,12 +44,12 @@ describe('GET /api/products', () => {
       const res = await api().get('/api/products?pageSize=5').set('Cookie', as[who]);
       expect(res.status, who).toBe(200);
       const page = ProductPageSchema.parse(res.body);
-      expect(page.total).toBe(17);
+      expect(page.total).toBe(22);
       expect(page.items).toHaveLength(5);
       expect(page.items[0]!.name).toBe('Breakwater acrylic sealer');
     }
-    const last = ProductPageSchema.parse((await api().get('/api/products?pageSize=5&page=4').set('Cookie', as.artist)).body);
-    expect(last.items.map((i) => i.name)).toEqual(['Tern gentle skin cleanser', 'Tidewater citrus remover']);
+    const last = ProductPageSchema.parse((await api().get('/api/products?pageSize=5&page=5').set('Cookie', as.artist)).body);
+    expect(last.items.map((i) => i.name)).toEqual(['Tidewater citrus remover', 'Wharfside mold release']);
   });
 
   it('refuses a performer and a signed-in person with no role', async () => {
@@ -79,7 +79,7 @@ describe('GET /api/products', () => {
     expect(names((await api().get('/api/products?group=latex').set('Cookie', as.artist)).body)).toEqual(['Estuary liquid latex', 'Foghorn foam latex system']);
     const expired = ProductPageSchema.parse((await api().get('/api/products?expiredLots=true').set('Cookie', as.artist)).body);
     expect(expired.items.map((i) => [i.name, i.expiredLots, i.usableLots])).toEqual([['Harbour Bond silicone adhesive', 1, 2]]);
-    expect(ProductPageSchema.parse((await api().get('/api/products?expiredLots=false').set('Cookie', as.artist)).body).total).toBe(16);
+    expect(ProductPageSchema.parse((await api().get('/api/products?expiredLots=false').set('Cookie', as.artist)).body).total).toBe(21);
   });
 
   it('shows counts, groups and the solvent caution per row', async () => {
@@ -93,6 +93,7 @@ describe('GET /api/products', () => {
     expect(page.items.filter((i) => i.solventCaution).map((i) => i.name).sort()).toEqual([
       'Breakwater acrylic sealer',
       'Lighthouse vinyl cap plastic',
+      'Mooring acetone',
       'Pier silicone adhesive remover',
       'Saltmarsh isopropyl myristate remover',
       'Shingle resin adhesive',
@@ -182,7 +183,7 @@ describe('POST /api/products', () => {
     expect(cat.status).toBe(400);
     expect(fieldsOf(cat.body).category).toEqual(['Choose a category']);
     expect(await count('products')).toBe(before);
-    expect(await count('product_formulations')).toBe(18);
+    expect(await count('product_formulations')).toBe(23);
   });
 
   it('refuses artists, the archivist, the administrator, performers and the role-less', async () => {
@@ -226,7 +227,7 @@ describe('formulations', () => {
     expect(d.version).toBe(2);
     const stale = await api().post(`/api/products/${id}/formulations`).set('Cookie', as.head).send({ inciLabel: 'Aqua', version: 1 });
     expect(stale.status).toBe(409);
-    expect(await count('product_formulations')).toBe(19);
+    expect(await count('product_formulations')).toBe(24);
   });
 
   it('records the ingredients of a formulation that had none, once', async () => {
@@ -280,7 +281,7 @@ describe('lots', () => {
     }
     const far = await api().post(`/api/products/${id}/lots`).set('Cookie', as.head).send({ code: 'TC-Y', expiresOn: '2999-01-31' });
     expect(fieldsOf(far.body).expiresOn).toEqual(['Use an expiry date between the years 2000 and 2100']);
-    expect(await count('product_lots')).toBe(20);
+    expect(await count('product_lots')).toBe(26);
   });
 
   it('refuses a formulation of another product for a lot', async () => {

@@ -40,7 +40,7 @@ describe('the catalogue', () => {
       await signInAsHead(page);
       await nav(page).getByRole('link', { name: 'Catalogue' }).click();
       await page.getByTestId('products-table').waitFor();
-      await expect.poll(() => page.getByTestId('product-link').count()).toBe(17);
+      await expect.poll(() => page.getByTestId('product-link').count()).toBe(22);
       await expectNoSidewaysScroll(page, 'catalogue, every product');
       // The demo catalogue flags its one expired lot in words.
       await page.getByLabel('Lots').selectOption({ label: 'Has expired lots' });

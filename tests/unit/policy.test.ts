@@ -40,6 +40,10 @@ const TABLE: [Action, boolean[]][] = [
   ['catalogue.read', [true, true, true, true, true, false, false]],
   ['catalogue.manage', [false, true, true, false, false, false, false]],
   ['protocols.manage', [false, true, true, false, false, false, false]],
+  // This lead is also an artist on P1, so makes builds as the artist; the appointment alone only reads them.
+  ['builds.read', [false, true, true, true, true, false, false]],
+  ['builds.manage', [false, true, true, true, false, false, false]],
+  ['builds.plan', [false, true, false, false, false, false, false]],
 ];
 
 describe('can() on one production', () => {
@@ -201,6 +205,11 @@ describe('every action, for every role, on one performer record of production P1
     'consents.withdraw': [N, N, Y, N, N, Y, N, N],
     'accounts.unlink': [Y, Y, Y, N, N, N, N, N],
     'accounts.invite': [Y, Y, Y, N, N, N, N, N],
+    // Appliance builds hold no health data: production staff read them; heads and artists make them; heads plan shoot days.
+    // The lead appointment reads them; the performer reads their own through their record (performer.self).
+    'builds.read': [N, Y, Y, Y, Y, N, N, N],
+    'builds.manage': [N, Y, N, Y, N, N, N, N],
+    'builds.plan': [N, Y, N, N, N, N, N, N],
   };
   const resource = { productionId: P1, performerId: PERF, performerProductionIds: [P1] };
 
@@ -219,5 +228,29 @@ describe('every action, for every role, on one performer record of production P1
     for (const action of ['performer.view', 'medical.read', 'consents.view', 'consents.withdraw'] as const) {
       expect(can(performer, action, { productionId: P1, performerId: OTHER_PERF, performerProductionIds: [P1] }), action).toBe(false);
     }
+  });
+});
+
+describe('appliance builds', () => {
+  const pureLead = actor({ leadOf: [P1] });
+  const headAndLead = actor({ memberships: [{ productionId: P1, role: 'head' }], leadOf: [P1] });
+  it('the lead appointment reads builds and neither records nor plans them', () => {
+    expect(can(pureLead, 'builds.read', { productionId: P1 })).toBe(true);
+    expect(can(pureLead, 'builds.manage', { productionId: P1 })).toBe(false);
+    expect(can(pureLead, 'builds.plan', { productionId: P1 })).toBe(false);
+  });
+  it('a lead who is also the head records and plans as the head', () => {
+    expect(can(headAndLead, 'builds.manage', { productionId: P1 })).toBe(true);
+    expect(can(headAndLead, 'builds.plan', { productionId: P1 })).toBe(true);
+  });
+  it('a role on one production grants nothing on another production’s builds', () => {
+    for (const who of [head, artist, archivist]) {
+      expect(can(who, 'builds.read', { productionId: P2 })).toBe(false);
+      expect(can(who, 'builds.manage', { productionId: P2 })).toBe(false);
+    }
+  });
+  it('the performer reads no build as staff, even their own, and no health data is opened by reading builds', () => {
+    expect(can(performer, 'builds.read', { productionId: P1, performerId: PERF })).toBe(false);
+    expect(can(artist, 'medical.read', { productionId: P1, performerId: PERF })).toBe(false);
   });
 });

@@ -138,6 +138,22 @@ export async function listCastsOfPerformer(db: Db, performerId: string): Promise
   return (await baseQuery(db).where('casts.performer_id', '=', performerId).orderBy('casts.made_on').orderBy('casts.label_code').execute()).map(toRecord);
 }
 
+/**
+ * Molds a production may run appliance pieces from: molds of performers engaged on it that the
+ * archive still holds (in store, checked out or on loan), by performer and date.
+ */
+export async function listHeldMoldsFor(db: Db, productionId: string): Promise<CastRecord[]> {
+  const rows = await baseQuery(db)
+    .where('casts.kind', '=', 'mold')
+    .where('casts.status', 'not in', ['returned_to_performer', 'destroyed'])
+    .where('casts.performer_id', 'in', performersEngagedOn(db, [productionId]))
+    .orderBy(sql`lower(coalesce(p.preferred_name, p.legal_name))`)
+    .orderBy('casts.made_on')
+    .orderBy('casts.label_code')
+    .execute();
+  return rows.map(toRecord);
+}
+
 /** Casts poured from this one (positives and cores from a mold). */
 export async function listPouredFrom(db: Db, sourceId: string): Promise<CastRecord[]> {
   return (await baseQuery(db).where('casts.poured_from_id', '=', sourceId).orderBy('casts.made_on').execute()).map(toRecord);

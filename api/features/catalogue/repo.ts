@@ -86,6 +86,38 @@ export async function findProduct(db: Db, id: string): Promise<ProductRow | null
   return r ? toProduct(r) : null;
 }
 
+/** What another feature shows of a product and uses of its material figures: many products, one query. */
+export interface ProductSummary {
+  id: string;
+  name: string;
+  category: ProductCategory;
+  densityGPerCm3: number | null;
+  mixRatio: { partA: number; partB: number } | null;
+  makerMaxSoftenerPercent: number | null;
+  /** Where its safety data sheet downloads from; null when none is on file. */
+  safetySheetUrl: string | null;
+}
+
+export async function findProductSummaries(db: Db, ids: readonly string[]): Promise<Map<string, ProductSummary>> {
+  const unique = [...new Set(ids)];
+  if (unique.length === 0) return new Map();
+  const rows = await productQuery(db).where('p.id', 'in', unique).execute();
+  return new Map(
+    rows.map(toProduct).map((p) => [
+      p.id,
+      {
+        id: p.id,
+        name: p.name,
+        category: p.category,
+        densityGPerCm3: p.densityGPerCm3,
+        mixRatio: p.mixRatio,
+        makerMaxSoftenerPercent: p.makerMaxSoftenerPercent,
+        safetySheetUrl: p.sdsFileId ? `/api/products/${p.id}/safety-data-sheet` : null,
+      },
+    ]),
+  );
+}
+
 /** Locks a product for a change to it, its formulations, lots or safety data sheet. */
 export async function lockProduct(db: Db, id: string): Promise<ProductRow | null> {
   const r = await productQuery(db).where('p.id', '=', id).forUpdate('p').executeTakeFirst();

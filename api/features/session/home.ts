@@ -4,6 +4,7 @@ import type { Home } from '#shared/schemas/session.ts';
 import type { AppContext } from '../../context.ts';
 import { archivistTasks } from '../archive/index.ts';
 import { listBookings } from '../bookings/index.ts';
+import { piecesShortTask } from '../builds/index.ts';
 import { countActiveConsents, countExpiringForProduction, countOpenLinkRequests } from '../consents/index.ts';
 import { countEngagedNow } from '../performers/index.ts';
 import { countProductionsWithoutLead } from '../productions/index.ts';
@@ -86,6 +87,7 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
       count: await countEngagedNow(ctx.db, seat.productionId),
       href: '/performers',
     });
+    tasks.push(await piecesShortTask(ctx.db, seat.productionId));
     return tasks;
   }
   return [];

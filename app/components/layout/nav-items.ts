@@ -34,6 +34,8 @@ export const NAV_ITEMS: readonly NavEntry[] = [
   { label: 'Archive', to: paths.archive.href(), action: 'archive.view' },
   { label: 'Storage places', to: paths.places.href(), action: 'archive.view' },
   { label: 'Retention', to: paths.retention.href(), action: 'casts.manage' },
+  { label: 'Builds', to: paths.builds.href(), action: 'builds.read' },
+  { label: 'Calculators', to: paths.mixCalculator.href(), action: 'builds.read' },
   { label: 'Consent forms', to: paths.consentForms.href(), action: 'templates.manage' },
   { label: 'Check a PDF', to: paths.verify.href(), action: VERIFY_ACTIONS },
   { label: 'Users', to: paths.users.href(), action: 'users.manage' },

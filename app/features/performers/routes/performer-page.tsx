@@ -15,6 +15,7 @@ import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { PerformerCasts } from '../../archive/index.ts';
+import { PerformerBuilds } from '../../builds/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
@@ -170,6 +171,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
       </Section>
 
       <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
+      <PerformerBuilds performerId={p.id} isSelf={isSelf} />
 
       {p.canSeeMedical ? <HealthReads performerId={p.id} isSelf={isSelf} /> : null}
     </div>
