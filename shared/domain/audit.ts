@@ -45,6 +45,7 @@ export const AUDIT_ACTION_LABELS = {
   'withdrawal_link.cap': 'Withheld a withdrawal link (too many asked)',
   'booking.create': 'Booked a session',
   'booking.cancel': 'Cancelled a session',
+  'booking.reschedule': 'Moved a session',
   'ingredient.create': 'Added an ingredient',
   'ingredient.update': 'Changed an ingredient',
   'product.create': 'Added a product',
