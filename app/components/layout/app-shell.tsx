@@ -29,21 +29,21 @@ export function AppShell() {
     <div className="flex min-h-screen flex-col">
       <a
         href="#main"
-        className="sr-only rounded-lg bg-clay-800 px-4 py-3 font-semibold text-white focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:z-50"
+        className="sr-only rounded-lg bg-verdigris-800 px-4 py-3 font-semibold text-white focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:z-50"
       >
         Skip to main content
       </a>
-      <header className="border-b border-sand-300 bg-white">
+      <header className="border-b border-plaster-300 bg-white">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3">
           <Link to={paths.home.href()} onClick={() => setMenuOpen(false)} className="inline-flex min-h-11 items-center rounded-lg no-underline">
             <Wordmark />
           </Link>
-          <p className="min-w-0 flex-1 font-semibold text-ink-700 md:flex-none" data-testid="acting-context">
+          <p className="min-w-0 flex-1 font-semibold text-graphite-700 md:flex-none" data-testid="acting-context">
             {context}
           </p>
           <button
             type="button"
-            className="inline-flex min-h-11 min-w-11 items-center justify-center gap-2 rounded-lg border border-ink-500 px-3 font-semibold text-ink-900 hover:bg-sand-100 md:hidden"
+            className="inline-flex min-h-11 min-w-11 items-center justify-center gap-2 rounded-lg border border-graphite-500 px-3 font-semibold text-graphite-900 hover:bg-plaster-100 md:hidden"
             aria-expanded={menuOpen}
             aria-controls={`${MENU_ID} ${NAV_ID}`}
             onClick={() => setMenuOpen((open) => !open)}
@@ -58,9 +58,9 @@ export function AppShell() {
           >
             <SeatSwitcher />
             <div className="flex flex-wrap items-end gap-3">
-              <p className="flex min-h-11 flex-col justify-center text-sm text-ink-700">
+              <p className="flex min-h-11 flex-col justify-center text-sm text-graphite-700">
                 <span>Signed in as</span>
-                <span className="font-semibold text-ink-900" data-testid="user-name">
+                <span className="font-semibold text-graphite-900" data-testid="user-name">
                   {session.user.displayName}
                 </span>
               </p>
@@ -68,7 +68,7 @@ export function AppShell() {
             </div>
           </div>
         </div>
-        <nav id={NAV_ID} aria-label="Main" className={`${menuOpen ? 'block' : 'hidden'} border-t border-sand-200 md:block`}>
+        <nav id={NAV_ID} aria-label="Main" className={`${menuOpen ? 'block' : 'hidden'} border-t border-plaster-200 md:block`}>
           <ul className="mx-auto flex max-w-6xl flex-col gap-1 px-4 py-2 md:flex-row md:flex-wrap">
             {items.map((item) => (
               <li key={item.to}>
@@ -79,7 +79,7 @@ export function AppShell() {
                   onClick={() => setMenuOpen(false)}
                   className={({ isActive }) =>
                     `flex min-h-11 items-center rounded-lg px-4 font-semibold no-underline ${
-                      isActive ? 'bg-clay-100 text-clay-900' : 'text-ink-700 hover:bg-sand-100 hover:text-ink-900'
+                      isActive ? 'bg-verdigris-100 text-verdigris-900' : 'text-graphite-700 hover:bg-plaster-100 hover:text-graphite-900'
                     }`
                   }
                 >
@@ -91,12 +91,12 @@ export function AppShell() {
         </nav>
       </header>
       {/* A slim bar while the next page's code and data load; the page itself says "Loading…" if it must. */}
-      <div aria-hidden="true" className={`h-1 bg-clay-600 transition-opacity ${loading ? 'animate-pulse opacity-100' : 'opacity-0'}`} />
+      <div aria-hidden="true" className={`h-1 bg-verdigris-600 transition-opacity ${loading ? 'animate-pulse opacity-100' : 'opacity-0'}`} />
       <main id="main" tabIndex={-1} aria-busy={loading || undefined} className="mx-auto flex w-full max-w-6xl flex-1 flex-col gap-6 px-4 py-6">
         <Outlet />
       </main>
-      <footer className="border-t border-sand-300 bg-sand-100">
-        <p className="mx-auto max-w-6xl px-4 py-4 text-sm text-ink-600">
+      <footer className="border-t border-plaster-300 bg-plaster-100">
+        <p className="mx-auto max-w-6xl px-4 py-4 text-sm text-graphite-600">
           Plinth records skin screening and consent; it is not a medical diagnosis.
         </p>
       </footer>

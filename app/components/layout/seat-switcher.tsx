@@ -15,7 +15,7 @@ export function SeatSwitcher({ className = '' }: { className?: string }) {
 
   return (
     <div className={`flex flex-col gap-1 ${className}`}>
-      <label htmlFor={id} className="text-sm font-semibold text-ink-900">
+      <label htmlFor={id} className="text-sm font-semibold text-graphite-900">
         Acting as
       </label>
       <select

@@ -34,12 +34,12 @@ export function Table({ caption, captionHidden = false, busy = false, children, 
   return (
     <div
       ref={scrollRef}
-      className="overflow-x-auto rounded-xl border border-sand-300 bg-white"
+      className="overflow-x-auto rounded-xl border border-plaster-300 bg-white"
       // Only a table that really scrolls becomes a keyboard stop, so it can be scrolled without a mouse.
       {...(overflows ? { tabIndex: 0, role: 'region', 'aria-labelledby': captionId } : {})}
     >
       <table className={`w-full border-collapse text-left text-base transition-opacity ${busy ? 'opacity-60' : ''}`} aria-busy={busy || undefined} data-testid={testId}>
-        <caption id={captionId} className={captionHidden ? 'sr-only' : 'px-4 pt-3 pb-2 text-left text-sm font-semibold text-ink-700'}>
+        <caption id={captionId} className={captionHidden ? 'sr-only' : 'px-4 pt-3 pb-2 text-left text-sm font-semibold text-graphite-700'}>
           {caption}
         </caption>
         {children}
@@ -49,7 +49,7 @@ export function Table({ caption, captionHidden = false, busy = false, children, 
 }
 
 export function Thead({ children }: { children: ReactNode }) {
-  return <thead className="border-b border-sand-300 bg-sand-100 text-sm text-ink-700">{children}</thead>;
+  return <thead className="border-b border-plaster-300 bg-plaster-100 text-sm text-graphite-700">{children}</thead>;
 }
 
 export function Th({ className = '', children, ...rest }: ThHTMLAttributes<HTMLTableCellElement>) {
@@ -69,7 +69,7 @@ export function Td({ className = '', children, ...rest }: TdHTMLAttributes<HTMLT
 }
 
 export function Tr({ children }: { children: ReactNode }) {
-  return <tr className="border-b border-sand-200 last:border-b-0">{children}</tr>;
+  return <tr className="border-b border-plaster-200 last:border-b-0">{children}</tr>;
 }
 
 export type SortDir = 'asc' | 'desc';
@@ -92,10 +92,10 @@ export function SortHeader<K extends string>({ label, sortKey, sort, dir, onSort
       <button
         type="button"
         onClick={() => onSort(sortKey, nextDir)}
-        className="inline-flex min-h-11 items-center gap-1 rounded-md px-2 font-semibold whitespace-nowrap text-ink-900 hover:bg-sand-200"
+        className="inline-flex min-h-11 items-center gap-1 rounded-md px-2 font-semibold whitespace-nowrap text-graphite-900 hover:bg-plaster-200"
       >
         {label}
-        <span aria-hidden="true" className={active ? 'text-clay-800' : 'text-ink-500'}>
+        <span aria-hidden="true" className={active ? 'text-verdigris-800' : 'text-graphite-500'}>
           {active ? (dir === 'asc' ? '▲' : '▼') : '↕'}
         </span>
       </button>
