@@ -82,14 +82,20 @@ describe('signing in through the identity provider at a tablet viewport', () => 
 });
 
 describe('the shell', () => {
-  it('switches production and role from the "Acting as" list (portrait tablet)', async () => {
+  it('switches production and role from the one header control (portrait tablet)', async () => {
     const context = await tabletContext(browser, TABLET_PORTRAIT);
     const page = await context.newPage();
     try {
       await signInThroughIdp(page, appUrl, 'head@plinth.test', DEMO_PASSWORD);
       await page.getByRole('heading', { level: 1, name: /Today · Department head/ }).waitFor();
-      const switcher = page.getByLabel('Acting as');
-      await switcher.selectOption({ label: 'Saltglass Mile — Artist' });
+      // One control, no repeated "production · role" label beside the wordmark.
+      expect(await page.getByTestId('acting-context').count()).toBe(1);
+      const control = page.getByTestId('account-control').getByRole('button', { name: /Marta Oyelaran/ });
+      const box = await control.boundingBox();
+      expect(box!.height).toBeGreaterThanOrEqual(44);
+      await control.click();
+      await expectAccessible(page, 'account control open');
+      await page.getByRole('group', { name: 'Acting as' }).getByRole('radio', { name: 'Saltglass Mile — Artist' }).check();
       await page.getByRole('heading', { level: 1, name: /Today · Artist/ }).waitFor();
       expect(await page.getByTestId('acting-context').textContent()).toMatch(/Saltglass Mile/);
       await expectAccessible(page, 'home after switching');
@@ -104,6 +110,7 @@ describe('the shell', () => {
     try {
       await signInThroughIdp(page, appUrl, 'artist@plinth.test', DEMO_PASSWORD);
       await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor();
+      await page.getByTestId('account-control').getByRole('button', { name: /Rafe Lindqvist/ }).click();
       await page.getByRole('button', { name: 'Sign out' }).click();
       await page.waitForURL(/\/signin/);
       await page.getByRole('link', { name: 'Sign in' }).waitFor();

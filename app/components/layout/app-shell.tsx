@@ -1,14 +1,11 @@
 import { useState } from 'react';
 import { Link, NavLink, Outlet, useNavigation } from 'react-router-dom';
-import { ROLE_LABELS } from '#shared/policy.ts';
-import { SeatSwitcher } from './seat-switcher.tsx';
-import { SignOutButton } from './sign-out-button.tsx';
+import { AccountControl } from './account-control.tsx';
 import { useSession } from '../../lib/session/session-context.tsx';
 import { paths } from '../../lib/paths.ts';
 import { navItemsFor } from './nav-items.ts';
 import { Wordmark } from './wordmark.tsx';
 
-const MENU_ID = 'site-menu';
 const NAV_ID = 'main-nav';
 
 export function AppShell() {
@@ -16,13 +13,6 @@ export function AppShell() {
   const navigation = useNavigation();
   const [menuOpen, setMenuOpen] = useState(false);
   const items = navItemsFor(session);
-  const seat = session.current;
-
-  const context = seat
-    ? seat.role === 'admin' || !seat.productionId
-      ? ROLE_LABELS[seat.role]
-      : `${seat.productionName ?? 'Untitled production'} · ${ROLE_LABELS[seat.role]}`
-    : '';
   const loading = navigation.state === 'loading';
 
   return (
@@ -34,38 +24,23 @@ export function AppShell() {
         Skip to main content
       </a>
       <header className="border-b border-plaster-300 bg-white">
-        <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3">
-          <Link to={paths.home.href()} onClick={() => setMenuOpen(false)} className="inline-flex min-h-11 items-center rounded-lg no-underline">
+        <div className="mx-auto flex max-w-6xl items-center gap-3 px-4 py-3">
+          <Link to={paths.home.href()} onClick={() => setMenuOpen(false)} className="inline-flex min-h-11 shrink-0 items-center rounded-lg no-underline">
             <Wordmark />
           </Link>
-          <p className="min-w-0 flex-1 font-semibold text-graphite-700 md:flex-none" data-testid="acting-context">
-            {context}
-          </p>
-          <button
-            type="button"
-            className="inline-flex min-h-11 min-w-11 items-center justify-center gap-2 rounded-lg border border-graphite-500 px-3 font-semibold text-graphite-900 hover:bg-plaster-100 md:hidden"
-            aria-expanded={menuOpen}
-            aria-controls={`${MENU_ID} ${NAV_ID}`}
-            onClick={() => setMenuOpen((open) => !open)}
-            data-testid="menu-button"
-          >
-            <span aria-hidden="true">{menuOpen ? '✕' : '☰'}</span>
-            Menu
-          </button>
-          <div
-            id={MENU_ID}
-            className={`${menuOpen ? 'flex' : 'hidden'} w-full flex-col gap-3 md:flex md:w-auto md:flex-1 md:flex-row md:flex-wrap md:items-end md:justify-end`}
-          >
-            <SeatSwitcher />
-            <div className="flex flex-wrap items-end gap-3">
-              <p className="flex min-h-11 flex-col justify-center text-sm text-graphite-700">
-                <span>Signed in as</span>
-                <span className="font-semibold text-graphite-900" data-testid="user-name">
-                  {session.user.displayName}
-                </span>
-              </p>
-              <SignOutButton />
-            </div>
+          <div className="ml-auto flex min-w-0 items-center gap-3">
+            <button
+              type="button"
+              className="inline-flex min-h-11 min-w-11 shrink-0 items-center justify-center gap-2 rounded-lg border border-graphite-500 px-3 font-semibold text-graphite-900 hover:bg-plaster-100 md:hidden"
+              aria-expanded={menuOpen}
+              aria-controls={NAV_ID}
+              onClick={() => setMenuOpen((open) => !open)}
+              data-testid="menu-button"
+            >
+              <span aria-hidden="true">{menuOpen ? '✕' : '☰'}</span>
+              Menu
+            </button>
+            <AccountControl />
           </div>
         </div>
         <nav id={NAV_ID} aria-label="Main" className={`${menuOpen ? 'block' : 'hidden'} border-t border-plaster-200 md:block`}>
