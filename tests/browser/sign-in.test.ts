@@ -20,7 +20,8 @@ const ACCOUNTS: { email: string; heading: RegExp; context: RegExp | null; nav: s
   { email: 'lead@plinth.test', heading: /Today · Designated lead/, context: /The Lantern Keeper/, nav: ['Home'] },
   { email: 'artist@plinth.test', heading: /Today · Artist/, context: /The Lantern Keeper/, nav: ['Home'] },
   { email: 'archivist@plinth.test', heading: /Today · Archivist/, context: /The Lantern Keeper|Saltglass Mile/, nav: ['Home'] },
-  { email: 'performer@plinth.test', heading: /Today · Performer/, context: /The Lantern Keeper/, nav: ['Home'] },
+  // A performer's own view has no staff words: no production · role line, no "Acting as".
+  { email: 'performer@plinth.test', heading: /Today/, context: null, nav: ['Home', 'My record'] },
 ];
 
 describe('signing in through the identity provider at a tablet viewport', () => {
@@ -41,6 +42,12 @@ describe('signing in through the identity provider at a tablet viewport', () => 
         const heading = page.getByRole('heading', { level: 1, name: account.heading });
         await heading.waitFor();
         if (account.context) expect(await page.getByTestId('acting-context').textContent()).toMatch(account.context);
+        else if (account.email === 'performer@plinth.test') {
+          expect(await page.getByTestId('acting-context').count()).toBe(0);
+          await page.getByTestId('account-control').getByRole('button').click();
+          await page.getByRole('button', { name: 'Sign out' }).waitFor();
+          expect(await page.getByText('Acting as').count()).toBe(0);
+        }
         const nav = page.getByRole('navigation', { name: 'Main' });
         for (const item of account.nav) await expect(nav.getByRole('link', { name: item, exact: true }).isVisible()).resolves.toBe(true);
         await expectAccessible(page, `${account.email} home`);
@@ -95,7 +102,7 @@ describe('the shell', () => {
       expect(box!.height).toBeGreaterThanOrEqual(44);
       await control.click();
       await expectAccessible(page, 'account control open');
-      await page.getByRole('group', { name: 'Acting as' }).getByRole('radio', { name: 'Saltglass Mile — Artist' }).check();
+      await page.getByRole('group', { name: 'Acting as' }).getByRole('radio', { name: 'Saltglass Mile — Artist' }).click();
       await page.getByRole('heading', { level: 1, name: /Today · Artist/ }).waitFor();
       expect(await page.getByTestId('acting-context').textContent()).toMatch(/Saltglass Mile/);
       await expectAccessible(page, 'home after switching');

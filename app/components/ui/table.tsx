@@ -13,8 +13,20 @@ function headerWords(th: Element): string {
   return (copy.textContent ?? '').replace(/\s+/g, ' ').trim();
 }
 
+function setRole(el: Element, role: string) {
+  if (el.getAttribute('role') !== role) el.setAttribute('role', role);
+}
+
 /** Gives every body cell the words of its column header, which the card layout prints beside it. */
 function labelCells(table: HTMLTableElement) {
+  // Explicit roles: a table laid out as cards (display: block) keeps its table semantics in every browser.
+  setRole(table, 'table');
+  if (table.tHead) setRole(table.tHead, 'rowgroup');
+  for (const body of table.tBodies) setRole(body, 'rowgroup');
+  for (const row of table.rows) {
+    setRole(row, 'row');
+    for (const cell of row.cells) setRole(cell, cell.tagName === 'TH' ? (cell.getAttribute('scope') === 'row' ? 'rowheader' : 'columnheader') : 'cell');
+  }
   const headRow = table.tHead?.rows[0];
   if (!headRow) return;
   const labels: string[] = [];
@@ -101,6 +113,7 @@ export function Table({ caption, captionHidden = false, busy = false, children, 
         ref={tableRef}
         className={`plinth-table w-full border-collapse text-left text-base transition-opacity ${busy ? 'opacity-60' : ''}`}
         aria-busy={busy || undefined}
+        aria-labelledby={captionId}
         data-testid={testId}
         data-stacked={stacked ? '' : undefined}
       >
