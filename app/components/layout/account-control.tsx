@@ -5,6 +5,7 @@ import { useSelectSeat } from '../../lib/session/api.ts';
 import { useSession } from '../../lib/session/session-context.tsx';
 import { seatKey, seatLabel } from '../../lib/session/seat.ts';
 import { SignOutButton } from './sign-out-button.tsx';
+import { EmailAddress } from '../ui/email-address.tsx';
 
 function initials(name: string): string {
   const words = name.trim().split(/\s+/).filter(Boolean);
@@ -86,7 +87,7 @@ export function AccountControl() {
       >
         <p className="text-sm text-graphite-700">
           Signed in as <span className="font-semibold text-graphite-900">{session.user.displayName}</span>
-          <span className="block break-all">{session.user.email}</span>
+          <EmailAddress value={session.user.email} className="block" />
         </p>
         {choices.length > 0 ? (
           <fieldset className="flex flex-col gap-1" aria-describedby={selectSeat.isError ? `${panelId}-error` : undefined}>
