@@ -1,3 +1,5 @@
 // What other features may use of sessions (bookings); everything else here is the feature's own.
 export { upcomingBookingsJsonSql } from './repo.ts';
 export { bookingsFromJson, listBookings } from './service.ts';
+// A patch test is a session of purpose patch_test: its feature books, moves and closes the session row here.
+export { insertBooking, setBookingStatus, setBookingTime } from './repo.ts';

@@ -98,3 +98,8 @@ export function upcomingBookingsJsonSql(performerId: RawBuilder<string>, from: D
     from bookings b where b.performer_id = ${performerId} and b.status = 'booked' and b.starts_at >= ${from}
   ), '[]'::json)`;
 }
+
+/** Moves a booked session to another time or place. */
+export async function setBookingTime(db: Db, id: string, startsAt: Date, location: string | null): Promise<void> {
+  await db.updateTable('bookings').set({ starts_at: startsAt, location }).where('id', '=', id).execute();
+}
