@@ -4,7 +4,6 @@ import { IdSchema } from '#shared/schemas/common.ts';
 import type { PerformerDetail } from '#shared/schemas/performers.ts';
 import { NotFoundPage } from '../../../components/layout/not-found-page.tsx';
 import { Button, ButtonLink } from '../../../components/ui/button.tsx';
-import { EmptyState } from '../../../components/ui/empty-state.tsx';
 import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
@@ -16,6 +15,7 @@ import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { PerformerCasts } from '../../archive/index.ts';
 import { PerformerBuilds } from '../../builds/index.ts';
+import { PerformerPatchTests } from '../../patch-tests/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
@@ -166,9 +166,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
         ) : null}
       </Section>
 
-      <Section title="Patch tests and clearances">
-        <EmptyState title="Nothing recorded yet.">Recorded here once the department starts testing.</EmptyState>
-      </Section>
+      <PerformerPatchTests performerId={p.id} isSelf={isSelf} />
 
       <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
       <PerformerBuilds performerId={p.id} isSelf={isSelf} />
