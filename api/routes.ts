@@ -9,6 +9,7 @@ import { outboxRoutes } from './features/outbox/routes.ts';
 import { recordsExportRoutes } from './features/records-export/routes.ts';
 import { performerRoutes } from './features/performers/routes.ts';
 import { bookingRoutes } from './features/bookings/routes.ts';
+import { patchTestRoutes } from './features/patch-tests/routes.ts';
 import { buildRoutes } from './features/builds/routes.ts';
 import { consentRoutes } from './features/consents/consent-routes.ts';
 import { signingRoutes } from './features/consents/signing-routes.ts';
@@ -35,6 +36,7 @@ const featureRoutes: AnyRoute[] = [
   ...signingRoutes,
   ...consentRoutes,
   ...bookingRoutes,
+  ...patchTestRoutes,
   ...ingredientRoutes,
   ...productRoutes,
   ...protocolRoutes,

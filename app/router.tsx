@@ -161,6 +161,15 @@ const routes: RouteObject[] = [
                         const m = await import('./features/archive/routes/retention-page.tsx');
                         return { Component: m.RetentionPage, loader: m.retentionLoader };
                       }),
+                      // New before :id, so /patch-tests/new is never read as a test id.
+                      guarded(paths.bookPatchTest.pattern, 'patchtests.book', async () => {
+                        const m = await import('./features/patch-tests/routes/book-test-page.tsx');
+                        return { Component: m.BookTestPage };
+                      }),
+                      guarded(paths.patchTest.pattern, ['patchtests.read', 'performer.self'], async () => {
+                        const m = await import('./features/patch-tests/routes/patch-test-page.tsx');
+                        return { Component: m.PatchTestPage, loader: m.patchTestLoader };
+                      }),
                       guarded(paths.builds.pattern, 'builds.read', async () => {
                         const m = await import('./features/builds/routes/builds-page.tsx');
                         return { Component: m.BuildsPage, loader: m.buildsLoader };

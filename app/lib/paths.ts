@@ -81,6 +81,10 @@ export const paths = {
   moldBoxCalculator: { pattern: '/calculators/mold-box', href: () => '/calculators/mold-box' },
   protocol: { pattern: '/protocols/:id', href: (id: string) => `/protocols/${encodeURIComponent(id)}` },
 
+  /** Patch tests: booking one for a performer, and one test with its schedule and reading grid. */
+  bookPatchTest: { pattern: '/patch-tests/new', href: (performerId?: string) => withSearch('/patch-tests/new', { performerId }) },
+  patchTest: { pattern: '/patch-tests/:id', href: (id: string) => `/patch-tests/${encodeURIComponent(id)}` },
+
   // Public pages, outside the signed-in shell.
   /** The department's tablet while it is lent to a performer. */
   tablet: { pattern: '/tablet', href: () => '/tablet' },

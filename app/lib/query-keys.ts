@@ -29,3 +29,4 @@ export function invalidate(queryClient: QueryClient, keys: readonly (readonly un
   return Promise.all(keys.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
 }
 export const archiveKey = ['archive'] as const;
+export const patchTestsKey = ['patch-tests'] as const;

@@ -436,7 +436,7 @@ describe('bookings and the head\'s home', () => {
     const within30 = upcoming.filter((x) => x.consentMissing && new Date(x.startsAt).getTime() < Date.now() + 30 * 86_400_000);
     expect(task.count).toBe(within30.length);
     expect(task.count).toBeGreaterThanOrEqual(1);
-    expect(task.detail).toContain('Oz Parfitt');
+    expect(task.items.map((i: { label: string }) => i.label)).toContain('Oz Parfitt');
     const expiring = home.body.tasks.find((x: { id: string }) => x.id === 'consents-expiring');
     // Tamsin's patch-test consent (signed 355 days ago, valid 365) expires within 30 days.
     expect(expiring.count).toBeGreaterThanOrEqual(1);

@@ -18,6 +18,23 @@ beforeAll(async () => {
   const bea = (await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Beatrix Nwachukwu').executeTakeFirstOrThrow()).id;
   const c = await t.db.db.selectFrom('consents').select(['id', 'version']).where('performer_id', '=', bea).where('withdrawn_at', 'is', null).executeTakeFirstOrThrow();
   await request(t.app).post(`/api/consents/${c.id}/withdraw`).set('Cookie', await t.sessionFor('lead@plinth.test')).send({ reason: 'My eczema flared up', version: c.version }).expect(200);
+  // A patch-test reading with a note, and an override with its note.
+  const lead = await t.sessionFor('lead@plinth.test');
+  const juno = (await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow()).id;
+  const lantern = (await t.db.db.selectFrom('productions').select('id').where('name', '=', 'The Lantern Keeper').executeTakeFirstOrThrow()).id;
+  const lot = await t.db.db.selectFrom('product_lots').select(['id', 'product_id']).where('code', '=', 'TW-2604').executeTakeFirstOrThrow();
+  const booked = await request(t.app)
+    .post('/api/patch-tests')
+    .set('Cookie', lead)
+    .send({ performerId: juno, productionId: lantern, protocolId: 'short-contact', startsAt: new Date(Date.now() + 3_600_000).toISOString(), location: 'Trailer 1', products: [{ productId: lot.product_id, lotId: lot.id, site: 'Behind the right ear' }] })
+    .expect(201);
+  const applied = await request(t.app).post(`/api/patch-tests/${booked.body.id}/apply`).set('Cookie', lead).send({ appliedAt: new Date(Date.now() - 31 * 60_000).toISOString(), version: booked.body.version }).expect(200);
+  await request(t.app)
+    .post(`/api/patch-tests/${booked.body.id}/readings`)
+    .set('Cookie', lead)
+    .send({ pointId: 'm30', readAt: new Date().toISOString(), version: applied.body.version, sites: [{ testProductId: applied.body.products[0].id, code: '+++', note: 'Weeping patch spreading past the edge' }] })
+    .expect(201);
+  await request(t.app).post(`/api/performers/${juno}/clearance-overrides`).set('Cookie', lead).send({ formulationId: applied.body.products[0].formulationId, state: 'do_not_use', note: 'Referred to the production doctor' }).expect(201);
 });
 afterAll(async () => {
   await t?.close();
@@ -27,7 +44,10 @@ afterAll(async () => {
 async function rawMedical() {
   const answers = await t.db.db.selectFrom('consent_answers').select(['answer']).where('medical', '=', true).execute();
   const reasons = await t.db.db.selectFrom('consents').select(['withdrawal_reason']).where('withdrawal_reason', 'is not', null).execute();
-  return { answers: answers.map((a) => JSON.stringify(a.answer)), reasons: reasons.map((r) => r.withdrawal_reason!) };
+  const readings = await t.db.db.selectFrom('patch_test_readings').select(['code', 'note']).execute();
+  const overrides = await t.db.db.selectFrom('clearance_overrides').select('note').execute();
+  const texts = [...readings.flatMap((r) => [r.code, ...(r.note === null ? [] : [r.note])]), ...overrides.map((o) => o.note)];
+  return { answers: answers.map((a) => JSON.stringify(a.answer)), reasons: [...reasons.map((r) => r.withdrawal_reason!), ...texts] };
 }
 
 async function medicalPdfFiles() {
@@ -49,6 +69,8 @@ describe('health details at rest', () => {
     expect(reasons.length).toBeGreaterThan(0);
     for (const r of reasons) expect(r.startsWith('sealed:v1:')).toBe(true);
     expect(reasons.join('\n')).not.toContain('eczema');
+    // Reading codes and notes and override notes are sealed too.
+    expect(reasons.join('\n')).not.toMatch(/Weeping|production doctor|\+\+\+/);
     const pdfs = await medicalPdfFiles();
     expect(pdfs.length).toBeGreaterThan(2);
     for (const bytes of pdfs) {

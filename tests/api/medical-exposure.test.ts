@@ -56,6 +56,28 @@ beforeAll(async () => {
   const photo = await request(t.app).put(`/api/appliance-builds/${builds[0]!.id}/photo`).set('Cookie', headCookie).attach('photo', await cameraJpeg(), 'piece.jpg');
   expect(photo.status).toBe(200);
   ids.id.push(...builds.map((b) => b.id));
+  // A patch test read by the lead: a code, a note and a photo per site, and an override with its note.
+  const leadCookie = await t.sessionFor('lead@plinth.test');
+  const lot = await db.selectFrom('product_lots').select(['id', 'product_id']).where('code', '=', 'QA-2602').executeTakeFirstOrThrow();
+  const booked = await request(t.app)
+    .post('/api/patch-tests')
+    .set('Cookie', headCookie)
+    .send({ performerId: juno.id, productionId: production.id, protocolId: 'short-contact', startsAt: new Date(Date.now() + 3_600_000).toISOString(), location: 'Trailer 1', products: [{ productId: lot.product_id, lotId: lot.id, site: 'Behind the left ear' }] });
+  expect(booked.status).toBe(201);
+  const applied = await request(t.app).post(`/api/patch-tests/${booked.body.id}/apply`).set('Cookie', leadCookie).send({ appliedAt: new Date(Date.now() - 31 * 60_000).toISOString(), version: booked.body.version });
+  expect(applied.status).toBe(200);
+  const read = await request(t.app)
+    .post(`/api/patch-tests/${booked.body.id}/readings`)
+    .set('Cookie', leadCookie)
+    .send({ pointId: 'm30', readAt: new Date().toISOString(), version: applied.body.version, sites: [{ testProductId: applied.body.products[0].id, code: '++', note: 'Blistering behind the ear noted at the check' }] });
+  expect(read.status).toBe(201);
+  const shot = await request(t.app).post(`/api/patch-tests/${booked.body.id}/readings/${read.body.products[0].readings[0].id}/photos`).set('Cookie', leadCookie).attach('photo', await cameraJpeg(), 'site.jpg');
+  expect(shot.status).toBe(201);
+  const override = await request(t.app).post(`/api/performers/${juno.id}/clearance-overrides`).set('Cookie', leadCookie).send({ formulationId: read.body.products[0].formulationId, state: 'do_not_use', note: 'Confirmed by the production dermatologist' });
+  expect(override.status).toBe(201);
+  medicalTexts.push('Blistering behind the ear noted at the check', 'Confirmed by the production dermatologist');
+  ids.id.push(booked.body.id);
+  photoOf.set(booked.body.id, shot.body.products[0].readings[0].photos[0].id);
 });
 let photoOf = new Map<string, string>();
 afterAll(async () => {
@@ -97,6 +119,8 @@ describe('no staff role but the designated lead reads health answers through any
           for (const m of medicalTexts) expect(text, `${email} ${url}`).not.toContain(m);
           // An answer object marked medical (question definitions in templates may say medical: true; answers never may).
           expect(text, `${email} ${url}`).not.toMatch(/"medical":true,"answer"/);
+          // No reading code, outcome or note of a patch test (clearance reasons carry word codes only); the API description names the fields, never values.
+          if (!url.endsWith('/openapi.json')) expect(text, `${email} ${url}`).not.toMatch(/"code":"(\?\+|\+{1,3}|-|IR|NT)"|"strongest":|"final":|"readAt":/);
           if (res.status === 200 && (res.headers['content-type'] ?? '').includes('application/pdf')) {
             // Only a consent with no health questions may reach them as a PDF, and it must hold no health answer.
             const consentId = /\/api\/consents\/([0-9a-f-]{36})\/pdf/.exec(url)?.[1];
@@ -117,7 +141,8 @@ describe('no staff role but the designated lead reads health answers through any
       if (email !== 'admin@plinth.test') expect(buildsAnswered, 'the appliance build routes answered production staff').toBeGreaterThan(5);
       // …and the replies were really read (a performer's name appears somewhere).
       expect(sawPerformer).toBe(true);
-    });
+      // Every read route × every real id is a few thousand requests: allow it time (speed is measured by the bench, not here).
+    }, 180_000);
   }
 
   it('the same sweep finds the answers for the lead (so the check can fail)', async () => {
@@ -129,5 +154,8 @@ describe('no staff role but the designated lead reads health answers through any
       if (medicalTexts.some((m) => res.text.includes(m))) found = true;
     }
     expect(found).toBe(true);
+    const test = await request(t.app).get(`/api/patch-tests/${ids.id!.at(-1)}`).set('Cookie', cookie);
+    expect(test.text).toContain('Blistering behind the ear noted at the check');
+    expect(test.text).toMatch(/"code":"\+\+"/);
   });
 });

@@ -65,7 +65,7 @@ describe('session invitations', () => {
 
   it('sends the performer and the designated lead a REQUEST with no health detail in it', async () => {
     const before = await mailFiles();
-    const res = await request(t.app).post('/api/bookings').set('Cookie', head).send({ performerId: juno, productionId: production, purpose: 'patch_test', startsAt: startsAt.toISOString(), location: 'Make-up room 2' });
+    const res = await request(t.app).post('/api/bookings').set('Cookie', head).send({ performerId: juno, productionId: production, purpose: 'application', startsAt: startsAt.toISOString(), location: 'Make-up room 2' });
     expect(res.status).toBe(201);
     expect(res.body.sequence).toBe(0);
     bookingId = res.body.id;
@@ -141,6 +141,12 @@ describe('session invitations', () => {
     }
     const again = await request(t.app).post(`/api/bookings/${bookingId}/reschedule`).set('Cookie', head).send({ startsAt: new Date(Date.now() + 9 * 86_400_000).toISOString(), sequence: 2 });
     expect(again.status).toBe(409);
+  });
+
+  it('leaves patch tests to their own page: a bare patch-test session is refused, naming where to book it', async () => {
+    const res = await request(t.app).post('/api/bookings').set('Cookie', head).send({ performerId: juno, productionId: production, purpose: 'patch_test', startsAt: new Date(Date.now() + 4 * 86_400_000).toISOString() });
+    expect(res.status).toBe(400);
+    expect(ErrorBodySchema.parse(res.body).error.details?.fields?.purpose?.[0]).toMatch(/Patch tests section/);
   });
 
   it('invites only a confirmed address: an unconfirmed performer gets nothing, the lead still does', async () => {

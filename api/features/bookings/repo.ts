@@ -62,9 +62,9 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
 export async function findBookingForChange(
   db: Db,
   id: string,
-): Promise<{ id: string; productionId: string; status: BookingRow['status']; sequence: number; startsAt: Date; location: string | null } | undefined> {
-  const r = await db.selectFrom('bookings').select(['id', 'production_id', 'status', 'invitation_sequence', 'starts_at', 'location']).where('id', '=', id).forUpdate().executeTakeFirst();
-  return r ? { id: r.id, productionId: r.production_id, status: r.status, sequence: r.invitation_sequence, startsAt: new Date(r.starts_at), location: r.location } : undefined;
+): Promise<{ id: string; productionId: string; purpose: BookingPurpose; status: BookingRow['status']; sequence: number; startsAt: Date; location: string | null } | undefined> {
+  const r = await db.selectFrom('bookings').select(['id', 'production_id', 'purpose', 'status', 'invitation_sequence', 'starts_at', 'location']).where('id', '=', id).forUpdate().executeTakeFirst();
+  return r ? { id: r.id, productionId: r.production_id, purpose: r.purpose, status: r.status, sequence: r.invitation_sequence, startsAt: new Date(r.starts_at), location: r.location } : undefined;
 }
 
 export async function findBookingProduction(db: Db, id: string): Promise<string | undefined> {
@@ -140,4 +140,9 @@ export async function bumpInvitationSequence(db: Db, id: string): Promise<number
 /** Moves a booked session; the caller holds the row (`findBookingForChange`). */
 export async function moveBooking(db: Db, id: string, v: { startsAt: Date; location: string | null }): Promise<void> {
   await db.updateTable('bookings').set({ starts_at: v.startsAt, location: v.location }).where('id', '=', id).execute();
+}
+
+/** Moves a booked session to another time or place. */
+export async function setBookingTime(db: Db, id: string, startsAt: Date, location: string | null): Promise<void> {
+  await db.updateTable('bookings').set({ starts_at: startsAt, location }).where('id', '=', id).execute();
 }

@@ -28,6 +28,7 @@ async function bookingById(db: Db, id: string): Promise<Booking> {
 
 export async function createBooking(ctx: AppContext, actor: Actor, input: CreateBookingInput, req: Request): Promise<Booking> {
   authorize(actor, 'sessions.book', { productionId: input.productionId });
+  if (input.purpose === 'patch_test') throw invalid({ purpose: ["Book a patch test from the performer's Patch tests section, with its products and sites."] });
   if (!(await isEngagedOn(ctx.db, input.performerId, input.productionId))) throw invalid({ performerId: ['This performer is not engaged on this production.'] });
   const startsAt = new Date(input.startsAt);
   if (startsAt.getTime() < Date.now() - 60_000) throw invalid({ startsAt: ['Choose a time that has not passed'] });
@@ -51,6 +52,7 @@ export async function rescheduleBooking(ctx: AppContext, actor: Actor, id: strin
     const b = await findBookingForChange(trx, id);
     if (!b) throw notFound('That booking');
     if (b.status !== 'booked') throw conflict('Only a booked session can be moved.');
+    if (b.purpose === 'patch_test') throw conflict('A patch test is moved from its own page, so its sites and readings move with it.');
     if (b.sequence !== input.sequence) throw conflict('Someone changed this session after you opened it. Reload it to see the latest time.');
     const location = input.location === undefined ? b.location : input.location || null;
     await moveBooking(trx, id, { startsAt, location });
@@ -69,6 +71,7 @@ export async function cancelBooking(ctx: AppContext, actor: Actor, id: string, r
     const b = await findBookingForChange(trx, id);
     if (!b) throw notFound('That booking');
     if (b.status !== 'booked') throw conflict('Only a booked session can be cancelled.');
+    if (b.purpose === 'patch_test') throw conflict('A patch test is cancelled from its own page, so its record closes with it.');
     await setBookingStatus(trx, id, 'cancelled');
     await bumpInvitationSequence(trx, id);
     await writeAudit(trx, { actorUserId: actor.userId, action: 'booking.cancel', entityType: 'booking', entityId: id, productionId: b.productionId, req });

@@ -7,6 +7,7 @@ import { listBookings } from '../bookings/index.ts';
 import { piecesShortTask } from '../builds/index.ts';
 import { BOOKING_PURPOSE_LABELS } from '#shared/domain/bookings.ts';
 import { countActiveConsents, countExpiringForProduction, countOpenLinkRequests, listOpenRequestsForPerformer } from '../consents/index.ts';
+import { headPatchTestTasks, leadReadingTasks } from '../patch-tests/index.ts';
 import { countEngagedNow } from '../performers/index.ts';
 import { countProductionsWithoutLead } from '../productions/index.ts';
 import { countUsersWithoutAccess } from '../users/index.ts';
@@ -115,6 +116,9 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
       href: '/performers',
     });
     tasks.push(await piecesShortTask(ctx.db, seat.productionId));
+    const now = new Date();
+    if (seat.role === 'lead') tasks.unshift(...(await leadReadingTasks(ctx.db, seat.productionId, now, ctx.config.timeZone)));
+    tasks.push(...(await headPatchTestTasks(ctx.db, seat.productionId, now)));
     return tasks;
   }
   return [];

@@ -4,12 +4,13 @@ import { useForm, useWatch } from 'react-hook-form';
 import { z } from 'zod';
 import { BOOKING_PURPOSES, consentKindNeeded, type BookingPurpose } from '#shared/domain/bookings.ts';
 import { CreateBookingInputSchema } from '#shared/schemas/bookings.ts';
-import { Button } from '../../../components/ui/button.tsx';
+import { Button, ButtonLink } from '../../../components/ui/button.tsx';
 import { FormError } from '../../../components/ui/form-error.tsx';
 import { SelectField } from '../../../components/ui/select-field.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { formatDateTime } from '../../../lib/format.ts';
+import { paths } from '../../../lib/paths.ts';
 import { Caution } from '../../../components/consent/caution.tsx';
 import { useCreateBooking } from '../api.ts';
 import { BOOKING_PURPOSE_LABELS } from './purpose.ts';
@@ -68,12 +69,19 @@ export function BookingForm({ performerId, productionId }: { performerId: string
       </div>
       {(BOOKING_PURPOSES as readonly string[]).includes(purpose) ? <Caution kind={consentKindNeeded(purpose)} /> : null}
       <FormError messages={formError} />
-      <div className="flex flex-wrap items-center gap-4">
-        <Button type="submit" pending={create.isPending} pendingLabel="Booking…">
-          Book the session
-        </Button>
-        {booked ? <output className="font-semibold text-sage-800">{booked}</output> : null}
-      </div>
+      {purpose === 'patch_test' ? (
+        <div className="flex flex-wrap items-center gap-4">
+          <p className="text-graphite-700">A patch test is booked with its products, lots and test sites.</p>
+          <ButtonLink to={paths.bookPatchTest.href(performerId)}>Book a patch test</ButtonLink>
+        </div>
+      ) : (
+        <div className="flex flex-wrap items-center gap-4">
+          <Button type="submit" pending={create.isPending} pendingLabel="Booking…">
+            Book the session
+          </Button>
+          {booked ? <output className="font-semibold text-sage-800">{booked}</output> : null}
+        </div>
+      )}
     </form>
   );
 }

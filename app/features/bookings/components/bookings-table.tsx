@@ -88,7 +88,11 @@ export function BookingsTable({ bookings, caption, showPerformer = false, canCan
               </Td>
               {canCancel ? (
                 <Td className="text-right">
-                  {b.status === 'booked' ? (
+                  {b.status === 'booked' && b.purpose === 'patch_test' ? (
+                    <Link to={paths.patchTest.href(b.id)} className="inline-flex min-h-11 items-center font-semibold">
+                      Open the test
+                    </Link>
+                  ) : b.status === 'booked' ? (
                     <span className="inline-flex flex-wrap justify-end gap-2">
                     <Button variant="secondary" aria-label={`Move the ${BOOKING_PURPOSE_LABELS[b.purpose].toLowerCase()} of ${b.performerName} on ${formatDateTime(b.startsAt)}`} onClick={() => setMoving(b)}>
                       Move

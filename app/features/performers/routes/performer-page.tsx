@@ -16,6 +16,7 @@ import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { PerformerCasts } from '../../archive/index.ts';
 import { PerformerBuilds } from '../../builds/index.ts';
+import { PerformerPatchTests } from '../../patch-tests/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
@@ -25,7 +26,7 @@ import { HealthReads } from '../components/health-reads.tsx';
 import { LinkedAccount } from '../components/linked-account.tsx';
 import { displayName } from '../components/names.tsx';
 import { PortraitPanel } from '../components/portrait-panel.tsx';
-import { ClearancePlaceholder, ConsentSummaryLine, EngagementLine } from '../components/record-summary.tsx';
+import { ConsentSummaryLine, EngagementLine } from '../components/record-summary.tsx';
 import { seatProduction } from '../../../lib/session/seat-production.ts';
 
 export async function performerLoader({ params }: LoaderFunctionArgs) {
@@ -154,10 +155,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
       </PageAnchor>
 
       <PageAnchor id="clearances">
-        {/* The patch-test log fills this section; until then it says every product counts as Untested. */}
-        <Section title="Patch tests and clearances" testId="clearances-section">
-          <ClearancePlaceholder name={isSelf ? 'you' : name} />
-        </Section>
+        <PerformerPatchTests performerId={p.id} isSelf={isSelf} />
       </PageAnchor>
 
       <PageAnchor id="casts">

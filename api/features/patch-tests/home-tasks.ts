@@ -1,0 +1,68 @@
+import type { Protocol } from '#shared/domain/protocols.ts';
+import { dueNowReadings, overdueReadings, readingsOpeningWithin, type ReadingTask } from '#shared/domain/reading-schedule.ts';
+import type { Db } from '../../db/index.ts';
+import { findProtocolVersions } from '../protocols/index.ts';
+import { listTestRows, type TestRow } from './repo.ts';
+import { listTestSummaries } from './view.ts';
+
+const DAY = 86_400_000;
+
+interface HomeTask {
+  id: string;
+  title: string;
+  detail: string;
+  count: number;
+  href: string | null;
+}
+
+/** A test under reading with the protocol it was booked on, as the reading lists and the reminder job read it. */
+export type TestUnderReadingRow = TestRow & { protocol: Protocol };
+
+/** Every test under reading (of one production, or all), each with its protocol: two queries. */
+export async function testsUnderReading(db: Db, productionId?: string): Promise<TestUnderReadingRow[]> {
+  const rows = await listTestRows(db, { productionId, statuses: ['applied'] });
+  const protocols = await findProtocolVersions(
+    db,
+    rows.map((r) => r.protocolVersionId),
+  );
+  return rows.map((r) => ({ ...r, protocol: protocols.get(r.protocolVersionId)!.protocol }));
+}
+
+/** The lead's three reading lists: open now, opening within a day, and overdue. */
+export async function readingLists(db: Db, productionId: string | undefined, now: Date, timeZone: string) {
+  const tests = await testsUnderReading(db, productionId);
+  return {
+    dueNow: dueNowReadings(tests, now, timeZone),
+    upcoming: readingsOpeningWithin(tests, now, 24 * 60, timeZone),
+    overdue: overdueReadings(tests, now, timeZone),
+  };
+}
+
+function names(tasks: readonly ReadingTask<TestUnderReadingRow>[], empty: string): string {
+  if (tasks.length === 0) return empty;
+  return tasks.slice(0, 3).map((t) => `${t.test.performerName}: ${t.reading.label}`).join(', ') + (tasks.length > 3 ? '…' : '');
+}
+
+/** The lead's home: readings due now, opening within a day, and overdue, each linking to the first test. */
+export async function leadReadingTasks(db: Db, productionId: string, now: Date, timeZone: string): Promise<HomeTask[]> {
+  const { dueNow, upcoming, overdue } = await readingLists(db, productionId, now, timeZone);
+  const href = (list: readonly ReadingTask<TestUnderReadingRow>[]) => (list[0] ? `/patch-tests/${list[0].test.id}` : null);
+  return [
+    { id: 'readings-due-now', title: 'Readings due now', detail: names(dueNow, 'No reading window is open right now.'), count: dueNow.length, href: href(dueNow) },
+    { id: 'readings-overdue', title: 'Overdue readings', detail: names(overdue, 'No reading is overdue.'), count: overdue.length, href: href(overdue) },
+    { id: 'readings-upcoming', title: 'Readings opening within a day', detail: names(upcoming, 'No reading window opens in the next 24 hours.'), count: upcoming.length, href: href(upcoming) },
+  ];
+}
+
+/** The head's home: booked tests waiting for a consent, and tests booked this week (next seven days). */
+export async function headPatchTestTasks(db: Db, productionId: string, now: Date): Promise<HomeTask[]> {
+  const booked = await listTestSummaries(db, { productionId, statuses: ['booked'], startsFrom: new Date(now.getTime() - DAY) });
+  const waiting = booked.filter((t) => t.consentMissing);
+  const week = booked.filter((t) => new Date(t.startsAt).getTime() < now.getTime() + 7 * DAY);
+  const list = (tests: typeof booked, empty: string) =>
+    tests.length ? tests.slice(0, 3).map((t) => `${t.performerName} (${t.startsAt.slice(0, 10)})`).join(', ') + (tests.length > 3 ? '…' : '') : empty;
+  return [
+    { id: 'patch-tests-need-consent', title: 'Patch tests waiting for a consent', detail: list(waiting, 'Every booked test has its patch-testing consent.'), count: waiting.length, href: waiting[0] ? `/patch-tests/${waiting[0].id}` : null },
+    { id: 'patch-tests-this-week', title: 'Patch tests this week', detail: list(week, 'No patch test is booked in the next seven days.'), count: week.length, href: week[0] ? `/patch-tests/${week[0].id}` : null },
+  ];
+}

@@ -1,0 +1,5 @@
+// What other features may use of patch tests; everything else here is the feature's own.
+// A performer's clearance per product (the artist's check reads it), from a fixed number of queries.
+export { performerClearances, type PerformerClearancesQuery } from './clearance-loader.ts';
+// The homes' patch-test lists, and what a reminder job reads: tests under reading with their protocols.
+export { headPatchTestTasks, leadReadingTasks, readingLists, testsUnderReading, type TestUnderReadingRow } from './home-tasks.ts';

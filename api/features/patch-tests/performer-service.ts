@@ -1,0 +1,91 @@
+import type { Request } from 'express';
+import { productOutcome } from '#shared/domain/test-outcome.ts';
+import { type Actor, can } from '#shared/policy.ts';
+import type { ClearanceRow, OverrideInput, PerformerPatchTests } from '#shared/schemas/patch-test-log.ts';
+import type { AppContext } from '../../context.ts';
+import { recordEvent, writeAudit } from '../../http/audit.ts';
+import { authorize } from '../../http/authorize.ts';
+import { invalid, notFound } from '../../http/errors.ts';
+import { findPerformerScope } from '../performers/index.ts';
+import { loadClearanceFacts } from './clearance-loader.ts';
+import { insertOverride, listOverrideNotes } from './repo.ts';
+import { listTestSummaries } from './view.ts';
+
+async function scopeFor(ctx: AppContext, actor: Actor, performerId: string) {
+  const scope = await findPerformerScope(ctx.db, performerId);
+  if (!scope) throw notFound('That performer');
+  const resource = { performerId, performerProductionIds: scope.productionIds };
+  authorize(actor, 'patchtests.read', resource);
+  return { scope, resource };
+}
+
+/**
+ * A performer's tests (timeline) and clearance per product. Staff without medical access get states,
+ * reasons and validity only; the lead and the performer also get the latest outcome of each tested
+ * product and the override notes, and that read is audited.
+ */
+export async function performerPatchTests(ctx: AppContext, actor: Actor, performerId: string, req: Request): Promise<PerformerPatchTests> {
+  const { scope, resource } = await scopeFor(ctx, actor, performerId);
+  const isSelf = actor.performerIds.includes(performerId);
+  const visible = isSelf ? scope.productionIds : scope.productionIds.filter((productionId) => can(actor, 'patchtests.read', { productionId }));
+  const medical = can(actor, 'medical.read', resource);
+  const now = new Date();
+  const [tests, facts, notes] = await Promise.all([
+    listTestSummaries(ctx.db, { performerId, productionIds: visible }),
+    loadClearanceFacts(ctx.db, { performerId, now }),
+    medical ? listOverrideNotes(ctx.db, performerId) : Promise.resolve(null),
+  ]);
+  const tested = new Set(facts.tested.map((t) => t.formulationId));
+  const clearances: ClearanceRow[] = facts.results
+    // A table of what matters for this performer: products tested, or answered by something other than "not tested".
+    .filter((r) => tested.has(r.formulationId) || r.overridden || r.reasons[0]?.code !== 'not_tested' || r.state !== 'untested')
+    .map((r) => {
+      const row: ClearanceRow = {
+        productId: r.productId,
+        productName: r.productName,
+        formulationId: r.formulationId,
+        state: r.state,
+        reasons: r.reasons,
+        validUntil: r.validUntil?.toISOString() ?? null,
+        retestAdvised: r.retestAdvised,
+        overridden: r.overridden,
+        override: r.override ? { state: r.override.state, by: r.override.by, at: r.override.at.toISOString(), ...(notes ? { note: notes.get(r.formulationId) ?? '' } : {}) } : null,
+        computedState: r.computedState,
+      };
+      if (medical) {
+        const latest = facts.tested.filter((t) => t.formulationId === r.formulationId && t.readings.length > 0).at(-1);
+        if (latest) {
+          const o = productOutcome(latest.readings);
+          row.outcome = { strongest: o.strongest, final: o.final, pattern: o.pattern };
+        }
+      }
+      return row;
+    });
+  if (medical) {
+    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId, entityType: 'patch_tests', entityId: performerId, req, details: { performerId } });
+  }
+  return {
+    tests: tests.toReversed(),
+    clearances,
+    medical,
+    canBook: scope.productionIds.some((productionId) => can(actor, 'patchtests.book', { productionId })),
+    canOverride: scope.productionIds.some((productionId) => can(actor, 'clearance.override', { productionId })),
+  };
+}
+
+/** The lead's override of one formulation's clearance, with a required note (sealed), audited. */
+export async function overrideClearance(ctx: AppContext, actor: Actor, performerId: string, input: OverrideInput, req: Request): Promise<PerformerPatchTests> {
+  const scope = await findPerformerScope(ctx.db, performerId);
+  if (!scope) throw notFound('That performer');
+  const productionId = scope.productionIds.find((p) => can(actor, 'clearance.override', { productionId: p }));
+  authorize(actor, 'clearance.override', { performerId, productionId: productionId ?? scope.productionIds[0] ?? null });
+  const expiresAt = input.expiresAt ? new Date(input.expiresAt) : null;
+  if (expiresAt && expiresAt.getTime() <= Date.now()) throw invalid({ expiresAt: ['Choose an end date that has not passed'] });
+  const known = await loadClearanceFacts(ctx.db, { performerId, now: new Date() });
+  if (!known.formulations.has(input.formulationId)) throw invalid({ formulationId: ['That product formulation is not in the catalogue.'] });
+  await ctx.db.transaction().execute(async (trx) => {
+    const id = await insertOverride(trx, { performerId, productionId: productionId!, formulationId: input.formulationId, state: input.state, note: input.note, expiresAt, setBy: actor.userId });
+    await writeAudit(trx, { actorUserId: actor.userId, action: 'clearance.override', performerId, entityType: 'clearance_override', entityId: id, productionId, req, details: { formulationId: input.formulationId, state: input.state } });
+  });
+  return performerPatchTests(ctx, actor, performerId, req);
+}

@@ -1,0 +1,100 @@
+import { sessionsMissingConsent } from '#shared/domain/bookings.ts';
+import { readingSchedule } from '#shared/domain/reading-schedule.ts';
+import { productOutcome } from '#shared/domain/test-outcome.ts';
+import type { PatchTestDetail, PatchTestSummary } from '#shared/schemas/patch-test-log.ts';
+import type { ProtocolVersion } from '#shared/schemas/protocols.ts';
+import type { Db } from '../../db/index.ts';
+import { listConsentsForGate } from '../consents/index.ts';
+import { findProtocolVersions } from '../protocols/index.ts';
+import { listReadPoints, listTestProducts, listTestReadings, listTestRows, type TestFilter, type TestRow } from './repo.ts';
+
+/** Tests as lists show them, each with whether it waits for a consent: one query for the tests, one for consents, one for protocols. */
+export async function listTestSummaries(db: Db, where: TestFilter): Promise<PatchTestSummary[]> {
+  const rows = await listTestRows(db, where);
+  return summariesOf(db, rows);
+}
+
+async function summariesOf(db: Db, rows: readonly TestRow[]): Promise<PatchTestSummary[]> {
+  if (rows.length === 0) return [];
+  const [consents, protocols] = await Promise.all([
+    listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]),
+    findProtocolVersions(
+      db,
+      rows.map((r) => r.protocolVersionId),
+    ),
+  ]);
+  const missing = sessionsMissingConsent(
+    rows.map((r) => ({ id: r.id, performerId: r.performerId, productionId: r.productionId, purpose: 'patch_test' as const, startsAt: r.startsAt, status: r.status })),
+    consents,
+  );
+  return rows.map((r) => summaryOf(r, protocols.get(r.protocolVersionId)!, missing.has(r.id)));
+}
+
+function summaryOf(r: TestRow, pv: ProtocolVersion, consentMissing: boolean): PatchTestSummary {
+  return {
+    id: r.id,
+    performerId: r.performerId,
+    performerName: r.performerName,
+    productionId: r.productionId,
+    protocolName: pv.protocol.name,
+    testKind: pv.protocol.kind,
+    status: r.status,
+    startsAt: r.startsAt.toISOString(),
+    location: r.location,
+    appliedAt: r.appliedAt?.toISOString() ?? null,
+    removedAt: r.removedAt?.toISOString() ?? null,
+    closedAt: r.closedAt?.toISOString() ?? null,
+    consentMissing,
+    productCount: r.productCount,
+    version: r.version,
+  };
+}
+
+/**
+ * One test as a screen shows it. Health details (codes, notes, photos, outcomes) are read and included
+ * only when `medical` is true; otherwise each site says only which readings were taken.
+ */
+export async function testDetail(db: Db, row: TestRow, opts: { medical: boolean; now: Date; timeZone: string }): Promise<PatchTestDetail> {
+  const [[summary], products, protocols, readings] = await Promise.all([
+    summariesOf(db, [row]),
+    listTestProducts(db, row.id),
+    findProtocolVersions(db, [row.protocolVersionId]),
+    // The medical flag decides whether the sealed readings are opened at all.
+    opts.medical ? listTestReadings(db, row.id) : Promise.resolve(null),
+  ]);
+  const pv = protocols.get(row.protocolVersionId)!;
+  const start = row.appliedAt ?? row.startsAt;
+  const schedule = readingSchedule(pv.protocol, { appliedAt: start, removedAt: row.removedAt, now: opts.now, timeZone: opts.timeZone }).map((s) => ({
+    ...s,
+    dueAt: s.dueAt.toISOString(),
+    opensAt: s.opensAt.toISOString(),
+    closesAt: s.closesAt.toISOString(),
+    status: row.takenPointIds.includes(s.pointId) ? ('done' as const) : s.status,
+  }));
+  const readPoints = await readPointsBySite(db, row.id, readings);
+  return {
+    ...summary!,
+    protocolVersionId: row.protocolVersionId,
+    schedule,
+    medical: opts.medical,
+    products: products.map((p) => {
+      const mine = readings?.filter((r) => r.testProductId === p.id) ?? [];
+      const base = { ...p, readPointIds: readPoints.get(p.id) ?? [] };
+      if (!readings) return base;
+      const o = productOutcome(mine);
+      return {
+        ...base,
+        readings: mine.map((r) => ({ id: r.id, pointId: r.pointId, readAt: r.readAt.toISOString(), late: r.late, code: r.code, note: r.note, readBy: r.readBy, photos: r.photos })),
+        outcome: { strongest: o.strongest, final: o.final, pattern: o.pattern },
+      };
+    }),
+  };
+}
+
+async function readPointsBySite(db: Db, testId: string, readings: Awaited<ReturnType<typeof listTestReadings>> | null): Promise<Map<string, string[]>> {
+  const out = new Map<string, string[]>();
+  const list = readings ?? (await listReadPoints(db, testId));
+  for (const r of list) (out.get(r.testProductId) ?? out.set(r.testProductId, []).get(r.testProductId)!).push(r.pointId);
+  return out;
+}
+

@@ -1,0 +1,63 @@
+import { useQuery } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
+import { TEST_STATUS_LABELS } from '#shared/domain/reading-schedule.ts';
+import { ButtonLink } from '../../../components/ui/button.tsx';
+import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { QueryView } from '../../../components/ui/query-view.tsx';
+import { Section } from '../../../components/ui/section.tsx';
+import { StatusBadge } from '../../../components/ui/status-badge.tsx';
+import { formatDateTime } from '../../../lib/format.ts';
+import { paths } from '../../../lib/paths.ts';
+import { performerPatchTestsQueryOptions } from '../api.ts';
+import { ScreeningLabel } from './cautions.tsx';
+import { ClearanceTable } from './clearance-table.tsx';
+
+/**
+ * The "Patch tests and clearances" section of a performer's record: a timeline of tests, newest first,
+ * and the clearance of each product that matters for this performer.
+ */
+export function PerformerPatchTests({ performerId, isSelf }: { performerId: string; isSelf: boolean }) {
+  const query = useQuery(performerPatchTestsQueryOptions(performerId));
+  return (
+    <QueryView query={query} loadingLabel="Loading patch tests…">
+      {(data) => (
+        <Section
+          title="Patch tests and clearances"
+          testId="patch-tests-section"
+          actions={
+            data.canBook ? (
+              <ButtonLink variant="secondary" to={paths.bookPatchTest.href(performerId)}>
+                Book a patch test
+              </ButtonLink>
+            ) : null
+          }
+        >
+          <ScreeningLabel />
+          {data.tests.length === 0 ? (
+            <EmptyState title={isSelf ? 'You have not been patch tested yet.' : 'No patch test booked yet.'}>Tests and what they clear appear here.</EmptyState>
+          ) : (
+            <ol className="flex flex-col divide-y divide-sand-200" aria-label="Patch tests, newest first">
+              {data.tests.map((t) => (
+                <li key={t.id} className="flex flex-wrap items-center gap-3 py-2">
+                  <Link to={paths.patchTest.href(t.id)} className="inline-flex min-h-11 items-center font-semibold">
+                    {t.protocolName}, {formatDateTime(t.appliedAt ?? t.startsAt)}
+                  </Link>
+                  <StatusBadge tone={t.status === 'applied' ? 'accent' : t.status === 'cancelled' ? 'neutral' : t.status === 'closed' ? 'good' : 'neutral'}>{TEST_STATUS_LABELS[t.status]}</StatusBadge>
+                  {t.consentMissing ? <StatusBadge tone="warning">Needs consent</StatusBadge> : null}
+                  <span className="text-ink-700">
+                    {t.productCount} product{t.productCount === 1 ? '' : 's'}
+                    {t.location ? `, ${t.location}` : ''}
+                  </span>
+                </li>
+              ))}
+            </ol>
+          )}
+          {data.clearances.length > 0 ? (
+            <ClearanceTable rows={data.clearances} medical={data.medical} performerId={performerId} canOverride={data.canOverride} />
+          ) : null}
+          {!data.medical ? <p className="text-sm text-ink-700">Grades, notes and photos are health details: only the designated lead and the performer see them.</p> : null}
+        </Section>
+      )}
+    </QueryView>
+  );
+}

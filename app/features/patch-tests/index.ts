@@ -1,0 +1,2 @@
+// What other features may use of patch tests on the client.
+export { PerformerPatchTests } from './components/performer-patch-tests.tsx';
