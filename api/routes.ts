@@ -12,6 +12,7 @@ import { bookingRoutes } from './features/bookings/routes.ts';
 import { buildRoutes } from './features/builds/routes.ts';
 import { consentRoutes } from './features/consents/consent-routes.ts';
 import { signingRoutes } from './features/consents/signing-routes.ts';
+import { bundleRoutes } from './features/consents/bundle-routes.ts';
 import { templateRoutes } from './features/consents/template-routes.ts';
 import { productionRoutes } from './features/productions/routes.ts';
 import { ingredientRoutes } from './features/catalogue/ingredient-routes.ts';
@@ -33,6 +34,7 @@ const featureRoutes: AnyRoute[] = [
   ...recordsExportRoutes,
   ...templateRoutes,
   ...signingRoutes,
+  ...bundleRoutes,
   ...consentRoutes,
   ...bookingRoutes,
   ...ingredientRoutes,

@@ -37,6 +37,10 @@ const routes: RouteObject[] = [
         lazy: async () => ({ Component: (await import('./features/consents/routes/sign-link-page.tsx')).SignLinkPage }),
       },
       {
+        path: paths.signBundle.pattern,
+        lazy: async () => ({ Component: (await import('./features/consents/routes/sign-bundle-page.tsx')).SignBundlePage }),
+      },
+      {
         path: paths.withdrawRequest.pattern,
         lazy: async () => ({ Component: (await import('./features/consents/routes/withdraw-request-page.tsx')).WithdrawRequestPage }),
       },

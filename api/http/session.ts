@@ -17,7 +17,14 @@ declare module 'express-session' {
     oidc?: { codeVerifier: string; state: string; nonce: string; returnTo: string; forceLogin?: boolean; startedAt: number };
     current?: { productionId: string | null; role: string };
     /** Set while the department's tablet is handed to a performer: the session can do nothing else. */
-    tablet?: { requestId: string; staffUserId: string; phase: 'signing' | 'handback'; idempotencyKey: string };
+    tablet?: {
+      requestId: string;
+      staffUserId: string;
+      phase: 'signing' | 'handback';
+      idempotencyKey: string;
+      /** A bundle handed over at once: its requests in order, and which one is on screen. */
+      bundle?: { requestIds: string[]; index: number };
+    };
   }
 }
 

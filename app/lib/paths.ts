@@ -85,6 +85,8 @@ export const paths = {
   /** The department's tablet while it is lent to a performer. */
   tablet: { pattern: '/tablet', href: () => '/tablet' },
   signLink: { pattern: '/sign/:token', href: (token: string) => `/sign/${encodeURIComponent(token)}` },
+  /** One e-mailed link that walks through several forms in order. */
+  signBundle: { pattern: '/sign/bundle/:token', href: (token: string) => `/sign/bundle/${encodeURIComponent(token)}` },
   withdrawRequest: { pattern: '/withdraw', href: () => '/withdraw' },
   withdrawLink: { pattern: '/withdraw/:token', href: (token: string) => `/withdraw/${encodeURIComponent(token)}` },
   /** The performer confirms the address staff entered is theirs. */

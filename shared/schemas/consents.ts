@@ -86,6 +86,8 @@ export const TabletStateSchema = z.object({
   phase: z.enum(['signing', 'handback', 'none']),
   form: SigningFormSchema.nullable(),
   idempotencyKey: z.uuid().nullable(),
+  /** Where this form stands in a bundle handed over at once (absent for a single form). */
+  progress: z.object({ position: z.number().int().min(1), total: z.number().int().min(1) }).optional(),
 });
 export type TabletState = z.infer<typeof TabletStateSchema>;
 

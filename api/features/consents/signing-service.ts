@@ -13,7 +13,7 @@ import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
 import { findConsentByIdempotencyKey, insertConsent } from './consent-repo.ts';
 import { lockRequestStatus, markRequestSigned } from './request-repo.ts';
-import { findTemplateVersion, type TemplateVersionRow } from './template-repo.ts';
+import { findTemplateVersion, isTemplateSendable, type TemplateVersionRow } from './template-repo.ts';
 import { acceptSignature } from './signature.ts';
 import { findConfirmedEmail, findPerformerScope } from '../performers/index.ts';
 import { findProductionName } from '../productions/index.ts';
@@ -170,6 +170,9 @@ export async function submitSignature(
   if (request.status === 'cancelled') throw conflict('This signing request was withdrawn by the department.', { reason: 'cancelled' });
   if (request.expiresAt.getTime() <= Date.now()) throw conflict('This signing request has expired. Ask the department for a new one.', { reason: 'expired' });
 
+  if (!(await isTemplateSendable(ctx.db, request.templateId))) {
+    throw conflict('The department took this form out of use after sending it, so it can no longer be signed. Nothing was saved.', { reason: 'archived' });
+  }
   const template = await findTemplateVersion(ctx.db, input.templateVersionId);
   // The performer signs the version they were shown, even if the template was edited meanwhile.
   if (!template || template.templateId !== request.templateId) throw invalid({ templateVersionId: ['This is not a version of the requested form.'] });

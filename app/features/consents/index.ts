@@ -1,2 +1,3 @@
 // What other features may use of the consents feature on the client.
 export { handOver, signingRequestsQueryOptions, useCancelSigningRequest, useCreateSigningRequest } from './api.ts';
+export { handOverBundle, useCreateSigningBundle } from './api.ts';
