@@ -97,6 +97,10 @@ const routes: RouteObject[] = [
                         const m = await import('./features/performers/routes/edit-performer-page.tsx');
                         return { Component: m.EditPerformerPage, loader: m.editPerformerLoader };
                       }),
+                      guarded(paths.consentWorklist.pattern, 'consents.request', async () => {
+                        const m = await import('./features/consents/routes/worklist-page.tsx');
+                        return { Component: m.WorklistPage };
+                      }),
                       guarded(paths.consent.pattern, PERFORMER_PAGE_ACTIONS, async () => {
                         const m = await import('./features/consents/routes/consent-page.tsx');
                         return { Component: m.ConsentPage, loader: m.consentLoader };

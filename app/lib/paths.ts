@@ -65,6 +65,8 @@ export const paths = {
   label: { pattern: '/archive/labels/:code', href: (code: string) => `/archive/labels/${encodeURIComponent(code)}` },
   retention: { pattern: '/archive/retention', href: () => '/archive/retention' },
   verify: { pattern: '/verify', href: () => '/verify' },
+  /** Withdrawals since you last looked and, for the lead, health answers to look at. */
+  consentWorklist: { pattern: '/consents/worklist', href: () => '/consents/worklist' },
   catalogue: { pattern: '/catalogue', href: () => '/catalogue' },
   newProduct: { pattern: '/catalogue/new', href: () => '/catalogue/new' },
   product: { pattern: '/catalogue/:id', href: (id: string) => `/catalogue/${encodeURIComponent(id)}` },
@@ -108,6 +110,7 @@ export const serverPaths = {
   /** The filtered registry as CSV, downloaded by the browser. */
   performersCsv: (query: Record<string, string | undefined>) => withSearch('/api/performers/export.csv', query),
   consentPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/pdf`,
+  consentStaffPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/staff-pdf`,
   /** A catalogue product's safety data sheet, downloaded by the browser. */
   safetySheet: (productId: string) => `/api/products/${encodeURIComponent(productId)}/safety-data-sheet`,
   /** A printable sheet of QR labels for these casts and places. */

@@ -13,6 +13,8 @@ export const BookingSchema = z.object({
   location: z.string().nullable(),
   status: z.enum(['booked', 'cancelled', 'done']),
   consentMissing: z.boolean(),
+  /** Missing because the consent that covered it was withdrawn (derived, like consentMissing). */
+  consentWithdrawn: z.boolean().optional(),
 });
 export type Booking = z.infer<typeof BookingSchema>;
 export const CreateBookingInputSchema = z.object({

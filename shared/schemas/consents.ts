@@ -185,6 +185,8 @@ export const VerifyResultSchema = z.object({
   match: z.boolean(),
   /** A match on a production the checker does not work on: Plinth issued it, and says no more. */
   elsewhere: z.boolean(),
+  /** Which of the consent's two files this is: the full signed copy, or the staff copy without health answers. */
+  copy: z.enum(['full', 'staff']).nullable().optional(),
   consent: z
     .object({ id: IdSchema, performerName: z.string(), kind: ConsentKindSchema, title: z.string(), templateVersion: z.number().int(), signedAt: z.iso.datetime(), state: ConsentStateSchema })
     .nullable(),

@@ -81,10 +81,10 @@ describe('the performer registry', () => {
       await expectAccessible(page, 'performers filtered by expiring');
 
       await nav(page).getByRole('link', { name: 'Home' }).click();
-      await page.getByRole('link', { name: 'Upcoming sessions missing a consent' }).click();
+      await page.getByRole('link', { name: 'Sessions waiting for consent' }).click();
       await page.waitForURL(/\/bookings$/);
       const row = page.getByTestId('bookings-table').getByRole('row').filter({ hasText: 'Oz Parfitt' });
-      await row.getByText('Consent missing').waitFor();
+      await row.getByText('Waiting for consent').waitFor();
       expect(await row.textContent()).toContain('Life cast');
       await expectAccessible(page, 'sessions');
     } finally {

@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import { type ConsentForGate, sessionsMissingConsent } from '#shared/domain/bookings.ts';
+import { type ConsentForGate, sessionsMissingConsent, sessionsWithWithdrawnConsent } from '#shared/domain/bookings.ts';
 import type { Actor } from '#shared/policy.ts';
 import type { Booking, CreateBookingInput } from '#shared/schemas/bookings.ts';
 import type { AppContext } from '../../context.ts';
@@ -16,7 +16,8 @@ export async function listBookings(db: Db, where: BookingFilter): Promise<Bookin
   const rows = await listBookingRows(db, where);
   const consents = await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
   const missing = sessionsMissingConsent(rows, consents);
-  return rows.map((r) => ({ ...r, startsAt: r.startsAt.toISOString(), consentMissing: missing.has(r.id) }));
+  const withdrawn = sessionsWithWithdrawnConsent(rows, consents);
+  return rows.map((r) => ({ ...r, startsAt: r.startsAt.toISOString(), consentMissing: missing.has(r.id), consentWithdrawn: withdrawn.has(r.id) }));
 }
 
 async function bookingById(db: Db, id: string): Promise<Booking> {
@@ -58,5 +59,6 @@ export function bookingsFromJson(rows: readonly BookingJsonRow[], performer: { i
     .filter((r) => showsProduction(r.production_id))
     .map((r) => ({ id: r.id, performerId: performer.id, performerName: performer.name, productionId: r.production_id, purpose: r.purpose, startsAt: new Date(r.starts_at), location: r.location, status: r.status }));
   const missing = sessionsMissingConsent(sessions, consents);
-  return sessions.map((s) => ({ ...s, startsAt: s.startsAt.toISOString(), consentMissing: missing.has(s.id) }));
+  const withdrawn = sessionsWithWithdrawnConsent(sessions, consents);
+  return sessions.map((s) => ({ ...s, startsAt: s.startsAt.toISOString(), consentMissing: missing.has(s.id), consentWithdrawn: withdrawn.has(s.id) }));
 }

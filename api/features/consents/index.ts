@@ -4,3 +4,4 @@ export { countOpenLinkRequests } from './request-repo.ts';
 export { writeSignedConsent } from './signing-service.ts';
 export { findCurrentTemplateVersion } from './template-repo.ts';
 export { findConsentDetailRow, listConsentAnswers } from './consent-repo.ts';
+export { countNewWithdrawals } from './notice-service.ts';

@@ -5,7 +5,8 @@ import type { AppContext } from '../../context.ts';
 import { archivistTasks } from '../archive/index.ts';
 import { listBookings } from '../bookings/index.ts';
 import { piecesShortTask } from '../builds/index.ts';
-import { countActiveConsents, countExpiringForProduction, countOpenLinkRequests } from '../consents/index.ts';
+import { countActiveConsents, countExpiringForProduction, countNewWithdrawals, countOpenLinkRequests } from '../consents/index.ts';
+import { dateTimeInWords } from '#shared/domain/words.ts';
 import { countEngagedNow } from '../performers/index.ts';
 import { countProductionsWithoutLead } from '../productions/index.ts';
 import { countUsersWithoutAccess } from '../users/index.ts';
@@ -13,16 +14,25 @@ import { countUsersWithoutAccess } from '../users/index.ts';
 const DAY = 86_400_000;
 type Task = Home['tasks'][number];
 
-async function consentTasks(ctx: AppContext, productionId: string): Promise<Task[]> {
+async function consentTasks(ctx: AppContext, actor: Actor, productionId: string): Promise<Task[]> {
   const now = new Date();
   const until = new Date(now.getTime() + 30 * DAY);
-  const [expiring, upcoming, waiting] = await Promise.all([
+  const [expiring, upcoming, waiting, withdrawn] = await Promise.all([
     countExpiringForProduction(ctx.db, productionId, now, until),
-    listBookings(ctx.db, { productionId, from: now, to: until }),
+    // Every upcoming session waiting for consent stays listed until it is signed (or the session is cancelled).
+    listBookings(ctx.db, { productionId, from: now }),
     countOpenLinkRequests(ctx.db, productionId, now),
+    countNewWithdrawals(ctx, actor.userId, productionId),
   ]);
   const missing = upcoming.filter((b) => b.status === 'booked' && b.consentMissing);
   return [
+    {
+      id: 'withdrawn-since-last-look',
+      title: 'Withdrawn since you last looked',
+      detail: withdrawn ? 'Consents performers withdrew, and the sessions each leaves waiting.' : 'No consent was withdrawn since you last looked.',
+      count: withdrawn,
+      href: '/consents/worklist',
+    },
     {
       id: 'consents-expiring',
       title: 'Consents expiring within 30 days',
@@ -32,10 +42,10 @@ async function consentTasks(ctx: AppContext, productionId: string): Promise<Task
     },
     {
       id: 'bookings-missing-consent',
-      title: 'Upcoming sessions missing a consent',
+      title: 'Sessions waiting for consent',
       detail: missing.length
-        ? missing.slice(0, 3).map((b) => `${b.performerName} (${new Date(b.startsAt).toISOString().slice(0, 10)})`).join(', ') + (missing.length > 3 ? '…' : '')
-        : 'Every booked session in the next 30 days has the consent it needs.',
+        ? missing.slice(0, 3).map((b) => `${b.performerName} (${dateTimeInWords(new Date(b.startsAt), ctx.config.timeZone)}${b.consentWithdrawn ? ', consent withdrawn' : ''})`).join('; ') + (missing.length > 3 ? '…' : '')
+        : 'Every booked session has the consent it needs.',
       count: missing.length,
       href: '/bookings',
     },
@@ -79,7 +89,7 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
   }
   if (seat.role === 'archivist') return archivistTasks(ctx.db, actor);
   if (seat.role === 'head' || seat.role === 'lead') {
-    const tasks = await consentTasks(ctx, seat.productionId);
+    const tasks = await consentTasks(ctx, actor, seat.productionId);
     tasks.push({
       id: 'performers-engaged',
       title: 'Performers engaged',

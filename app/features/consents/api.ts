@@ -16,6 +16,7 @@ import {
   type TabletState,
   type SubmitSignatureInput,
 } from '#shared/schemas/consents.ts';
+import { HealthSummarySchema, HealthWorklistSchema, WithdrawalNoticeListSchema } from '#shared/schemas/consent-notices.ts';
 import { BundleLinkViewSchema, SigningBundleSchema, type CreateSigningBundleInput } from '#shared/schemas/consent-bundles.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
 import { consentsKey, homeKey, performersKey, signingLinkKey, signingRequestsKey, tabletKey, withdrawalLinkKey, invalidate } from '../../lib/query-keys.ts';
@@ -170,4 +171,43 @@ export function signingBundleLinkQueryOptions(token: string) {
 
 export function submitBundleForm(token: string, requestId: string, input: SubmitSignatureInput) {
   return api.post(`/api/signing-bundles/link/${encodeURIComponent(token)}/requests/${encodeURIComponent(requestId)}`, input, SubmitSignatureResultSchema);
+}
+
+// ---- the department's consent worklist
+
+export function withdrawalNoticesQueryOptions(productionId: string) {
+  return queryOptions({
+    queryKey: [...consentsKey, 'withdrawal-notices', productionId] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/consent-notices/withdrawals', { productionId }), WithdrawalNoticeListSchema, signal),
+  });
+}
+
+export function useMarkWithdrawalsSeen() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { productionId: string; seenAt: string }) => api.post('/api/consent-notices/withdrawals/seen', input, OkSchema),
+    onSuccess: () => invalidate(queryClient, [consentsKey, homeKey]),
+  });
+}
+
+export function healthWorklistQueryOptions(productionId: string) {
+  return queryOptions({
+    queryKey: [...consentsKey, 'health-worklist', productionId] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/consent-notices/health', { productionId }), HealthWorklistSchema, signal),
+  });
+}
+
+export function useConfirmHealthReview() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { performerId: string; productionId: string; reviewedAt: string }) => api.post('/api/consent-notices/health/reviews', input, OkSchema),
+    onSuccess: () => invalidate(queryClient, [consentsKey, homeKey]),
+  });
+}
+
+export function healthSummaryQueryOptions(performerId: string) {
+  return queryOptions({
+    queryKey: [...consentsKey, 'health-summary', performerId] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/consent-notices/health-summary', { performerId }), HealthSummarySchema, signal),
+  });
 }

@@ -12,16 +12,20 @@ import { BOOKING_PURPOSE_LABELS, neededConsentLabel } from './purpose.ts';
 
 const STATUS_LABELS: Record<Booking['status'], string> = { booked: 'Booked', cancelled: 'Cancelled', done: 'Done' };
 
-/** "Consent missing" in words and with its mark, naming the consent the session needs. */
+/** "Waiting for consent" (or "Consent withdrawn") in words and with its mark, naming the consent the session needs. */
 export function ConsentGate({ booking: b }: { booking: Booking }) {
   if (b.status !== 'booked') return <span className="text-ink-600">{STATUS_LABELS[b.status]}</span>;
   if (b.consentMissing) {
     return (
-      <span className="flex flex-col items-start gap-0.5" data-testid="consent-missing">
+      <span className="flex flex-col items-start gap-0.5" data-testid="consent-missing" data-withdrawn={b.consentWithdrawn ? 'true' : undefined}>
         <IconBadge icon="warning" tone="danger">
-          Consent missing
+          {b.consentWithdrawn ? 'Consent withdrawn' : 'Waiting for consent'}
         </IconBadge>
-        <span className="text-sm text-ink-700">Needs an active {neededConsentLabel(b.purpose).toLowerCase()} when it starts.</span>
+        <span className="text-sm text-ink-700">
+          {b.consentWithdrawn ? 'The performer withdrew the ' : 'Needs an active '}
+          {neededConsentLabel(b.purpose).toLowerCase()}
+          {b.consentWithdrawn ? ' this session needed. Do not go ahead until they sign again.' : ' when it starts.'}
+        </span>
       </span>
     );
   }

@@ -17,6 +17,7 @@ import { prefetchFor } from '../../../lib/prefetch.ts';
 import { PerformerCasts } from '../../archive/index.ts';
 import { PerformerBuilds } from '../../builds/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
+import { HealthSummarySection } from '../../consents/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { performerQueryOptions, useResendConfirmation } from '../api.ts';
@@ -151,6 +152,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
       </Section>
 
       <ConsentsSection performer={p} requestOn={requestOn} />
+      {seatCan(session, 'medical.read') && !isSelf ? <HealthSummarySection performerId={p.id} /> : null}
 
       <Section title="Sessions" testId="sessions-section">
         {bookings.length === 0 ? (
