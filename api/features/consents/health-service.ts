@@ -24,7 +24,8 @@ function toAnswer(r: HealthAnswerRow): HealthAnswer {
 
 /** The lead's look at a production: health answers that need it, per performer, since the lead last confirmed each. */
 export async function healthWorklist(ctx: AppContext, actor: Actor, productionId: string, req: Request): Promise<HealthWorklist> {
-  authorize(actor, 'medical.read', { performerId: '', performerProductionIds: [productionId] });
+  // The lead's own look at the production: asked of the production alone, so no one passes "as the performer".
+  authorize(actor, 'medical.read', { productionId });
   const readAt = new Date();
   const [rows, reviews] = await Promise.all([listStandingAnswers(ctx.db, { productionId }), listHealthReviews(ctx.db, productionId)]);
   const byPerformer = new Map<string, { performerId: string; performerName: string; reviewedAt: string | null; answers: HealthAnswer[] }>();
@@ -45,7 +46,8 @@ export async function healthWorklist(ctx: AppContext, actor: Actor, productionId
 
 /** The lead confirms having looked at a performer's answers up to a moment; later answers are new again. */
 export async function confirmHealthReview(ctx: AppContext, actor: Actor, input: { performerId: string; productionId: string; reviewedAt: string }, req: Request): Promise<{ ok: true }> {
-  authorize(actor, 'medical.read', { performerId: input.performerId, performerProductionIds: [input.productionId] });
+  // Only the lead confirms: the performer reading their own answers is not the department's review.
+  authorize(actor, 'medical.read', { productionId: input.productionId });
   if (!(await isEngagedOn(ctx.db, input.performerId, input.productionId))) throw invalid({ performerId: ['This performer is not engaged on this production.'] });
   const at = new Date(input.reviewedAt);
   if (at.getTime() > Date.now() + 60_000) throw invalid({ reviewedAt: ['This moment has not come yet'] });

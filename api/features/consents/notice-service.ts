@@ -69,7 +69,7 @@ export async function listWithdrawalNotices(ctx: AppContext, actor: Actor, produ
   authorize(actor, 'consents.request', { productionId });
   const readAt = new Date();
   const since = (await findSeenAt(ctx.db, actor.userId, productionId, 'withdrawals')) ?? new Date(readAt.getTime() - FIRST_LOOK_DAYS * DAY);
-  const reasonsShown = can(actor, 'medical.read', { performerId: '', performerProductionIds: [productionId] });
+  const reasonsShown = can(actor, 'medical.read', { productionId });
   const rows = await listWithdrawalsForProduction(ctx.db, productionId, since, { withReasons: reasonsShown });
   const sessions = rows.length ? (await listBookings(ctx.db, { productionId, from: readAt })).filter((b) => b.consentWithdrawn) : [];
   // A withdrawal reason may speak of health: reading one is a medical read of that performer.
