@@ -122,9 +122,13 @@ describe('the performer registry', () => {
       expect(await booking.getByTestId('caution').textContent()).toContain('Never cover the nostrils or airway.');
       const when = new Date(Date.now() + 7 * 86_400_000);
       const local = `${when.getFullYear()}-${String(when.getMonth() + 1).padStart(2, '0')}-${String(when.getDate()).padStart(2, '0')}T10:30`;
-      await booking.getByLabel('Date and time').fill(local);
+      await booking.getByLabel('Starts').fill(local);
       await booking.getByLabel('Place').fill('Casting workshop');
+      // The gate says at once that the consent is missing, before anything is saved.
+      await booking.getByTestId('booking-gate').waitFor();
       await booking.getByRole('button', { name: 'Book the session' }).click();
+      // Saved as waiting for consent, with the form offered at once.
+      await page.getByTestId('booking-done').getByRole('button', { name: 'Send a link by e-mail' }).waitFor();
       await page.getByTestId('sessions-section').getByTestId('bookings-table').getByText('Casting workshop').waitFor();
       await page.getByTestId('sessions-section').getByTestId('consent-missing').waitFor();
 

@@ -11,6 +11,8 @@ export interface BookingRow {
   startsAt: Date;
   location: string | null;
   status: 'booked' | 'cancelled' | 'done';
+  endsAt?: Date | null;
+  artist?: { id: string; name: string } | null;
 }
 
 export interface BookingFilter {
@@ -29,7 +31,20 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
   let q = db
     .selectFrom('bookings as b')
     .innerJoin('performers as p', 'p.id', 'b.performer_id')
-    .select(['b.id', 'b.performer_id', sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'), 'b.production_id', 'b.purpose', 'b.starts_at', 'b.location', 'b.status']);
+    .leftJoin('users as a', 'a.id', 'b.artist_user_id')
+    .select([
+      'b.id',
+      'b.performer_id',
+      sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
+      'b.production_id',
+      'b.purpose',
+      'b.starts_at',
+      'b.ends_at',
+      'b.location',
+      'b.status',
+      'a.id as artist_id',
+      'a.display_name as artist_name',
+    ]);
   if (where.productionId) q = q.where('b.production_id', '=', where.productionId);
   if (where.productionIds) {
     if (where.productionIds.length === 0) return [];
@@ -53,6 +68,8 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
     startsAt: new Date(r.starts_at),
     location: r.location,
     status: r.status,
+    endsAt: r.ends_at ? new Date(r.ends_at) : null,
+    artist: r.artist_id && r.artist_name ? { id: r.artist_id, name: r.artist_name } : null,
   }));
 }
 
@@ -67,11 +84,20 @@ export async function findBookingProduction(db: Db, id: string): Promise<string 
 
 export async function insertBooking(
   db: Db,
-  v: { performerId: string; productionId: string; purpose: BookingPurpose; startsAt: Date; location: string | null; createdBy: string },
+  v: { performerId: string; productionId: string; purpose: BookingPurpose; startsAt: Date; location: string | null; createdBy: string; endsAt?: Date | null; artistUserId?: string | null },
 ): Promise<string> {
   const row = await db
     .insertInto('bookings')
-    .values({ performer_id: v.performerId, production_id: v.productionId, purpose: v.purpose, starts_at: v.startsAt, location: v.location, created_by: v.createdBy })
+    .values({
+      performer_id: v.performerId,
+      production_id: v.productionId,
+      purpose: v.purpose,
+      starts_at: v.startsAt,
+      location: v.location,
+      created_by: v.createdBy,
+      ends_at: v.endsAt ?? null,
+      artist_user_id: v.artistUserId ?? null,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return row.id;
@@ -89,12 +115,13 @@ export interface BookingJsonRow {
   starts_at: string;
   location: string | null;
   status: BookingRow['status'];
+  ends_at?: string | null;
 }
 
 /** The booked sessions of the performer whose id is `performerId` starting from `from`, in start order, as a JSON array. */
 export function upcomingBookingsJsonSql(performerId: RawBuilder<string>, from: Date): RawBuilder<BookingJsonRow[]> {
   return sql<BookingJsonRow[]>`coalesce((
-    select json_agg(json_build_object('id', b.id, 'production_id', b.production_id, 'purpose', b.purpose, 'starts_at', b.starts_at, 'location', b.location, 'status', b.status) order by b.starts_at, b.id)
+    select json_agg(json_build_object('id', b.id, 'production_id', b.production_id, 'purpose', b.purpose, 'starts_at', b.starts_at, 'ends_at', b.ends_at, 'location', b.location, 'status', b.status) order by b.starts_at, b.id)
     from bookings b where b.performer_id = ${performerId} and b.status = 'booked' and b.starts_at >= ${from}
   ), '[]'::json)`;
 }

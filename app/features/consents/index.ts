@@ -3,3 +3,4 @@ export { handOver, signingRequestsQueryOptions, useCancelSigningRequest, useCrea
 export { handOverBundle, useCreateSigningBundle } from './api.ts';
 export { HealthSummarySection } from './components/health-answers.tsx';
 export { ConsentWorkPanels } from './components/withdrawal-notices.tsx';
+export { SendFormNow } from './components/send-form-now.tsx';
