@@ -203,7 +203,7 @@ describe('links a performer opens without signing in', () => {
       await openPerformer(page, 'beatrix', /Bea Nwachukwu/);
       await page.getByRole('button', { name: 'Ask to sign…' }).click();
       const dialog = page.getByRole('dialog', { name: /Ask .* to sign/ });
-      await dialog.getByRole('radio', { name: /Use of your health information/ }).check();
+      await dialog.getByRole('checkbox', { name: /Use of your health information/ }).check();
       await dialog.getByRole('button', { name: 'Send a link by e-mail' }).click();
       await dialog.getByText('A one-time link is on its way to').waitFor();
       await dialog.getByRole('button', { name: 'Done' }).click();

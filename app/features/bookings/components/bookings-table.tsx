@@ -75,6 +75,11 @@ export function BookingsTable({ bookings, caption, showPerformer = false, canCan
             <Tr key={b.id}>
               <Td className="whitespace-nowrap">
                 <time dateTime={b.startsAt}>{formatDateTime(b.startsAt)}</time>
+                {b.endsAt ? (
+                  <span className="block text-sm text-ink-700">
+                    until <time dateTime={b.endsAt}>{formatDateTime(b.endsAt)}</time>
+                  </span>
+                ) : null}
               </Td>
               <Td className="font-semibold">{BOOKING_PURPOSE_LABELS[b.purpose]}</Td>
               {showPerformer ? (
@@ -84,7 +89,10 @@ export function BookingsTable({ bookings, caption, showPerformer = false, canCan
                   </Link>
                 </Td>
               ) : null}
-              <Td>{b.location ?? <span className="text-ink-600">Not set</span>}</Td>
+              <Td>
+                {b.location ?? <span className="text-ink-600">Not set</span>}
+                {b.artist ? <span className="block text-sm text-ink-700">Artist: {b.artist.name}</span> : null}
+              </Td>
               <Td>
                 <ConsentGate booking={b} />
               </Td>
