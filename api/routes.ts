@@ -13,6 +13,8 @@ import { patchTestRoutes } from './features/patch-tests/routes.ts';
 import { buildRoutes } from './features/builds/routes.ts';
 import { consentRoutes } from './features/consents/consent-routes.ts';
 import { signingRoutes } from './features/consents/signing-routes.ts';
+import { bundleRoutes } from './features/consents/bundle-routes.ts';
+import { noticeRoutes } from './features/consents/notice-routes.ts';
 import { templateRoutes } from './features/consents/template-routes.ts';
 import { productionRoutes } from './features/productions/routes.ts';
 import { ingredientRoutes } from './features/catalogue/ingredient-routes.ts';
@@ -34,6 +36,8 @@ const featureRoutes: AnyRoute[] = [
   ...recordsExportRoutes,
   ...templateRoutes,
   ...signingRoutes,
+  ...bundleRoutes,
+  ...noticeRoutes,
   ...consentRoutes,
   ...bookingRoutes,
   ...patchTestRoutes,

@@ -37,6 +37,10 @@ const routes: RouteObject[] = [
         lazy: async () => ({ Component: (await import('./features/consents/routes/sign-link-page.tsx')).SignLinkPage }),
       },
       {
+        path: paths.signBundle.pattern,
+        lazy: async () => ({ Component: (await import('./features/consents/routes/sign-bundle-page.tsx')).SignBundlePage }),
+      },
+      {
         path: paths.withdrawRequest.pattern,
         lazy: async () => ({ Component: (await import('./features/consents/routes/withdraw-request-page.tsx')).WithdrawRequestPage }),
       },
@@ -92,6 +96,10 @@ const routes: RouteObject[] = [
                       guarded(paths.editPerformer.pattern, 'performers.manage', async () => {
                         const m = await import('./features/performers/routes/edit-performer-page.tsx');
                         return { Component: m.EditPerformerPage, loader: m.editPerformerLoader };
+                      }),
+                      guarded(paths.consentWorklist.pattern, 'consents.request', async () => {
+                        const m = await import('./features/consents/routes/worklist-page.tsx');
+                        return { Component: m.WorklistPage };
                       }),
                       guarded(paths.consent.pattern, PERFORMER_PAGE_ACTIONS, async () => {
                         const m = await import('./features/consents/routes/consent-page.tsx');

@@ -162,6 +162,33 @@ export interface SigningRequestsTable {
   created_at: Timestamp;
   opened_at: Date | null;
   signed_at: Date | null;
+  bundle_id: ColumnType<string | null, string | null | undefined, string | null>;
+  bundle_position: ColumnType<number | null, number | null | undefined, number | null>;
+}
+
+export interface SigningBundlesTable {
+  id: Generated<string>;
+  performer_id: string;
+  production_id: string | null;
+  mode: 'tablet' | 'link';
+  token_hash: string | null;
+  expires_at: Timestamp;
+  created_by: string | null;
+  created_at: Timestamp;
+}
+
+export interface StaffSeenTable {
+  user_id: string;
+  production_id: string;
+  topic: 'withdrawals';
+  seen_at: Timestamp;
+}
+
+export interface HealthReviewsTable {
+  performer_id: string;
+  production_id: string;
+  reviewed_by: string | null;
+  reviewed_at: Timestamp;
 }
 
 export interface ConsentsTable {
@@ -182,6 +209,9 @@ export interface ConsentsTable {
   signature_file_id: string;
   pdf_file_id: string;
   pdf_sha256: string;
+  /** The rendering without health answers, for staff; made at signing (or on first request for older consents). */
+  staff_pdf_file_id: ColumnType<string | null, string | null | undefined, string | null>;
+  staff_pdf_sha256: ColumnType<string | null, string | null | undefined, string | null>;
   content_sha256: string;
   withdrawn_at: Date | null;
   withdrawn_by_user_id: string | null;
@@ -240,6 +270,8 @@ export interface BookingsTable {
   location: string | null;
   status: ColumnType<'booked' | 'cancelled' | 'done', 'booked' | 'cancelled' | 'done' | undefined>;
   created_by: string | null;
+  ends_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+  artist_user_id: ColumnType<string | null, string | null | undefined, string | null>;
   created_at: Timestamp;
   /** The SEQUENCE of the calendar invitation last sent: 0 when booked, one more for each change or the cancellation. */
   invitation_sequence: Generated<number>;
@@ -529,6 +561,9 @@ export interface Database {
   consent_templates: ConsentTemplatesTable;
   consent_template_versions: ConsentTemplateVersionsTable;
   signing_requests: SigningRequestsTable;
+  signing_bundles: SigningBundlesTable;
+  staff_seen: StaffSeenTable;
+  health_reviews: HealthReviewsTable;
   consents: ConsentsTable;
   consent_answers: ConsentAnswersTable;
   withdrawal_links: WithdrawalLinksTable;

@@ -18,7 +18,14 @@ declare module 'express-session' {
     /** The seat acted in; set at sign-in to where the person last worked (then the role may be open). */
     current?: { productionId: string | null; role?: string };
     /** Set while the department's tablet is handed to a performer: the session can do nothing else. */
-    tablet?: { requestId: string; staffUserId: string; phase: 'signing' | 'handback'; idempotencyKey: string };
+    tablet?: {
+      requestId: string;
+      staffUserId: string;
+      phase: 'signing' | 'handback';
+      idempotencyKey: string;
+      /** A bundle handed over at once: its requests in order, and which one is on screen. */
+      bundle?: { requestIds: string[]; index: number };
+    };
   }
 }
 

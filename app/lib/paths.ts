@@ -65,6 +65,8 @@ export const paths = {
   label: { pattern: '/archive/labels/:code', href: (code: string) => `/archive/labels/${encodeURIComponent(code)}` },
   retention: { pattern: '/archive/retention', href: () => '/archive/retention' },
   verify: { pattern: '/verify', href: () => '/verify' },
+  /** Withdrawals since you last looked and, for the lead, health answers to look at. */
+  consentWorklist: { pattern: '/consents/worklist', href: () => '/consents/worklist' },
   catalogue: { pattern: '/catalogue', href: () => '/catalogue' },
   newProduct: { pattern: '/catalogue/new', href: () => '/catalogue/new' },
   product: { pattern: '/catalogue/:id', href: (id: string) => `/catalogue/${encodeURIComponent(id)}` },
@@ -89,6 +91,8 @@ export const paths = {
   /** The department's tablet while it is lent to a performer. */
   tablet: { pattern: '/tablet', href: () => '/tablet' },
   signLink: { pattern: '/sign/:token', href: (token: string) => `/sign/${encodeURIComponent(token)}` },
+  /** One e-mailed link that walks through several forms in order. */
+  signBundle: { pattern: '/sign/bundle/:token', href: (token: string) => `/sign/bundle/${encodeURIComponent(token)}` },
   withdrawRequest: { pattern: '/withdraw', href: () => '/withdraw' },
   withdrawLink: { pattern: '/withdraw/:token', href: (token: string) => `/withdraw/${encodeURIComponent(token)}` },
   /** The performer confirms the address staff entered is theirs. */
@@ -110,6 +114,7 @@ export const serverPaths = {
   /** The filtered registry as CSV, downloaded by the browser. */
   performersCsv: (query: Record<string, string | undefined>) => withSearch('/api/performers/export.csv', query),
   consentPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/pdf`,
+  consentStaffPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/staff-pdf`,
   /** A catalogue product's safety data sheet, downloaded by the browser. */
   safetySheet: (productId: string) => `/api/products/${encodeURIComponent(productId)}/safety-data-sheet`,
   /** A printable sheet of QR labels for these casts and places. */

@@ -93,3 +93,29 @@ export const DEFAULT_SESSION_MINUTES: Record<BookingPurpose, number> = {
 export function sessionEnd(purpose: BookingPurpose, startsAt: Date, endsAt?: Date | null): Date {
   return endsAt ?? new Date(startsAt.getTime() + DEFAULT_SESSION_MINUTES[purpose] * 60_000);
 }
+
+/**
+ * Which sessions missing their consent lost it to a withdrawal: a consent of the kind they need,
+ * given to their production (or to none), that would have covered them had it not been withdrawn.
+ */
+export function sessionsWithWithdrawnConsent(
+  sessions: readonly (BookingForGate & { productionId: string; status: string })[],
+  consents: readonly ConsentForGate[],
+): Set<string> {
+  const missing = sessionsMissingConsent(sessions, consents);
+  const lost = new Set<string>();
+  for (const s of sessions) {
+    if (!missing.has(s.id)) continue;
+    const kind = consentKindNeeded(s.purpose);
+    const hadOne = consents.some(
+      (c) =>
+        c.performerId === s.performerId &&
+        c.kind === kind &&
+        c.withdrawnAt !== null &&
+        (c.productionId === null || c.productionId === s.productionId) &&
+        consentState({ ...c, withdrawnAt: null }, s.startsAt) === 'active',
+    );
+    if (hadOne) lost.add(s.id);
+  }
+  return lost;
+}

@@ -86,6 +86,8 @@ export const TabletStateSchema = z.object({
   phase: z.enum(['signing', 'handback', 'none']),
   form: SigningFormSchema.nullable(),
   idempotencyKey: z.uuid().nullable(),
+  /** Where this form stands in a bundle handed over at once (absent for a single form). */
+  progress: z.object({ position: z.number().int().min(1), total: z.number().int().min(1) }).optional(),
 });
 export type TabletState = z.infer<typeof TabletStateSchema>;
 
@@ -183,6 +185,8 @@ export const VerifyResultSchema = z.object({
   match: z.boolean(),
   /** A match on a production the checker does not work on: Plinth issued it, and says no more. */
   elsewhere: z.boolean(),
+  /** Which of the consent's two files this is: the full signed copy, or the staff copy without health answers. */
+  copy: z.enum(['full', 'staff']).nullable().optional(),
   consent: z
     .object({ id: IdSchema, performerName: z.string(), kind: ConsentKindSchema, title: z.string(), templateVersion: z.number().int(), signedAt: z.iso.datetime(), state: ConsentStateSchema })
     .nullable(),

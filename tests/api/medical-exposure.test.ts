@@ -39,6 +39,10 @@ beforeAll(async () => {
     if (typeof text === 'string' && text.length > 3) medicalTexts.push(text);
   }
   expect(medicalTexts).toContain('Sticking plasters make my skin itch');
+  // A withdrawal reason may speak of health: it is guarded like the answers.
+  const reasons = await db.selectFrom('consents').select('withdrawal_reason').where('withdrawal_reason', 'is not', null).execute();
+  for (const r of reasons) medicalTexts.push(openJson<string>(r.withdrawal_reason));
+  expect(medicalTexts).toContain('No longer comfortable with face casting');
   ids.performerId = [juno.id];
   ids.productionId = [production.id];
   // The archive: Juno's casts (with photos and history), places, and label codes of both.
@@ -95,6 +99,7 @@ describe('no staff role but the designated lead reads health answers through any
       let answered = 0;
       let archiveAnswered = 0;
       let buildsAnswered = 0;
+      let staffCopies = 0;
       let sawPerformer = false;
       for (const route of reads) {
         const fills = route.path.includes(':id') ? ids.id! : route.path.includes(':code') ? ids.code! : [''];
@@ -124,7 +129,10 @@ describe('no staff role but the designated lead reads health answers through any
           if (res.status === 200 && (res.headers['content-type'] ?? '').includes('application/pdf')) {
             // Only a consent with no health questions may reach them as a PDF, and it must hold no health answer.
             const consentId = /\/api\/consents\/([0-9a-f-]{36})\/pdf/.exec(url)?.[1];
-            if (consentId) {
+            if (/^\/api\/consents\/[0-9a-f-]{36}\/staff-pdf$/.test(url)) {
+              // The staff copy of any consent: its text is checked below for every health answer.
+              staffCopies++;
+            } else if (consentId) {
               const medical = await t.db.db.selectFrom('consent_answers').select('id').where('consent_id', '=', consentId).where('medical', '=', true).execute();
               expect(medical, `${email} got the PDF of a consent with health questions`).toEqual([]);
             } else {
@@ -139,9 +147,10 @@ describe('no staff role but the designated lead reads health answers through any
       expect(answered).toBeGreaterThan(5);
       if (email === 'archivist@plinth.test') expect(archiveAnswered, 'the archive routes answered the archivist').toBeGreaterThan(10);
       if (email !== 'admin@plinth.test') expect(buildsAnswered, 'the appliance build routes answered production staff').toBeGreaterThan(5);
+      if (email !== 'admin@plinth.test') expect(staffCopies, 'staff copies reached production staff').toBeGreaterThan(0);
       // …and the replies were really read (a performer's name appears somewhere).
       expect(sawPerformer).toBe(true);
-      // Every read route × every real id is a few thousand requests: allow it time (speed is measured by the bench, not here).
+      // Every read route × every real id is a few thousand requests, and every staff copy is read back with pdf.js: allow it time (speed is measured by the bench, not here).
     }, 180_000);
   }
 
@@ -157,5 +166,15 @@ describe('no staff role but the designated lead reads health answers through any
     const test = await request(t.app).get(`/api/patch-tests/${ids.id!.at(-1)}`).set('Cookie', cookie);
     expect(test.text).toContain('Blistering behind the ear noted at the check');
     expect(test.text).toMatch(/"code":"\+\+"/);
+  });
+
+  it('the lead reads health answers and withdrawal reasons through the worklist routes (so those checks can fail too)', async () => {
+    const cookie = await t.sessionFor('lead@plinth.test');
+    const summary = await request(t.app).get('/api/consent-notices/health-summary').query({ performerId: ids.performerId![0] }).set('Cookie', cookie);
+    expect(summary.status).toBe(200);
+    expect(summary.text).toContain('Sticking plasters make my skin itch');
+    const withdrawals = await request(t.app).get('/api/consent-notices/withdrawals').query({ productionId: ids.productionId![0] }).set('Cookie', cookie);
+    expect(withdrawals.status).toBe(200);
+    expect(withdrawals.text).toContain('No longer comfortable with face casting');
   });
 });

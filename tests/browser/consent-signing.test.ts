@@ -34,7 +34,7 @@ async function openHalvard(page: Page): Promise<void> {
 async function lendTabletFor(page: Page, formTitle: string): Promise<void> {
   await page.getByRole('button', { name: 'Ask to sign…' }).click();
   const dialog = page.getByRole('dialog', { name: /Ask .* to sign/ });
-  await dialog.getByRole('radio', { name: new RegExp(formTitle) }).check();
+  await dialog.getByRole('checkbox', { name: new RegExp(formTitle) }).check();
   await dialog.getByRole('button', { name: 'Sign here on this tablet' }).click();
   await page.waitForURL((url) => url.pathname === '/tablet');
   await page.getByRole('heading', { level: 1, name: formTitle }).waitFor();

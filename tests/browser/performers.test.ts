@@ -81,10 +81,10 @@ describe('the performer registry', () => {
       await expectAccessible(page, 'performers filtered by expiring');
 
       await nav(page).getByRole('link', { name: 'Home' }).click();
-      await page.getByRole('link', { name: 'Upcoming sessions missing a consent' }).click();
+      await page.getByRole('link', { name: 'Sessions waiting for consent' }).click();
       await page.waitForURL(/\/bookings$/);
       const row = page.getByTestId('bookings-table').getByRole('row').filter({ hasText: 'Oz Parfitt' });
-      await row.getByText('Consent missing').waitFor();
+      await row.getByText('Waiting for consent').waitFor();
       expect(await row.textContent()).toContain('Life cast');
       await expectAccessible(page, 'sessions');
 
@@ -133,9 +133,13 @@ describe('the performer registry', () => {
       expect(await booking.getByTestId('caution').textContent()).toContain('Never cover the nostrils or airway.');
       const when = new Date(Date.now() + 7 * 86_400_000);
       const local = `${when.getFullYear()}-${String(when.getMonth() + 1).padStart(2, '0')}-${String(when.getDate()).padStart(2, '0')}T10:30`;
-      await booking.getByLabel('Date and time').fill(local);
+      await booking.getByLabel('Starts').fill(local);
       await booking.getByLabel('Place').fill('Casting workshop');
+      // The gate says at once that the consent is missing, before anything is saved.
+      await booking.getByTestId('booking-gate').waitFor();
       await booking.getByRole('button', { name: 'Book the session' }).click();
+      // Saved as waiting for consent, with the form offered at once.
+      await page.getByTestId('booking-done').getByRole('button', { name: 'Send a link by e-mail' }).waitFor();
       await page.getByTestId('sessions-section').getByTestId('bookings-table').getByText('Casting workshop').waitFor();
       await page.getByTestId('sessions-section').getByTestId('consent-missing').waitFor();
 
@@ -210,7 +214,7 @@ describe('links a performer opens without signing in', () => {
       await openPerformer(page, 'beatrix', /Bea Nwachukwu/);
       await page.getByRole('button', { name: 'Ask to sign…' }).click();
       const dialog = page.getByRole('dialog', { name: /Ask .* to sign/ });
-      await dialog.getByRole('radio', { name: /Use of your health information/ }).check();
+      await dialog.getByRole('checkbox', { name: /Use of your health information/ }).check();
       await dialog.getByRole('button', { name: 'Send a link by e-mail' }).click();
       await dialog.getByText('A one-time link is on its way to').waitFor();
       await dialog.getByRole('button', { name: 'Done' }).click();

@@ -1,5 +1,6 @@
 import { BOOKING_PURPOSE_LABELS, sessionEnd } from '#shared/domain/bookings.ts';
 import type { AppContext } from '../../context.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { deliverAll } from '../../mail/deliver.ts';
 import { invitationIcs } from '../../mail/ical.ts';
 import type { OutgoingMail } from '../../mail/mailer.ts';
@@ -8,11 +9,6 @@ import { findCurrentLeads } from '../productions/index.ts';
 import { findBookingForInvitation } from './repo.ts';
 
 export type InvitationKind = 'request' | 'update' | 'cancel';
-
-/** "Wednesday 9 December 2026, 10:30" in the studio's time zone: mail prints dates in words. */
-export function whenInWords(at: Date, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit' }).format(at);
-}
 
 function parseAddress(from: string): { name: string; email: string } {
   const m = /^\s*(.*?)\s*<([^>]+)>\s*$/.exec(from);
@@ -36,7 +32,7 @@ export async function sessionInvitationMails(ctx: Pick<AppContext, 'db' | 'confi
   const what = BOOKING_PURPOSE_LABELS[b.purpose];
   const start = b.startsAt;
   const end = sessionEnd(b.purpose, start, null);
-  const when = whenInWords(start, ctx.config.timeZone);
+  const when = mailDateTime(start, ctx.config.timeZone);
   const method = kind === 'cancel' ? 'cancel' : 'request';
   const summary = `${what} — ${b.productionName}`;
   const description = `${what} session for ${b.productionName}, with the prosthetics department.${kind === 'cancel' ? ' This session has been cancelled.' : ''}`;
@@ -58,7 +54,7 @@ export async function sessionInvitationMails(ctx: Pick<AppContext, 'db' | 'confi
     kind === 'cancel' ? `The ${what.toLowerCase()} session below has been cancelled.` : kind === 'update' ? `The ${what.toLowerCase()} session has a new time or place.` : `You are invited to a ${what.toLowerCase()} session.`,
     '',
     `Production: ${b.productionName}`,
-    `When: ${when} (${ctx.config.timeZone})`,
+    `When: ${when}`,
     `Where: ${b.location ?? 'to be confirmed'}`,
     '',
     'The attached calendar entry updates your calendar. Questions go to the prosthetics department of the production.',

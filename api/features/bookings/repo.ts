@@ -13,6 +13,8 @@ export interface BookingRow {
   status: 'booked' | 'cancelled' | 'done';
   /** Changes sent to calendars so far; an edit names the one it was based on. */
   sequence: number;
+  endsAt?: Date | null;
+  artist?: { id: string; name: string } | null;
 }
 
 export interface BookingFilter {
@@ -31,7 +33,21 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
   let q = db
     .selectFrom('bookings as b')
     .innerJoin('performers as p', 'p.id', 'b.performer_id')
-    .select(['b.id', 'b.performer_id', sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'), 'b.production_id', 'b.purpose', 'b.starts_at', 'b.location', 'b.status', 'b.invitation_sequence']);
+    .leftJoin('users as a', 'a.id', 'b.artist_user_id')
+    .select([
+      'b.id',
+      'b.performer_id',
+      sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
+      'b.production_id',
+      'b.purpose',
+      'b.starts_at',
+      'b.ends_at',
+      'b.location',
+      'b.status',
+      'a.id as artist_id',
+      'a.display_name as artist_name',
+      'b.invitation_sequence',
+    ]);
   if (where.productionId) q = q.where('b.production_id', '=', where.productionId);
   if (where.productionIds) {
     if (where.productionIds.length === 0) return [];
@@ -56,6 +72,8 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
     location: r.location,
     status: r.status,
     sequence: r.invitation_sequence,
+    endsAt: r.ends_at ? new Date(r.ends_at) : null,
+    artist: r.artist_id && r.artist_name ? { id: r.artist_id, name: r.artist_name } : null,
   }));
 }
 
@@ -73,11 +91,20 @@ export async function findBookingProduction(db: Db, id: string): Promise<string 
 
 export async function insertBooking(
   db: Db,
-  v: { performerId: string; productionId: string; purpose: BookingPurpose; startsAt: Date; location: string | null; createdBy: string },
+  v: { performerId: string; productionId: string; purpose: BookingPurpose; startsAt: Date; location: string | null; createdBy: string; endsAt?: Date | null; artistUserId?: string | null },
 ): Promise<string> {
   const row = await db
     .insertInto('bookings')
-    .values({ performer_id: v.performerId, production_id: v.productionId, purpose: v.purpose, starts_at: v.startsAt, location: v.location, created_by: v.createdBy })
+    .values({
+      performer_id: v.performerId,
+      production_id: v.productionId,
+      purpose: v.purpose,
+      starts_at: v.startsAt,
+      location: v.location,
+      created_by: v.createdBy,
+      ends_at: v.endsAt ?? null,
+      artist_user_id: v.artistUserId ?? null,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return row.id;
@@ -96,12 +123,13 @@ export interface BookingJsonRow {
   location: string | null;
   status: BookingRow['status'];
   sequence: number;
+  ends_at?: string | null;
 }
 
 /** The booked sessions of the performer whose id is `performerId` starting from `from`, in start order, as a JSON array. */
 export function upcomingBookingsJsonSql(performerId: RawBuilder<string>, from: Date): RawBuilder<BookingJsonRow[]> {
   return sql<BookingJsonRow[]>`coalesce((
-    select json_agg(json_build_object('id', b.id, 'production_id', b.production_id, 'purpose', b.purpose, 'starts_at', b.starts_at, 'location', b.location, 'status', b.status, 'sequence', b.invitation_sequence) order by b.starts_at, b.id)
+    select json_agg(json_build_object('id', b.id, 'production_id', b.production_id, 'purpose', b.purpose, 'starts_at', b.starts_at, 'ends_at', b.ends_at, 'location', b.location, 'status', b.status, 'sequence', b.invitation_sequence) order by b.starts_at, b.id)
     from bookings b where b.performer_id = ${performerId} and b.status = 'booked' and b.starts_at >= ${from}
   ), '[]'::json)`;
 }
@@ -139,10 +167,15 @@ export async function bumpInvitationSequence(db: Db, id: string): Promise<number
 
 /** Moves a booked session; the caller holds the row (`findBookingForChange`). */
 export async function moveBooking(db: Db, id: string, v: { startsAt: Date; location: string | null }): Promise<void> {
-  await db.updateTable('bookings').set({ starts_at: v.startsAt, location: v.location }).where('id', '=', id).execute();
+  await setBookingTime(db, id, v.startsAt, v.location);
 }
 
 /** Moves a booked session to another time or place. */
 export async function setBookingTime(db: Db, id: string, startsAt: Date, location: string | null): Promise<void> {
-  await db.updateTable('bookings').set({ starts_at: startsAt, location }).where('id', '=', id).execute();
+  // The session keeps its length: a recorded end moves with the start.
+  await db
+    .updateTable('bookings')
+    .set({ starts_at: startsAt, location, ends_at: sql<Date | null>`ends_at + (${startsAt}::timestamptz - starts_at)` })
+    .where('id', '=', id)
+    .execute();
 }

@@ -1,8 +1,10 @@
 import { IdParamsSchema } from '#shared/schemas/common.ts';
-import { BookingListQuerySchema, BookingListSchema, BookingSchema, CreateBookingInputSchema, RescheduleBookingInputSchema } from '#shared/schemas/bookings.ts';
+import { z } from 'zod';
+import { BookingListQuerySchema, BookingListSchema, BookingSchema, BookingStaffSchema, ConsentCheckQuerySchema, ConsentCheckSchema, CreateBookingInputSchema, RescheduleBookingInputSchema } from '#shared/schemas/bookings.ts';
+import { IdSchema } from '#shared/schemas/common.ts';
 import { authorize } from '../../http/authorize.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
-import { cancelBooking, createBooking, listBookings, rescheduleBooking } from './service.ts';
+import { bookingStaff, cancelBooking, checkConsentForSession, createBooking, listBookings, rescheduleBooking } from './service.ts';
 
 export const bookingRoutes: AnyRoute[] = [
   defineRoute({
@@ -16,7 +18,9 @@ export const bookingRoutes: AnyRoute[] = [
     errors: [403],
     async handler({ ctx, actor, query }) {
       authorize(actor, 'sessions.view', { productionId: query.productionId });
-      const items = await listBookings(ctx.db, { productionId: query.productionId, performerId: query.performerId, from: query.upcoming === 'true' ? new Date() : undefined });
+      // A calendar asks for a window, past sessions included; otherwise the list runs from now on.
+      const window = query.from || query.to ? { from: query.from ? new Date(query.from) : undefined, to: query.to ? new Date(query.to) : undefined } : { from: query.upcoming === 'true' ? new Date() : undefined };
+      const items = await listBookings(ctx.db, { productionId: query.productionId, performerId: query.performerId, ...window });
       return { items };
     },
   }),
@@ -31,6 +35,28 @@ export const bookingRoutes: AnyRoute[] = [
     status: 201,
     errors: [403],
     handler: ({ ctx, actor, body, req }) => createBooking(ctx, actor, body, req),
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/bookings/consent-check',
+    summary: 'Before booking: the consent a session needs, and whether the performer will have it in force when it starts',
+    tag: 'bookings',
+    auth: 'session',
+    query: ConsentCheckQuerySchema,
+    response: ConsentCheckSchema,
+    errors: [403],
+    handler: ({ ctx, actor, query }) => checkConsentForSession(ctx, actor, query),
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/bookings/staff',
+    summary: 'Who can be assigned to a session on a production',
+    tag: 'bookings',
+    auth: 'session',
+    query: z.object({ productionId: IdSchema }),
+    response: BookingStaffSchema,
+    errors: [403],
+    handler: async ({ ctx, actor, query }) => ({ items: await bookingStaff(ctx, actor, query.productionId) }),
   }),
   defineRoute({
     method: 'post',

@@ -1,7 +1,7 @@
 import type { Request } from 'express';
-import { type ConsentForGate, sessionsMissingConsent } from '#shared/domain/bookings.ts';
+import { type BookingPurpose, type ConsentForGate, consentKindNeeded, sessionsMissingConsent, sessionsWithWithdrawnConsent } from '#shared/domain/bookings.ts';
 import type { Actor } from '#shared/policy.ts';
-import type { Booking, CreateBookingInput, RescheduleBookingInput } from '#shared/schemas/bookings.ts';
+import type { Booking, ConsentCheck, CreateBookingInput, RescheduleBookingInput } from '#shared/schemas/bookings.ts';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
 import { writeAudit } from '../../http/audit.ts';
@@ -9,15 +9,20 @@ import { authorize } from '../../http/authorize.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { listConsentsForGate } from '../consents/index.ts';
 import { isEngagedOn } from '../performers/index.ts';
+import { staffOf } from '../productions/index.ts';
 import { sendSessionInvitations } from './invitations.ts';
 import { type BookingFilter, type BookingJsonRow, bumpInvitationSequence, findBookingForChange, findBookingProduction, insertBooking, listBookingRows, moveBooking, setBookingStatus } from './repo.ts';
+
+/** Longer than a working day is a typing slip, not a session. */
+const MAX_SESSION_MS = 16 * 3_600_000;
 
 /** Sessions with, for each, whether its consent will be in force when it starts: one query for the sessions, one for the consents. */
 export async function listBookings(db: Db, where: BookingFilter): Promise<Booking[]> {
   const rows = await listBookingRows(db, where);
   const consents = await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
   const missing = sessionsMissingConsent(rows, consents);
-  return rows.map((r) => ({ ...r, startsAt: r.startsAt.toISOString(), consentMissing: missing.has(r.id) }));
+  const withdrawn = sessionsWithWithdrawnConsent(rows, consents);
+  return rows.map((r) => ({ ...r, startsAt: r.startsAt.toISOString(), endsAt: r.endsAt?.toISOString() ?? null, consentMissing: missing.has(r.id), consentWithdrawn: withdrawn.has(r.id) }));
 }
 
 async function bookingById(db: Db, id: string): Promise<Booking> {
@@ -31,9 +36,24 @@ export async function createBooking(ctx: AppContext, actor: Actor, input: Create
   if (input.purpose === 'patch_test') throw invalid({ purpose: ["Book a patch test from the performer's Patch tests section, with its products and sites."] });
   if (!(await isEngagedOn(ctx.db, input.performerId, input.productionId))) throw invalid({ performerId: ['This performer is not engaged on this production.'] });
   const startsAt = new Date(input.startsAt);
-  if (startsAt.getTime() < Date.now() - 60_000) throw invalid({ startsAt: ['Choose a time that has not passed'] });
+  const endsAt = input.endsAt ? new Date(input.endsAt) : null;
+  const fields: Record<string, string[]> = {};
+  if (startsAt.getTime() < Date.now() - 60_000) fields.startsAt = ['Choose a time that has not passed'];
+  if (endsAt && endsAt.getTime() <= startsAt.getTime()) fields.endsAt = ['The session must end after it starts'];
+  if (endsAt && endsAt.getTime() - startsAt.getTime() > MAX_SESSION_MS) fields.endsAt = ['A session lasts at most 16 hours; book a second one for the next day'];
+  if (input.artistUserId && !(await staffOf(ctx.db, [input.productionId])).some((s) => s.userId === input.artistUserId)) fields.artistUserId = ['Choose someone who works on this production'];
+  if (Object.keys(fields).length) throw invalid(fields);
   const id = await ctx.db.transaction().execute(async (trx) => {
-    const newId = await insertBooking(trx, { performerId: input.performerId, productionId: input.productionId, purpose: input.purpose, startsAt, location: input.location || null, createdBy: actor.userId });
+    const newId = await insertBooking(trx, {
+      performerId: input.performerId,
+      productionId: input.productionId,
+      purpose: input.purpose,
+      startsAt,
+      endsAt,
+      artistUserId: input.artistUserId ?? null,
+      location: input.location || null,
+      createdBy: actor.userId,
+    });
     await writeAudit(trx, { actorUserId: actor.userId, action: 'booking.create', entityType: 'booking', entityId: newId, productionId: input.productionId, req, details: { purpose: input.purpose } });
     return newId;
   });
@@ -63,6 +83,21 @@ export async function rescheduleBooking(ctx: AppContext, actor: Actor, id: strin
   return bookingById(ctx.db, id);
 }
 
+/** Whether a session booked now would wait for consent: the same rule the list applies, asked before saving. */
+export async function checkConsentForSession(ctx: AppContext, actor: Actor, q: { performerId: string; productionId: string; purpose: BookingPurpose; startsAt: string }): Promise<ConsentCheck> {
+  authorize(actor, 'sessions.book', { productionId: q.productionId });
+  if (!(await isEngagedOn(ctx.db, q.performerId, q.productionId))) throw invalid({ performerId: ['This performer is not engaged on this production.'] });
+  const consents = await listConsentsForGate(ctx.db, [q.performerId]);
+  const probe = { id: 'probe', performerId: q.performerId, productionId: q.productionId, purpose: q.purpose, startsAt: new Date(q.startsAt), status: 'booked' };
+  return { kind: consentKindNeeded(q.purpose), missing: sessionsMissingConsent([probe], consents).has('probe') };
+}
+
+/** The production's staff, any of whom may be assigned to a session. */
+export async function bookingStaff(ctx: AppContext, actor: Actor, productionId: string): Promise<{ id: string; name: string }[]> {
+  authorize(actor, 'sessions.book', { productionId });
+  return (await staffOf(ctx.db, [productionId])).map((s) => ({ id: s.userId, name: s.name }));
+}
+
 export async function cancelBooking(ctx: AppContext, actor: Actor, id: string, req: Request): Promise<Booking> {
   const productionId = await findBookingProduction(ctx.db, id);
   if (!productionId) throw notFound('That booking');
@@ -84,7 +119,8 @@ export async function cancelBooking(ctx: AppContext, actor: Actor, id: string, r
 export function bookingsFromJson(rows: readonly BookingJsonRow[], performer: { id: string; name: string }, consents: readonly ConsentForGate[], showsProduction: (productionId: string) => boolean): Booking[] {
   const sessions = rows
     .filter((r) => showsProduction(r.production_id))
-    .map((r) => ({ id: r.id, performerId: performer.id, performerName: performer.name, productionId: r.production_id, purpose: r.purpose, startsAt: new Date(r.starts_at), location: r.location, status: r.status, sequence: r.sequence }));
+    .map((r) => ({ id: r.id, performerId: performer.id, performerName: performer.name, productionId: r.production_id, purpose: r.purpose, startsAt: new Date(r.starts_at), location: r.location, status: r.status, sequence: r.sequence, endsAt: r.ends_at ? new Date(r.ends_at).toISOString() : null }));
   const missing = sessionsMissingConsent(sessions, consents);
-  return sessions.map((s) => ({ ...s, startsAt: s.startsAt.toISOString(), consentMissing: missing.has(s.id) }));
+  const withdrawn = sessionsWithWithdrawnConsent(sessions, consents);
+  return sessions.map((s) => ({ ...s, startsAt: s.startsAt.toISOString(), consentMissing: missing.has(s.id), consentWithdrawn: withdrawn.has(s.id) }));
 }

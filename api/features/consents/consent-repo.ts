@@ -83,6 +83,48 @@ export async function findConsentSummaryByPdfHash(db: Db, sha256: string): Promi
   return r ? toConsentSummary(r) : undefined;
 }
 
+/** The consent whose full copy or staff-safe copy has this SHA-256, and which copy it is. */
+export async function findConsentByAnyPdfHash(db: Db, sha256: string): Promise<{ summary: ConsentSummary; copy: 'full' | 'staff' } | undefined> {
+  const r = await consentSummaryQuery(db)
+    .select(sql<boolean>`c.staff_pdf_sha256 = ${sha256}`.as('is_staff'))
+    .where((eb) => eb.or([eb('c.pdf_sha256', '=', sha256), eb('c.staff_pdf_sha256', '=', sha256)]))
+    .executeTakeFirst();
+  return r ? { summary: toConsentSummary(r), copy: r.is_staff ? 'staff' : 'full' } : undefined;
+}
+
+export async function setStaffCopy(db: Db, consentId: string, file: { id: string; sha256: string }): Promise<void> {
+  await db.updateTable('consents').set({ staff_pdf_file_id: file.id, staff_pdf_sha256: file.sha256 }).where('id', '=', consentId).execute();
+}
+
+/** Everything a consent's staff-safe copy is rendered from, for a consent signed before staff copies were made. */
+export async function findConsentForRendering(db: Db, id: string) {
+  return db
+    .selectFrom('consents as c')
+    .innerJoin('consent_template_versions as v', 'v.id', 'c.template_version_id')
+    .innerJoin('performers as p', 'p.id', 'c.performer_id')
+    .leftJoin('productions as pr', 'pr.id', 'c.production_id')
+    .select([
+      'c.id',
+      'c.kind',
+      'v.title',
+      'v.version',
+      'v.body',
+      'v.questions',
+      sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
+      'pr.name as production_name',
+      'c.signer_name',
+      'c.signed_at',
+      'c.signing_method',
+      'c.ip',
+      'c.user_agent',
+      'c.signature_file_id',
+      'c.content_sha256',
+      'c.staff_pdf_file_id',
+    ])
+    .where('c.id', '=', id)
+    .executeTakeFirst();
+}
+
 /** One consent with what its detail view needs beyond the summary. */
 export async function findConsentDetailRow(db: Db, id: string) {
   const r = await consentSummaryQuery(db)

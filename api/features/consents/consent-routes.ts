@@ -19,6 +19,7 @@ import { rateLimiter } from '../../http/rate-limit.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { TOKEN_PATTERN } from '../../http/tokens.ts';
 import { receiveFile } from '../../http/upload.ts';
+import { staffCopyPdf } from './staff-copy.ts';
 import { consentDetail, consentPdf, listVisibleConsents, sendWithdrawalLink, verifyPdf, withdrawAsActor, withdrawalLinkView, withdrawByLink } from './consent-service.ts';
 
 const linkLimiter = rateLimiter({ windowMs: 60_000, limit: 10, message: 'Too many attempts. Wait a minute and try again.' });
@@ -62,6 +63,20 @@ export const consentRoutes: AnyRoute[] = [
     async handler({ ctx, actor, params, req, res }) {
       const bytes = await consentPdf(ctx, actor, params.id, req);
       res.type('application/pdf').set('Content-Disposition', `inline; filename="consent-${params.id}.pdf"`).send(bytes);
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/consents/:id/staff-pdf',
+    summary: 'The staff-safe copy of a signed consent: the same record with every health answer withheld (for the head and production office)',
+    tag: 'consents',
+    auth: 'session',
+    params: IdParamsSchema,
+    produces: 'application/pdf',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, req, res }) {
+      const bytes = await staffCopyPdf(ctx, actor, params.id, req);
+      res.type('application/pdf').set('Content-Disposition', `inline; filename="consent-${params.id}-staff-copy.pdf"`).send(bytes);
     },
   }),
   defineRoute({

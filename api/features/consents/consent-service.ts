@@ -18,12 +18,13 @@ import {
   findConsentDetailRow,
   findConsentPerformer,
   findConsentSummary,
-  findConsentSummaryByPdfHash,
+  findConsentByAnyPdfHash,
   listConsentAnswers,
   listConsentSummaries,
   lockConsentForWithdrawal,
   markConsentWithdrawn,
 } from './consent-repo.ts';
+import { sendWithdrawalNotices } from './notice-service.ts';
 import { countRecentWithdrawalLinks, findWithdrawalLinkByHash, insertWithdrawalLink, markWithdrawalLinkUsed } from './request-repo.ts';
 
 const WITHDRAWAL_LINK_HOURS = 24;
@@ -144,6 +145,7 @@ export async function withdrawAsActor(ctx: AppContext, actor: Actor, consentId: 
   const via = can(actor, 'performer.self', resource) ? 'performer' : 'lead';
   const c = await withdraw(ctx, req, consentId, { reason: input.reason, version: input.version, by: actor.userId, via });
   await sendWithdrawalConfirmation(ctx, c.performerId, c.kind);
+  await sendWithdrawalNotices(ctx, consentId);
   const after = (await findConsentSummary(ctx.db, consentId))!;
   return { id: after.id, state: after.state, withdrawnAt: after.withdrawnAt, version: after.version };
 }
@@ -151,12 +153,13 @@ export async function withdrawAsActor(ctx: AppContext, actor: Actor, consentId: 
 /** Is this PDF, byte for byte, one Plinth issued? Who signed what is told only to those who may see that consent. */
 export async function verifyPdf(ctx: AppContext, actor: Actor, bytes: Buffer, req: Request): Promise<VerifyResult> {
   const sha256 = sha256Hex(bytes);
-  const s = await findConsentSummaryByPdfHash(ctx.db, sha256);
-  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'consent.verify', entityType: 'consent', entityId: s?.id ?? null, req, details: { sha256, match: Boolean(s) } });
-  if (!s) return { sha256, match: false, elsewhere: false, consent: null };
+  const found = await findConsentByAnyPdfHash(ctx.db, sha256);
+  const s = found?.summary;
+  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'consent.verify', entityType: 'consent', entityId: s?.id ?? null, req, details: { sha256, match: Boolean(s), copy: found?.copy ?? null } });
+  if (!s) return { sha256, match: false, elsewhere: false, consent: null, copy: null };
   const { resource } = await consentResource(ctx.db, s.performerId, s.productionId);
-  if (!can(actor, 'consents.view', resource)) return { sha256, match: true, elsewhere: true, consent: null };
-  return { sha256, match: true, elsewhere: false, consent: { id: s.id, performerName: s.performerName, kind: s.kind, title: s.title, templateVersion: s.templateVersion, signedAt: s.signedAt, state: s.state } };
+  if (!can(actor, 'consents.view', resource)) return { sha256, match: true, elsewhere: true, consent: null, copy: null };
+  return { sha256, match: true, elsewhere: false, copy: found.copy, consent: { id: s.id, performerName: s.performerName, kind: s.kind, title: s.title, templateVersion: s.templateVersion, signedAt: s.signedAt, state: s.state } };
 }
 
 // ---- withdrawal links (a performer without a sign-in)
@@ -212,4 +215,5 @@ export async function withdrawByLink(ctx: AppContext, token: string, input: { co
   const done = await withdraw(ctx, req, input.consentId, { reason: input.reason, by: owner?.userId ?? null, byPerformer: link.performerId, via: 'link' });
   await ctx.db.transaction().execute((trx) => markWithdrawalLinkUsed(trx, link.id));
   await sendWithdrawalConfirmation(ctx, done.performerId, done.kind);
+  await sendWithdrawalNotices(ctx, input.consentId);
 }

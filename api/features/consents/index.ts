@@ -6,3 +6,4 @@ export { findCurrentTemplateVersion } from './template-repo.ts';
 export { findConsentDetailRow, listConsentAnswers } from './consent-repo.ts';
 // The clearance loader reads declared allergies from the performer's own answers.
 export { listDeclaredAllergyAnswers } from './allergy-repo.ts';
+export { countNewWithdrawals } from './notice-service.ts';

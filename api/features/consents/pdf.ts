@@ -23,7 +23,12 @@ export interface ConsentDocument {
   userAgent: string | null;
   signaturePng: Buffer;
   contentSha256: string;
+  /** The staff-safe copy: the same record with every health answer left out, and a line saying so. */
+  staffCopy?: boolean;
 }
+
+export const STAFF_COPY_NOTICE =
+  'Staff copy: health answers are withheld from this copy. The full signed copy, with every answer, is kept for the designated lead and the performer.';
 
 function inlineText(tokens: Token[] | undefined, fallback: string): string {
   if (!tokens) return fallback;
@@ -40,7 +45,7 @@ export function renderConsentPdf(doc: ConsentDocument): Promise<Buffer> {
       info: {
         Title: `${doc.title} — ${doc.performerName}`,
         Author: 'Plinth',
-        Subject: `Signed consent ${doc.consentId}`,
+        Subject: `${doc.staffCopy ? 'Staff copy of signed consent' : 'Signed consent'} ${doc.consentId}`,
         // A fixed date keeps the same record rendering to the same bytes.
         CreationDate: doc.signedAt,
         ModDate: doc.signedAt,
@@ -55,6 +60,7 @@ export function renderConsentPdf(doc: ConsentDocument): Promise<Buffer> {
 
     pdf.font('bold').fontSize(18).fillColor('#2b2420').text(doc.title);
     pdf.moveDown(0.3);
+    if (doc.staffCopy) pdf.font('bold').fontSize(10.5).fillColor('#7a2e1f').text(STAFF_COPY_NOTICE).moveDown(0.3);
     pdf.font('body').fontSize(10).fillColor('#4a3f38');
     pdf.text(`${CONSENT_KIND_LABELS[doc.kind]} consent · form version ${doc.templateVersion}`);
     pdf.text(`Performer: ${doc.performerName}${doc.productionName ? ` · Production: ${doc.productionName}` : ''}`);
@@ -85,8 +91,9 @@ export function renderConsentPdf(doc: ConsentDocument): Promise<Buffer> {
       pdf.moveDown().font('bold').fontSize(13).text('Answers');
       pdf.font('body').fontSize(10.5);
       for (const a of doc.answers) {
+        // The staff copy keeps each question, so the record reads whole, but never a health answer.
         pdf.font('bold').text(a.label + (a.medical ? ' (health detail)' : ''), { continued: false });
-        pdf.font('body').text(a.answer, { indent: 12, paragraphGap: 4 });
+        pdf.font('body').text(doc.staffCopy && a.medical ? 'Withheld from the staff copy' : a.answer, { indent: 12, paragraphGap: 4 });
       }
     }
 
@@ -110,7 +117,7 @@ export function renderConsentPdf(doc: ConsentDocument): Promise<Buffer> {
       const bottom = pdf.page.margins.bottom;
       pdf.page.margins.bottom = 0;
       pdf.font('body').fontSize(7.5).fillColor('#4a3f38');
-      pdf.text(`Plinth consent ${doc.consentId} · page ${i + 1} of ${range.count} · SHA-256 of the signed content: ${doc.contentSha256}`, 56, pdf.page.height - 48, {
+      pdf.text(`Plinth consent ${doc.consentId}${doc.staffCopy ? ' (staff copy, health answers withheld)' : ''} · page ${i + 1} of ${range.count} · SHA-256 of the signed content: ${doc.contentSha256}`, 56, pdf.page.height - 48, {
         width: pdf.page.width - 112,
         align: 'center',
         lineBreak: true,

@@ -20,6 +20,10 @@ export interface RequestRecord {
   kind: ConsentKind;
   /** The performer's address on record (where a link request was sent). */
   email: string | null;
+  /** The form was taken out of use after the request was made. */
+  archived: boolean;
+  bundleId: string | null;
+  bundlePosition: number | null;
 }
 
 function requestQuery(db: Db) {
@@ -41,6 +45,9 @@ function requestQuery(db: Db) {
       'p.email',
       'v.title',
       't.kind',
+      't.archived',
+      'r.bundle_id',
+      'r.bundle_position',
     ]);
 }
 type Row = Awaited<ReturnType<ReturnType<typeof requestQuery>['executeTakeFirstOrThrow']>>;
@@ -59,6 +66,9 @@ function toRecord(r: Row): RequestRecord {
     title: r.title,
     kind: r.kind,
     email: r.email,
+    archived: r.archived,
+    bundleId: r.bundle_id,
+    bundlePosition: r.bundle_position,
   };
 }
 
@@ -82,6 +92,11 @@ export async function findRequest(db: Db, id: string): Promise<RequestRecord | u
   return r ? toRecord(r) : undefined;
 }
 
+/** The requests of one bundle, in the order they are signed. */
+export async function listBundleRequests(db: Db, bundleId: string): Promise<RequestRecord[]> {
+  return (await requestQuery(db).where('r.bundle_id', '=', bundleId).orderBy('r.bundle_position').execute()).map(toRecord);
+}
+
 export async function findLinkRequestByTokenHash(db: Db, tokenHash: string): Promise<RequestRecord | undefined> {
   const r = await requestQuery(db).where('r.token_hash', '=', tokenHash).where('r.mode', '=', 'link').executeTakeFirst();
   return r ? toRecord(r) : undefined;
@@ -96,11 +111,21 @@ export async function listRequests(db: Db, where: { productionId: string; perfor
 
 export async function insertRequest(
   db: Db,
-  v: { performerId: string; productionId: string; templateId: string; mode: 'tablet' | 'link'; tokenHash: string | null; expiresAt: Date; createdBy: string },
+  v: { performerId: string; productionId: string; templateId: string; mode: 'tablet' | 'link'; tokenHash: string | null; expiresAt: Date; createdBy: string; bundleId?: string; bundlePosition?: number },
 ): Promise<string> {
   const r = await db
     .insertInto('signing_requests')
-    .values({ performer_id: v.performerId, production_id: v.productionId, template_id: v.templateId, mode: v.mode, token_hash: v.tokenHash, expires_at: v.expiresAt, created_by: v.createdBy })
+    .values({
+      performer_id: v.performerId,
+      production_id: v.productionId,
+      template_id: v.templateId,
+      mode: v.mode,
+      token_hash: v.tokenHash,
+      expires_at: v.expiresAt,
+      created_by: v.createdBy,
+      bundle_id: v.bundleId ?? null,
+      bundle_position: v.bundlePosition ?? null,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return r.id;

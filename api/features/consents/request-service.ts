@@ -13,6 +13,8 @@ import { deliverAll } from '../../mail/deliver.ts';
 import { mailDateTime } from '../../mail/dates.ts';
 import { findPerformerScope } from '../performers/index.ts';
 import { findProductionName } from '../productions/index.ts';
+import { capitalised } from '#shared/domain/words.ts';
+import { departmentInWords, findDepartment, signOff } from './department.ts';
 import { cancelOpenRequest, findLinkRequestByTokenHash, findRequest, insertRequest, listRequests, markRequestOpened, type RequestRecord, toSigningRequest } from './request-repo.ts';
 import { submitSignature, type OpenRequest } from './signing-service.ts';
 import { findCurrentTemplateVersion, isTemplateSendable } from './template-repo.ts';
@@ -20,7 +22,7 @@ import { findCurrentTemplateVersion, isTemplateSendable } from './template-repo.
 const TABLET_REQUEST_HOURS = 2;
 const LINK_REQUEST_DAYS = 7;
 
-function asOpenRequest(r: RequestRecord): OpenRequest {
+export function asOpenRequest(r: RequestRecord): OpenRequest {
   return { id: r.id, performerId: r.performerId, productionId: r.productionId, templateId: r.templateId, status: r.status, expiresAt: r.expiresAt };
 }
 
@@ -59,18 +61,20 @@ export async function createSigningRequest(ctx: AppContext, actor: Actor, input:
   });
   const row = await requestById(ctx, id);
   if (token && performer.email) {
+    const dep = await findDepartment(ctx.db, input.productionId);
     const { failed } = await deliverAll(ctx, [
       {
         to: performer.email,
-        subject: `Please read and sign: ${row.title}`,
+        subject: `Please read and sign: ${row.title}${dep.productionName ? ` (${dep.productionName})` : ''}`,
         text: [
           `Hello ${performer.name},`,
           '',
-          `The make-up department asks you to read and, if you agree, sign this ${CONSENT_KIND_LABELS[row.kind].toLowerCase()} form:`,
+          `${capitalised(departmentInWords(dep))} asks you to read and, if you agree, sign this ${CONSENT_KIND_LABELS[row.kind].toLowerCase()} form:`,
           '',
           `${ctx.config.appOrigin}/sign/${token}`,
           '',
           `The link works once and until ${mailDateTime(expiresAt, ctx.config.timeZone)}. You are free not to sign; ask the department if anything is unclear.`,
+          ...signOff(dep),
         ].join('\n'),
       },
     ]);
@@ -101,7 +105,17 @@ export async function handOver(ctx: AppContext, actor: Actor, id: string, req: R
   authorize(actor, 'consents.request', { productionId: r.productionId });
   if (r.mode !== 'tablet') throw invalid({ id: ['This request was sent as a link; it cannot be signed on the tablet.'] });
   if (r.status !== 'open' || r.expiresAt.getTime() <= Date.now()) throw conflict('This request is no longer open.');
-  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'tablet.hand_over', entityType: 'signing_request', entityId: r.id, productionId: r.productionId, req });
+  if (r.archived) throw conflict('This form was taken out of use after it was asked for. Ask again with a current form.', { reason: 'archived' });
+  return lendTablet(ctx, actor, req, r);
+}
+
+/**
+ * Locks this browser's session to the first form (and, for a bundle, the ones after it): the
+ * staff member's access leaves the session and the browser goes through the identity provider's
+ * sign-out on its way to the form.
+ */
+export async function lendTablet(ctx: AppContext, actor: Actor, req: Request, first: RequestRecord, bundle?: { requestIds: string[]; index: number }): Promise<{ ok: true; redirectTo: string }> {
+  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'tablet.hand_over', entityType: 'signing_request', entityId: first.id, productionId: first.productionId, req, details: bundle ? { bundleSize: bundle.requestIds.length } : undefined });
   let redirectTo = '/tablet';
   try {
     const configuration = await ctx.oidc.configuration();
@@ -116,15 +130,43 @@ export async function handOver(ctx: AppContext, actor: Actor, id: string, req: R
   }
   delete req.session.userId;
   delete req.session.idToken;
-  req.session.tablet = { requestId: r.id, staffUserId: actor.userId, phase: 'signing', idempotencyKey: randomUUID() };
+  req.session.tablet = { requestId: first.id, staffUserId: actor.userId, phase: 'signing', idempotencyKey: randomUUID(), ...(bundle ? { bundle } : {}) };
   // A lent tablet left alone locks sooner than a staff session would.
   req.session.cookie.maxAge = ctx.config.tabletIdleMs;
-  await ctx.db.transaction().execute((trx) => markRequestOpened(trx, r.id));
+  await ctx.db.transaction().execute((trx) => markRequestOpened(trx, first.id));
   return { ok: true, redirectTo };
 }
 
+/** A request the tablet can still show: open, in time, and its form still in use. */
+function signable(r: RequestRecord | undefined): r is RequestRecord {
+  return Boolean(r && r.status === 'open' && r.expiresAt.getTime() > Date.now() && !r.archived);
+}
+
+type TabletLock = NonNullable<Request['session']['tablet']>;
+
+/**
+ * After a form is signed or declined: a bundle moves on to its next form still to sign (one
+ * archived meanwhile is passed over); otherwise, or at the end, the tablet goes to the hand-back screen.
+ */
+async function advanceTablet(ctx: AppContext, t: TabletLock): Promise<void> {
+  if (t.bundle) {
+    for (let i = t.bundle.index + 1; i < t.bundle.requestIds.length; i++) {
+      const next = await findRequest(ctx.db, t.bundle.requestIds[i]!);
+      if (signable(next)) {
+        t.bundle.index = i;
+        t.requestId = next.id;
+        t.idempotencyKey = randomUUID();
+        t.phase = 'signing';
+        await ctx.db.transaction().execute((trx) => markRequestOpened(trx, next.id));
+        return;
+      }
+    }
+  }
+  t.phase = 'handback';
+}
+
 /** The exact current text of the requested form, frozen for this viewing by its version id. */
-async function signingForm(ctx: AppContext, r: RequestRecord): Promise<SigningForm> {
+export async function signingForm(ctx: AppContext, r: RequestRecord): Promise<SigningForm> {
   const template = await findCurrentTemplateVersion(ctx.db, r.templateId);
   if (!template) throw notFound('The form');
   return {
@@ -139,13 +181,11 @@ async function signingForm(ctx: AppContext, r: RequestRecord): Promise<SigningFo
 export async function tabletState(ctx: AppContext, req: Request): Promise<TabletState> {
   const t = req.session?.tablet;
   if (!t) return { phase: 'none', form: null, idempotencyKey: null };
+  if (t.phase === 'signing' && !signable(await findRequest(ctx.db, t.requestId))) await advanceTablet(ctx, t);
   if (t.phase === 'handback') return { phase: 'handback', form: null, idempotencyKey: null };
-  const r = await findRequest(ctx.db, t.requestId);
-  if (!r || r.status !== 'open') {
-    t.phase = 'handback';
-    return { phase: 'handback', form: null, idempotencyKey: null };
-  }
-  return { phase: 'signing', form: await signingForm(ctx, r), idempotencyKey: t.idempotencyKey };
+  const r = (await findRequest(ctx.db, t.requestId))!;
+  const progress = t.bundle ? { progress: { position: t.bundle.index + 1, total: t.bundle.requestIds.length } } : {};
+  return { phase: 'signing', form: await signingForm(ctx, r), idempotencyKey: t.idempotencyKey, ...progress };
 }
 
 function clientMeta(req: Request) {
@@ -160,7 +200,7 @@ export async function tabletSubmit(ctx: AppContext, input: SubmitSignatureInput,
   const r = await findRequest(ctx.db, t.requestId);
   if (!r) throw notFound('The signing request');
   const result = await submitSignature(ctx, asOpenRequest(r), input, { ...clientMeta(req), method: 'tablet', staffUserId: t.staffUserId });
-  t.phase = 'handback';
+  await advanceTablet(ctx, t);
   return result;
 }
 
@@ -168,8 +208,9 @@ export async function tabletDecline(ctx: AppContext, req: Request): Promise<{ ok
   const t = req.session?.tablet;
   if (!t) throw new ApiError('unauthenticated', 'This tablet is not lent for signing.');
   if (t.phase !== 'signing') return { ok: true };
-  t.phase = 'handback';
   await recordEvent(ctx.db, { actorUserId: t.staffUserId, action: 'tablet.decline', entityType: 'signing_request', entityId: t.requestId, req });
+  // Declining one form of a bundle keeps those already signed and moves on to the next.
+  await advanceTablet(ctx, t);
   return { ok: true };
 }
 

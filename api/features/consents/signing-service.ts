@@ -11,9 +11,9 @@ import { deliverAll } from '../../mail/deliver.ts';
 import { conflict, invalid, isUniqueViolation } from '../../http/errors.ts';
 import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
-import { findConsentByIdempotencyKey, insertConsent } from './consent-repo.ts';
+import { findConsentByIdempotencyKey, insertConsent, setStaffCopy } from './consent-repo.ts';
 import { lockRequestStatus, markRequestSigned } from './request-repo.ts';
-import { findTemplateVersion, type TemplateVersionRow } from './template-repo.ts';
+import { findTemplateVersion, isTemplateSendable, type TemplateVersionRow } from './template-repo.ts';
 import { acceptSignature } from './signature.ts';
 import { findConfirmedEmail, findPerformerScope } from '../performers/index.ts';
 import { findProductionName } from '../productions/index.ts';
@@ -67,7 +67,7 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
     signatureSha256: sha256Hex(p.signaturePng),
   };
   const hash = contentSha256(content);
-  const pdf = await renderConsentPdf({
+  const rendering = {
     consentId,
     kind: p.template.kind,
     title: p.template.title,
@@ -83,7 +83,8 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
     userAgent: p.userAgent,
     signaturePng: p.signaturePng,
     contentSha256: hash,
-  });
+  };
+  const [pdf, staffPdf] = await Promise.all([renderConsentPdf(rendering), renderConsentPdf({ ...rendering, staffCopy: true })]);
 
   const written: StoredFile[] = [];
   try {
@@ -94,6 +95,9 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
       // A copy that carries health answers is sealed at rest like the answers themselves.
       const file = await storeFile(trx, storageDir, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId, sealed: answers.some((a) => a.medical) });
       written.push(file);
+      // The staff-safe copy holds no health answer, so it is stored as it is.
+      const staffFile = await storeFile(trx, storageDir, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: staffPdf, createdBy: p.staffUserId });
+      written.push(staffFile);
       await insertConsent(
         trx,
         {
@@ -118,6 +122,7 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
         },
         answers,
       );
+      await setStaffCopy(trx, consentId, staffFile);
       if (p.requestId) await markRequestSigned(trx, p.requestId, p.signedAt);
       await writeAudit(trx, {
         actorUserId: p.staffUserId,
@@ -170,6 +175,9 @@ export async function submitSignature(
   if (request.status === 'cancelled') throw conflict('This signing request was withdrawn by the department.', { reason: 'cancelled' });
   if (request.expiresAt.getTime() <= Date.now()) throw conflict('This signing request has expired. Ask the department for a new one.', { reason: 'expired' });
 
+  if (!(await isTemplateSendable(ctx.db, request.templateId))) {
+    throw conflict('The department took this form out of use after sending it, so it can no longer be signed. Nothing was saved.', { reason: 'archived' });
+  }
   const template = await findTemplateVersion(ctx.db, input.templateVersionId);
   // The performer signs the version they were shown, even if the template was edited meanwhile.
   if (!template || template.templateId !== request.templateId) throw invalid({ templateVersionId: ['This is not a version of the requested form.'] });

@@ -6,7 +6,7 @@ import { archivistTasks } from '../archive/index.ts';
 import { listBookings } from '../bookings/index.ts';
 import { piecesShortTask } from '../builds/index.ts';
 import { BOOKING_PURPOSE_LABELS } from '#shared/domain/bookings.ts';
-import { countActiveConsents, countExpiringForProduction, countOpenLinkRequests, listOpenRequestsForPerformer } from '../consents/index.ts';
+import { countActiveConsents, countExpiringForProduction, countNewWithdrawals, countOpenLinkRequests, listOpenRequestsForPerformer } from '../consents/index.ts';
 import { headPatchTestTasks, leadReadingTasks } from '../patch-tests/index.ts';
 import { countEngagedNow } from '../performers/index.ts';
 import { countProductionsWithoutLead } from '../productions/index.ts';
@@ -15,16 +15,25 @@ import { countUsersWithoutAccess } from '../users/index.ts';
 const DAY = 86_400_000;
 type Task = Home['tasks'][number];
 
-async function consentTasks(ctx: AppContext, productionId: string): Promise<Task[]> {
+async function consentTasks(ctx: AppContext, actor: Actor, productionId: string): Promise<Task[]> {
   const now = new Date();
   const until = new Date(now.getTime() + 30 * DAY);
-  const [expiring, upcoming, waiting] = await Promise.all([
+  const [expiring, upcoming, waiting, withdrawn] = await Promise.all([
     countExpiringForProduction(ctx.db, productionId, now, until),
-    listBookings(ctx.db, { productionId, from: now, to: until }),
+    // Every upcoming session waiting for consent stays listed until it is signed (or the session is cancelled).
+    listBookings(ctx.db, { productionId, from: now }),
     countOpenLinkRequests(ctx.db, productionId, now),
+    countNewWithdrawals(ctx, actor.userId, productionId),
   ]);
   const missing = upcoming.filter((b) => b.status === 'booked' && b.consentMissing);
   return [
+    {
+      id: 'withdrawn-since-last-look',
+      title: 'Withdrawn since you last looked',
+      detail: withdrawn ? 'Consents performers withdrew, and the sessions each leaves waiting.' : 'No consent was withdrawn since you last looked.',
+      count: withdrawn,
+      href: '/consents/worklist',
+    },
     {
       id: 'consents-expiring',
       title: 'Consents expiring within 30 days',
@@ -34,13 +43,13 @@ async function consentTasks(ctx: AppContext, productionId: string): Promise<Task
     },
     {
       id: 'bookings-missing-consent',
-      title: 'Upcoming sessions missing a consent',
+      title: 'Sessions waiting for consent',
       detail: missing.length
         ? `Ask for the consent before the session${missing.length > 3 ? `; the first three of ${missing.length}` : ''}:`
-        : 'Every booked session in the next 30 days has the consent it needs.',
+        : 'Every booked session has the consent it needs.',
       count: missing.length,
       href: '/bookings',
-      items: missing.slice(0, 3).map((b) => ({ label: b.performerName, at: b.startsAt })),
+      items: missing.slice(0, 3).map((b) => ({ label: b.consentWithdrawn ? `${b.performerName} (consent withdrawn)` : b.performerName, at: b.startsAt })),
     },
     {
       id: 'signing-links-open',
@@ -107,7 +116,7 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
   }
   if (seat.role === 'archivist') return archivistTasks(ctx.db, actor);
   if (seat.role === 'head' || seat.role === 'lead') {
-    const tasks = await consentTasks(ctx, seat.productionId);
+    const tasks = await consentTasks(ctx, actor, seat.productionId);
     tasks.push({
       id: 'performers-engaged',
       title: 'Performers engaged',

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import { BookingListSchema, BookingSchema, type CreateBookingInput, type RescheduleBookingInput } from '#shared/schemas/bookings.ts';
+import { BookingListSchema, BookingSchema, BookingStaffSchema, ConsentCheckSchema, type CreateBookingInput, type RescheduleBookingInput } from '#shared/schemas/bookings.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
 import { bookingsKey, homeKey, performersKey } from '../../lib/query-keys.ts';
 
@@ -37,5 +37,29 @@ export function useRescheduleBooking() {
   return useMutation({
     mutationFn: ({ id, input }: { id: string; input: RescheduleBookingInput }) => api.post(`/api/bookings/${encodeURIComponent(id)}/reschedule`, input, BookingSchema),
     onSettled: () => bookingsChanged(queryClient),
+  });
+}
+
+/** Whether a session being booked would wait for consent, asked as soon as purpose and time are chosen. */
+export function consentCheckQueryOptions(q: { performerId: string; productionId: string; purpose: string; startsAt: string }) {
+  return queryOptions({
+    queryKey: [...bookingsKey, 'consent-check', q] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/bookings/consent-check', q), ConsentCheckSchema, signal),
+  });
+}
+
+export function bookingStaffQueryOptions(productionId: string) {
+  return queryOptions({
+    queryKey: [...bookingsKey, 'staff', productionId] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/bookings/staff', { productionId }), BookingStaffSchema, signal),
+    staleTime: 5 * 60_000,
+  });
+}
+
+/** Sessions in a calendar window, past ones included. */
+export function bookingsWindowQueryOptions(productionId: string, from: string, to: string) {
+  return queryOptions({
+    queryKey: [...bookingsKey, 'window', productionId, from, to] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/bookings', { productionId, from, to }), BookingListSchema, signal),
   });
 }

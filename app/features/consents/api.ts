@@ -16,6 +16,8 @@ import {
   type TabletState,
   type SubmitSignatureInput,
 } from '#shared/schemas/consents.ts';
+import { HealthSummarySchema, HealthWorklistSchema, WithdrawalNoticeListSchema } from '#shared/schemas/consent-notices.ts';
+import { BundleLinkViewSchema, SigningBundleSchema, type CreateSigningBundleInput } from '#shared/schemas/consent-bundles.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
 import { consentsKey, homeKey, performersKey, signingLinkKey, signingRequestsKey, tabletKey, withdrawalLinkKey, invalidate } from '../../lib/query-keys.ts';
 
@@ -140,4 +142,72 @@ export function useWithdrawByLink(token: string) {
 /** The upload that checks a PDF (multipart field "file"), for useUpload().start. */
 export function verifyUpload(file: File) {
   return { url: '/api/consents/verify', field: 'file', file, schema: VerifyResultSchema };
+}
+
+// ---- several forms at once
+
+export function useCreateSigningBundle() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CreateSigningBundleInput) => api.post('/api/signing-bundles', input, SigningBundleSchema),
+    onSuccess: () => invalidate(queryClient, [signingRequestsKey, homeKey]),
+  });
+}
+
+/** Lends this browser for every form of a bundle still to sign; one hand-back at the end. */
+export function handOverBundle(bundleId: string) {
+  return api.post(`/api/signing-bundles/${encodeURIComponent(bundleId)}/hand-over`, {}, HandOverResultSchema);
+}
+
+export function signingBundleLinkQueryOptions(token: string) {
+  return queryOptions({
+    queryKey: [...signingLinkKey, 'bundle', token] as const,
+    queryFn: ({ signal }) => api.get(`/api/signing-bundles/link/${encodeURIComponent(token)}`, BundleLinkViewSchema, signal),
+    staleTime: Infinity,
+    refetchOnWindowFocus: false,
+    gcTime: 0,
+  });
+}
+
+export function submitBundleForm(token: string, requestId: string, input: SubmitSignatureInput) {
+  return api.post(`/api/signing-bundles/link/${encodeURIComponent(token)}/requests/${encodeURIComponent(requestId)}`, input, SubmitSignatureResultSchema);
+}
+
+// ---- the department's consent worklist
+
+export function withdrawalNoticesQueryOptions(productionId: string) {
+  return queryOptions({
+    queryKey: [...consentsKey, 'withdrawal-notices', productionId] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/consent-notices/withdrawals', { productionId }), WithdrawalNoticeListSchema, signal),
+  });
+}
+
+export function useMarkWithdrawalsSeen() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { productionId: string; seenAt: string }) => api.post('/api/consent-notices/withdrawals/seen', input, OkSchema),
+    onSuccess: () => invalidate(queryClient, [consentsKey, homeKey]),
+  });
+}
+
+export function healthWorklistQueryOptions(productionId: string) {
+  return queryOptions({
+    queryKey: [...consentsKey, 'health-worklist', productionId] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/consent-notices/health', { productionId }), HealthWorklistSchema, signal),
+  });
+}
+
+export function useConfirmHealthReview() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { performerId: string; productionId: string; reviewedAt: string }) => api.post('/api/consent-notices/health/reviews', input, OkSchema),
+    onSuccess: () => invalidate(queryClient, [consentsKey, homeKey]),
+  });
+}
+
+export function healthSummaryQueryOptions(performerId: string) {
+  return queryOptions({
+    queryKey: [...consentsKey, 'health-summary', performerId] as const,
+    queryFn: ({ signal }) => api.get(withQuery('/api/consent-notices/health-summary', { performerId }), HealthSummarySchema, signal),
+  });
 }

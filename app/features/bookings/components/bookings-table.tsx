@@ -13,16 +13,20 @@ import { BOOKING_PURPOSE_LABELS, neededConsentLabel } from './purpose.ts';
 
 const STATUS_LABELS: Record<Booking['status'], string> = { booked: 'Booked', cancelled: 'Cancelled', done: 'Done' };
 
-/** "Consent missing" in words and with its mark, naming the consent the session needs. */
+/** "Waiting for consent" (or "Consent withdrawn") in words and with its mark, naming the consent the session needs. */
 export function ConsentGate({ booking: b }: { booking: Booking }) {
   if (b.status !== 'booked') return <span className="text-ink-600">{STATUS_LABELS[b.status]}</span>;
   if (b.consentMissing) {
     return (
-      <span className="flex flex-col items-start gap-0.5" data-testid="consent-missing">
+      <span className="flex flex-col items-start gap-0.5" data-testid="consent-missing" data-withdrawn={b.consentWithdrawn ? 'true' : undefined}>
         <IconBadge icon="warning" tone="danger">
-          Consent missing
+          {b.consentWithdrawn ? 'Consent withdrawn' : 'Waiting for consent'}
         </IconBadge>
-        <span className="text-sm text-ink-700">Needs an active {neededConsentLabel(b.purpose).toLowerCase()} when it starts.</span>
+        <span className="text-sm text-ink-700">
+          {b.consentWithdrawn ? 'The performer withdrew the ' : 'Needs an active '}
+          {neededConsentLabel(b.purpose).toLowerCase()}
+          {b.consentWithdrawn ? ' this session needed. Do not go ahead until they sign again.' : ' when it starts.'}
+        </span>
       </span>
     );
   }
@@ -73,6 +77,11 @@ export function BookingsTable({ bookings, caption, showPerformer = false, canCan
             <Tr key={b.id}>
               <Td className="whitespace-nowrap">
                 <time dateTime={b.startsAt}>{formatDateTime(b.startsAt)}</time>
+                {b.endsAt ? (
+                  <span className="block text-sm text-ink-700">
+                    until <time dateTime={b.endsAt}>{formatDateTime(b.endsAt)}</time>
+                  </span>
+                ) : null}
               </Td>
               <Td className="font-semibold">{BOOKING_PURPOSE_LABELS[b.purpose]}</Td>
               {showPerformer ? (
@@ -82,7 +91,10 @@ export function BookingsTable({ bookings, caption, showPerformer = false, canCan
                   </Link>
                 </Td>
               ) : null}
-              <Td>{b.location ?? <span className="text-ink-600">Not set</span>}</Td>
+              <Td>
+                {b.location ?? <span className="text-ink-600">Not set</span>}
+                {b.artist ? <span className="block text-sm text-ink-700">Artist: {b.artist.name}</span> : null}
+              </Td>
               <Td>
                 <ConsentGate booking={b} />
               </Td>

@@ -12,6 +12,7 @@ import { seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { bookingsQueryOptions } from '../api.ts';
 import { BookingsTable } from '../components/bookings-table.tsx';
+import { SessionCalendar } from '../components/session-calendar.tsx';
 
 export async function bookingsLoader() {
   const session = await queryClient.ensureQueryData(sessionQueryOptions()).catch(() => undefined);
@@ -28,11 +29,20 @@ export function BookingsPage() {
     <>
       <PageHeading
         title="Sessions"
-        lead={production ? `Patch tests, life casts and applications booked on ${production.name}. Book a session from the performer’s page.` : undefined}
+        lead={production ? `Patch tests, life casts and applications booked on ${production.name}. Book from the calendar or from the performer’s page.` : undefined}
       >
         Sessions
       </PageHeading>
-      {production ? <Bookings productionId={production.id} canCancel={seatCan(session, 'patchtests.book')} /> : <p className="text-ink-700">Switch “Acting as” to a production.</p>}
+      {production ? (
+        <div className="flex flex-col gap-8">
+          <Section title="Calendar" testId="calendar-section">
+            <SessionCalendar productionId={production.id} canBook={seatCan(session, 'sessions.book')} />
+          </Section>
+          <Bookings productionId={production.id} canCancel={seatCan(session, 'patchtests.book')} />
+        </div>
+      ) : (
+        <p className="text-ink-700">Switch “Acting as” to a production.</p>
+      )}
     </>
   );
 }
@@ -50,7 +60,7 @@ function Bookings({ productionId, canCancel }: { productionId: string; canCancel
             ) : (
               <>
                 <p className={missing ? 'font-semibold text-brick-700' : 'text-ink-700'}>
-                  {missing === 1 ? 'One session is missing the consent it needs.' : missing ? `${plural(missing, 'session', 'sessions')} are missing the consent they need.` : 'Every booked session has the consent it needs.'}
+                  {missing === 1 ? 'One session is waiting for consent.' : missing ? `${plural(missing, 'session', 'sessions')} are waiting for consent.` : 'Every booked session has the consent it needs.'}
                 </p>
                 <BookingsTable bookings={data.items} caption="Upcoming sessions" showPerformer canCancel={canCancel} />
               </>

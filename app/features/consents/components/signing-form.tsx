@@ -36,6 +36,8 @@ interface SigningFormProps {
   /** The tablet only: "I don't want to sign now". */
   decline?: () => Promise<unknown>;
   onDeclined?: () => void;
+  /** Where this form stands among several signed one after another: declining moves on to the next. */
+  progress?: { position: number; total: number };
 }
 
 const AGREE_MESSAGE = {
@@ -64,7 +66,7 @@ function answered(answers: SigningValues['answers']): Record<string, boolean | s
  * The one signing form, for the lent tablet and for a one-time link: the exact text, the
  * questionnaire, the printed name, the agreement (never pre-ticked) and a finger signature.
  */
-export function SigningFormView({ form: signing, idempotencyKey, mode, submit, onSigned, decline, onDeclined }: SigningFormProps) {
+export function SigningFormView({ form: signing, idempotencyKey, mode, submit, onSigned, decline, onDeclined, progress }: SigningFormProps) {
   const { template } = signing;
   const schema = useMemo(() => signingSchema(template.questions, mode), [template.questions, mode]);
   const form = useForm<SigningValues>({
@@ -157,6 +159,11 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
   return (
     <form noValidate onSubmit={(e) => void form.handleSubmit(send, focusFirstMissing)(e)} className="flex flex-col gap-8 text-lg" aria-label={template.title} data-testid="signing-form">
       <header className="flex flex-col gap-2">
+        {progress ? (
+          <p className="text-xl font-bold text-clay-700" data-testid="signing-progress">
+            Form {progress.position} of {progress.total}
+          </p>
+        ) : null}
         <p className="text-lg font-semibold text-ink-700">
           {CONSENT_KIND_LABELS[template.kind]} · version {template.version}
           {signing.productionName ? ` · ${signing.productionName}` : ''}
@@ -246,7 +253,7 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
       <div className="flex flex-col-reverse gap-4 border-t border-sand-300 pt-6 sm:flex-row sm:items-center sm:justify-between">
         {decline ? (
           <Button variant="secondary" className="min-h-14 text-lg" onClick={() => setConfirmDecline(true)} disabled={isSubmitting}>
-            I don’t want to sign now
+            {progress ? 'I don’t want to sign this one' : 'I don’t want to sign now'}
           </Button>
         ) : (
           <span />
@@ -259,15 +266,19 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
       {decline ? (
         <ConfirmDialog
           open={confirmDecline}
-          title="Not signing now?"
-          confirmLabel="Yes, hand the tablet back"
+          title={progress ? 'Not signing this form?' : 'Not signing now?'}
+          confirmLabel={progress ? (progress.position < progress.total ? 'Yes, go to the next form' : 'Yes, finish') : 'Yes, hand the tablet back'}
           tone="primary"
           pending={declining}
           error={declineError}
           onCancel={() => setConfirmDecline(false)}
           onConfirm={() => void onDecline()}
         >
-          <p>Nothing you entered is kept. The tablet will ask you to hand it back to the department; they can ask you again another time.</p>
+          <p>
+            {progress
+              ? 'Nothing you entered on this form is kept. Forms you already signed stay signed. The department can ask you about this one again another time.'
+              : 'Nothing you entered is kept. The tablet will ask you to hand it back to the department; they can ask you again another time.'}
+          </p>
         </ConfirmDialog>
       ) : null}
     </form>

@@ -110,6 +110,9 @@ function ConsentBody({ consent: c }: { consent: ConsentDetail }) {
                 Download PDF
               </a>
             ) : null}
+            <a href={serverPaths.consentStaffPdf(c.id)} download={`consent-${c.id}-staff-copy.pdf`} className={buttonClasses('secondary')} data-testid="download-staff-pdf">
+              Staff copy (PDF, no health answers)
+            </a>
             {c.canWithdraw ? (
               <Button variant="danger" onClick={() => setOpen(true)} data-testid="withdraw-open">
                 Withdraw this consent
@@ -149,7 +152,10 @@ function ConsentBody({ consent: c }: { consent: ConsentDetail }) {
           ) : null}
         </dl>
         {!c.canDownloadPdf ? (
-          <p className="text-ink-700">The signed PDF holds health answers, so only the designated lead and the performer can download it.</p>
+          <p className="text-ink-700">
+            The signed PDF holds health answers, so only the designated lead and the performer can download it. The staff copy has the same text, signer,
+            time, signature and fingerprint, with the health answers withheld.
+          </p>
         ) : null}
       </Section>
 

@@ -46,9 +46,15 @@ export function TabletPage() {
   if (state.phase === 'handback' || !state.form || !state.idempotencyKey) return <HandBackScreen />;
 
   const done = () => {
+    window.history.replaceState(null, '', paths.tablet.href());
+    window.scrollTo({ top: 0 });
+    // In a bundle the server has moved on to the next form (or to the hand-back screen): ask it which.
+    if (state.progress) {
+      void tablet.refetch();
+      return;
+    }
     // The server has moved to the hand-back phase; drop the form from memory and history alike.
     queryClient.setQueryData(tabletQueryOptions().queryKey, HANDBACK);
-    window.history.replaceState(null, '', paths.tablet.href());
   };
 
   return (
@@ -70,6 +76,7 @@ export function TabletPage() {
         onSigned={done}
         decline={declineOnTablet}
         onDeclined={done}
+        progress={state.progress}
       />
     </PublicFrame>
   );

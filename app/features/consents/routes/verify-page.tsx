@@ -101,6 +101,9 @@ function VerifyOutcome({ result }: { result: VerifyResult }) {
             <span className="font-bold">This is an unaltered consent Plinth issued:</span> {c.performerName}, {c.title} v{c.templateVersion} (
             {CONSENT_KIND_LABELS[c.kind]}), signed <time dateTime={c.signedAt}>{formatDateTime(c.signedAt)}</time>, now{' '}
             {CONSENT_STATE_LABELS[c.state].toLowerCase()}.{' '}
+            <span data-testid="verify-copy">
+              {result.copy === 'staff' ? 'This file is the staff copy: health answers are withheld from it.' : 'This file is the full signed copy.'}
+            </span>{' '}
             <Link to={paths.consent.href(c.id)} className="font-semibold">
               Open the consent
             </Link>

@@ -8,6 +8,7 @@ import { useSession } from '../../../lib/session/session-context.tsx';
 import { homeQueryOptions } from '../api.ts';
 import { StartActions } from '../components/start-actions.tsx';
 import { TaskCard } from '../components/task-card.tsx';
+import { ConsentWorkPanels } from '../../consents/index.ts';
 
 /** One line on what this seat is for, so a person switching seats knows which hat they wear. */
 const ROLE_INTROS: Record<ActingRole, string> = {
@@ -69,6 +70,11 @@ export function HomePage() {
           </>
         )}
       </QueryView>
+      {(role === 'head' || role === 'lead') && home.data?.productionId ? (
+        <div className="mt-8">
+          <ConsentWorkPanels productionId={home.data.productionId} isLead={role === 'lead'} />
+        </div>
+      ) : null}
     </>
   );
 }

@@ -16,7 +16,7 @@ import { errorMessage, isApiError } from '../../../lib/api-client.ts';
 import { formatDate, formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { templatesQueryOptions } from '../../consent-forms/index.ts';
-import { handOver, signingRequestsQueryOptions, useCancelSigningRequest, useCreateSigningRequest } from '../../consents/index.ts';
+import { handOver, handOverBundle, signingRequestsQueryOptions, useCancelSigningRequest, useCreateSigningBundle, useCreateSigningRequest } from '../../consents/index.ts';
 import { ConsentStateBadge } from '../../../components/consent/consent-state.tsx';
 import { displayName } from './names.tsx';
 
@@ -86,8 +86,8 @@ export function ConsentsSection({ performer: p, requestOn }: ConsentsSectionProp
  * Lending this browser to the performer: the server locks the session to the one form, and a full
  * page load leaves nothing of the staff's screens in memory (or in history: it replaces this page).
  */
-async function lendTablet(queryClient: ReturnType<typeof useQueryClient>, requestId: string) {
-  const { redirectTo } = await handOver(requestId);
+async function lendTablet(queryClient: ReturnType<typeof useQueryClient>, requestId: string, bundle = false) {
+  const { redirectTo } = await (bundle ? handOverBundle(requestId) : handOver(requestId));
   queryClient.clear();
   // Through the identity provider's sign-out (ending the staff member's remembered sign-in), then to the form.
   window.location.replace(redirectTo);
@@ -197,8 +197,10 @@ function AskToSignDialog({ open, onClose, performer: p, production }: { open: bo
 function AskToSign({ performer: p, production, onDone }: { performer: PerformerDetail; production: { id: string; name: string }; onDone: () => void }) {
   const queryClient = useQueryClient();
   const templates = useQuery(templatesQueryOptions());
-  const create = useCreateSigningRequest();
-  const [templateId, setTemplateId] = useState('');
+  const createOne = useCreateSigningRequest();
+  const createBundle = useCreateSigningBundle();
+  const [templateIds, setTemplateIds] = useState<string[]>([]);
+  const pendingMode = createOne.isPending ? createOne.variables?.mode : createBundle.isPending ? createBundle.variables?.mode : undefined;
   const [choiceError, setChoiceError] = useState<string | null>(null);
   const [error, setError] = useState<unknown>(null);
   const [sentTo, setSentTo] = useState<string | null>(null);
@@ -206,24 +208,28 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
   const groupId = useId();
   const email = p.contact?.email ?? null;
   const unconfirmed = email !== null && p.contact?.emailConfirmed === false;
-  const busy = create.isPending || lending;
+  const busy = pendingMode !== undefined || lending;
 
   async function ask(mode: 'tablet' | 'link') {
     setError(null);
-    if (!templateId) {
-      setChoiceError('Choose a form first.');
+    if (templateIds.length === 0) {
+      setChoiceError('Choose at least one form first.');
       document.getElementById(`${groupId}-first`)?.focus();
       return;
     }
     setChoiceError(null);
     try {
-      const request = await create.mutateAsync({ performerId: p.id, templateId, productionId: production.id, mode });
+      // One form is a single request; several go as one bundle: one hand-over, or one e-mail with one link.
+      const sent =
+        templateIds.length === 1
+          ? await createOne.mutateAsync({ performerId: p.id, templateId: templateIds[0]!, productionId: production.id, mode })
+          : await createBundle.mutateAsync({ performerId: p.id, templateIds, productionId: production.id, mode });
       if (mode === 'tablet') {
         setLending(true);
-        await lendTablet(queryClient, request.id);
+        await lendTablet(queryClient, sent.id, templateIds.length > 1);
         return;
       }
-      setSentTo(request.sentTo ?? email ?? 'their e-mail address');
+      setSentTo(sent.sentTo ?? email ?? 'their e-mail address');
     } catch (err) {
       setLending(false);
       setError(err);
@@ -234,7 +240,7 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
     return (
       <div className="flex flex-col gap-4">
         <output className="block text-lg">
-          Sent. A one-time link is on its way to <span className="font-semibold break-all">{sentTo}</span>; it works for 7 days.
+          Sent. {templateIds.length > 1 ? `One link for all ${templateIds.length} forms` : 'A one-time link'} is on its way to <span className="font-semibold break-all">{sentTo}</span>; it works for 7 days.
         </output>
         <div className="flex justify-end">
           <Button onClick={onDone}>Done</Button>
@@ -244,6 +250,7 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
   }
 
   const fieldErrors = isApiError(error) ? error.fields : {};
+  const templateError = fieldErrors.templateId ?? fieldErrors.templateIds ?? Object.entries(fieldErrors).find(([k]) => k.startsWith('templateIds.'))?.[1];
   return (
     <QueryView query={templates} loadingLabel="Loading consent forms…">
       {(data) =>
@@ -251,8 +258,9 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
           <EmptyState title="There are no consent forms to send.">Forms are written under “Consent forms”.</EmptyState>
         ) : (
           <div className="flex flex-col gap-5">
-            <fieldset className="flex flex-col gap-2" aria-describedby={choiceError || fieldErrors.templateId ? `${groupId}-error` : undefined}>
-              <legend className="mb-1 font-semibold text-ink-900">Which form?</legend>
+            <fieldset className="flex flex-col gap-2" aria-describedby={choiceError || templateError ? `${groupId}-error` : undefined}>
+              <legend className="mb-1 font-semibold text-ink-900">Which forms?</legend>
+              <p className="text-sm text-ink-700">Choose one or several: they are signed one after another, each its own consent.</p>
               {data.items.map((t, i) => (
                 <label
                   key={t.id}
@@ -260,11 +268,14 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
                 >
                   <input
                     id={i === 0 ? `${groupId}-first` : undefined}
-                    type="radio"
+                    type="checkbox"
                     name={`${groupId}-template`}
                     value={t.id}
-                    checked={templateId === t.id}
-                    onChange={() => setTemplateId(t.id)}
+                    checked={templateIds.includes(t.id)}
+                    onChange={(e) => {
+                      const on = e.currentTarget.checked;
+                      setTemplateIds((ids) => (on ? [...ids, t.id] : ids.filter((x) => x !== t.id)));
+                    }}
                     className="size-5 shrink-0 accent-clay-700"
                   />
                   <span className="font-semibold">
@@ -275,9 +286,9 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
                   </span>
                 </label>
               ))}
-              {choiceError || fieldErrors.templateId ? (
+              {choiceError || templateError ? (
                 <p id={`${groupId}-error`} className="text-sm font-semibold text-brick-700">
-                  {choiceError ?? fieldErrors.templateId?.join(' ')}
+                  {choiceError ?? templateError?.join(' ')}
                 </p>
               ) : null}
             </fieldset>
@@ -287,7 +298,7 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
                 <span className="font-semibold">On this tablet:</span> hand it to {displayName(p)}. It shows only this form; afterwards staff sign in again with
                 their password.
               </p>
-              <Button onClick={() => void ask('tablet')} pending={lending || (create.isPending && create.variables?.mode === 'tablet')} pendingLabel="Handing over…" disabled={busy} data-testid="sign-on-tablet">
+              <Button onClick={() => void ask('tablet')} pending={lending || pendingMode === 'tablet'} pendingLabel="Handing over…" disabled={busy} data-testid="sign-on-tablet">
                 Sign here on this tablet
               </Button>
             </div>
@@ -310,7 +321,7 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
               <Button
                 variant="secondary"
                 onClick={() => void ask('link')}
-                pending={create.isPending && create.variables?.mode === 'link'}
+                pending={pendingMode === 'link'}
                 pendingLabel="Sending…"
                 disabled={busy || (p.contact !== null && (!email || unconfirmed))}
                 data-testid="send-link"
@@ -318,7 +329,7 @@ function AskToSign({ performer: p, production, onDone }: { performer: PerformerD
                 Send a link by e-mail
               </Button>
             </div>
-            {error && !fieldErrors.templateId ? (
+            {error && !templateError ? (
               <ErrorBanner message={fieldErrors.mode?.join(' ') ?? fieldErrors.performerId?.join(' ') ?? errorMessage(error)} />
             ) : null}
           </div>

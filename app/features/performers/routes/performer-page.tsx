@@ -18,6 +18,7 @@ import { PerformerCasts } from '../../archive/index.ts';
 import { PerformerBuilds } from '../../builds/index.ts';
 import { PerformerPatchTests } from '../../patch-tests/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
+import { HealthSummarySection } from '../../consents/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { performerQueryOptions, useResendConfirmation } from '../api.ts';
@@ -136,6 +137,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
 
       <PageAnchor id="consents">
         <ConsentsSection performer={p} requestOn={requestOn} />
+        {seatCan(session, 'medical.read') && !isSelf ? <HealthSummarySection performerId={p.id} /> : null}
       </PageAnchor>
 
       <PageAnchor id="sessions">
