@@ -18,6 +18,7 @@ import { parseConfig } from '../api/config.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
+import { localFileStore } from '../api/files/drivers.ts';
 import { installKeyring, keyringOf } from '../api/crypto/medical.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
 import { BODY_REGIONS, CAST_KINDS } from '../shared/domain/archive-casts.ts';
@@ -82,7 +83,7 @@ try {
   process.on('exit', () => rmSync(storage, { recursive: true, force: true }));
   const s0 = performance.now();
   installKeyring(keyringOf(randomBytes(32).toString('base64')));
-  await seedDemo(handle.db, { storageDir: storage });
+  await seedDemo(handle.db, { files: localFileStore(storage) });
   console.log(`Demo scenario (11 signed consents with PDFs) seeded in ${((performance.now() - s0) / 1000).toFixed(2)} s`);
   const t0 = performance.now();
   for (let i = 0; i < USERS; i += 1000) {
@@ -142,7 +143,7 @@ try {
   const secret = 'bench-session-secret-0123456789abcdef-xyz';
   const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench'), STORAGE_DIR: storage });
   const app = createApp({
-    ctx: { config, db: handle.db, mailer: { send: async () => ({ messageId: 'bench' }), close() {} }, oidc: createOidcClient(config.oidc), log: () => {} },
+    ctx: { config, db: handle.db, files: localFileStore(storage), mailer: { send: async () => ({ messageId: 'bench' }), close() {} }, oidc: createOidcClient(config.oidc), log: () => {} },
     pool: handle.pool,
   });
   const plinth = await listen(app);
