@@ -1,5 +1,6 @@
 // Database types, kept by hand in step with migrations/ (one interface per table).
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+import type { ClearanceOverridesTable, PatchTestPhotosTable, PatchTestProductsTable, PatchTestReadingsTable, PatchTestsTable } from './schema-patch-tests.ts';
 
 type Timestamp = ColumnType<Date, Date | string | undefined, Date | string>;
 type DateCol = ColumnType<string, string | null | undefined, string | null>;
@@ -550,6 +551,11 @@ export interface Database {
   appliance_build_materials: ApplianceBuildMaterialsTable;
   appliance_pieces: AppliancePiecesTable;
   appliance_plans: AppliancePlansTable;
+  patch_tests: PatchTestsTable;
+  patch_test_products: PatchTestProductsTable;
+  patch_test_readings: PatchTestReadingsTable;
+  patch_test_photos: PatchTestPhotosTable;
+  clearance_overrides: ClearanceOverridesTable;
 }
 
 export type UserRow = Selectable<UsersTable>;
