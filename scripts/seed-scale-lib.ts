@@ -10,6 +10,7 @@ export interface ScaleSizes {
   products: number;
   casts: number;
   audit: number;
+  readings: number;
   productions: number;
   staff: number;
 }

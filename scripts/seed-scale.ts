@@ -2,7 +2,8 @@
  * `npm run seed:scale`: a large studio in a database of its own (see scripts/scale-db.ts), for
  * `npm run bench -- --scale`: the demo scenario, then SCALE_PERFORMERS performers (20,000),
  * SCALE_PRODUCTS products with formulations and lots (5,000), SCALE_CASTS casts with their
- * movements (100,000) and SCALE_AUDIT audit entries (1,000,000). The database is emptied first.
+ * movements (100,000), SCALE_READINGS patch-test readings (200,000) and SCALE_AUDIT audit
+ * entries (1,000,000). The database is emptied first.
  */
 import { rm } from 'node:fs/promises';
 import pg from 'pg';
@@ -14,6 +15,7 @@ import { seedDemo } from '../api/db/seed.ts';
 import { localFileStore } from '../api/files/drivers.ts';
 import { ensureDefaultProtocols } from '../api/features/protocols/index.ts';
 import { openScaleDatabase, SCALE_DATABASE } from './scale-db.ts';
+import { loadPatchTests } from './seed-scale-tests.ts';
 import { loadAudit, loadCasts, loadCatalogue, loadPerformers, loadStaffAndProductions, type ScaleSizes } from './seed-scale-lib.ts';
 
 const size = (name: string, fallback: number) => {
@@ -26,6 +28,7 @@ const N: ScaleSizes = {
   products: size('SCALE_PRODUCTS', 5_000),
   casts: size('SCALE_CASTS', 100_000),
   audit: size('SCALE_AUDIT', 1_000_000),
+  readings: size('SCALE_READINGS', 200_000),
   productions: size('SCALE_PRODUCTIONS', 60),
   staff: size('SCALE_STAFF', 400),
 };
@@ -79,13 +82,18 @@ try {
     await step(`${N.performers.toLocaleString('en')} performers and their engagements`, () => loadPerformers(client, N.performers - 6));
     await step(`${N.products.toLocaleString('en')} products, formulations, ingredients and lots`, () => loadCatalogue(client, N.products));
     await step(`${N.casts.toLocaleString('en')} casts and their movements`, () => loadCasts(client, N.casts, () => {}));
+    const junoTests = size('SCALE_JUNO_TESTS', 200);
+    await step(`${N.readings.toLocaleString('en')} patch-test readings (Juno Castellane: ${junoTests} tests of a 30-product kit)`, () =>
+      loadPatchTests(client, { readings: N.readings, junoTests, kitSize: 30 }),
+    );
     await step(`${N.audit.toLocaleString('en')} audit entries`, () => loadAudit(client, N.audit, () => {}));
     await step('vacuum analyze', () => client.query('vacuum analyze'));
     const counts = await client.query<{ t: string; n: string }>(
       `select t, n from (values ('performers', (select count(*) from performers)), ('engagements', (select count(*) from engagements)),
          ('products', (select count(*) from products)), ('product_formulations', (select count(*) from product_formulations)),
          ('product_lots', (select count(*) from product_lots)), ('casts', (select count(*) from casts)),
-         ('cast_movements', (select count(*) from cast_movements)), ('audit_log', (select count(*) from audit_log))) v(t, n)`,
+         ('cast_movements', (select count(*) from cast_movements)), ('patch_tests', (select count(*) from patch_tests)),
+         ('patch_test_readings', (select count(*) from patch_test_readings)), ('audit_log', (select count(*) from audit_log))) v(t, n)`,
     );
     console.log(`\nIn ${SCALE_DATABASE}: ${counts.rows.map((r) => `${r.t} ${Number(r.n).toLocaleString('en')}`).join(', ')}`);
     console.log(`Done in ${((performance.now() - started) / 1000).toFixed(1)} s. Measure it with: npm run bench -- --scale`);
