@@ -6,6 +6,8 @@ import type { Config } from '../api/config.ts';
 import { type Cluster, startCluster } from './pg.ts';
 
 export const SCALE_DATABASE = 'plinth_scale';
+/** Health details in the scale data set are sealed with this made-up key, never the studio's. */
+export const SCALE_MEDICAL_KEY = Buffer.alloc(32, 42).toString('base64');
 const root = path.resolve(import.meta.dirname, '..');
 
 export interface ScaleDatabase {

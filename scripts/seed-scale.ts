@@ -14,7 +14,7 @@ import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
 import { localFileStore } from '../api/files/drivers.ts';
 import { ensureDefaultProtocols } from '../api/features/protocols/index.ts';
-import { openScaleDatabase, SCALE_DATABASE } from './scale-db.ts';
+import { openScaleDatabase, SCALE_DATABASE, SCALE_MEDICAL_KEY } from './scale-db.ts';
 import { loadPatchTests } from './seed-scale-tests.ts';
 import { loadAudit, loadCasts, loadCatalogue, loadPerformers, loadStaffAndProductions, type ScaleSizes } from './seed-scale-lib.ts';
 
@@ -70,7 +70,7 @@ try {
     if (!scale.cluster && Number(existing.rows[0]!.n) > 0) throw new Error('SCALE_DATABASE_URL names a database that already has tables; give seed:scale an empty one.');
     await step('migrations', () => migrateToLatest(handle.db));
     // The scale database seals health details with a key of its own, never the studio's.
-    installKeyring(keyringOf(Buffer.alloc(32, 42).toString('base64')));
+    installKeyring(keyringOf(SCALE_MEDICAL_KEY));
     await step('demo scenario (The Lantern Keeper) and default protocols', async () => {
       await seedDemo(handle.db, { files: localFileStore(scale.storageDir) });
       await ensureDefaultProtocols(handle.db);
