@@ -126,7 +126,7 @@ try {
   // The routes a studio leans on all day; measured at every connection count, their reads EXPLAINed.
   const hot: Target[] = [
     { label: 'performer search ?q=castelane (head)', url: `${p}/api/performers?q=castelane`, cookie: head },
-    { label: 'performer search ?q=thistlewood (head)', url: `${p}/api/performers?q=thistlewood`, cookie: head },
+    { label: 'performer search ?q=thistlethorpe (head)', url: `${p}/api/performers?q=thistlethorpe`, cookie: head },
     { label: 'cast search fuzzy "castelane" (archivist)', url: `${p}/api/casts?q=castelane`, cookie: archivist },
     { label: 'cast search label code (archivist)', url: `${p}/api/casts?q=${someLabel}`, cookie: archivist },
     { label: "lead's home GET /api/home (lead)", url: `${p}/api/home`, cookie: lead },

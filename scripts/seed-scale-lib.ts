@@ -18,6 +18,9 @@ export interface ScaleSizes {
 // Invented name parts; any resemblance to a real person is chance.
 const GIVEN = ['Ansel', 'Brisa', 'Caius', 'Delphine', 'Emrys', 'Fenna', 'Galen', 'Hesper', 'Ilsa', 'Jory', 'Kestrel', 'Linnea', 'Mireille', 'Nico', 'Orla', 'Perrin', 'Quill', 'Rosalind', 'Soren', 'Tamsin', 'Ulla', 'Vesper', 'Wren', 'Xanthe', 'Yannick', 'Zelda', 'Aurek', 'Bryony', 'Cassian', 'Dorit', 'Elowen', 'Florian'];
 const FAMILY = ['Ashcombe', 'Brindlewood', 'Carrow', 'Dunmore', 'Elsworth', 'Fairbairn', 'Gorsefield', 'Hallowell', 'Ingleby', 'Jessamy', 'Kettering', 'Larkspur', 'Marchbank', 'Netherby', 'Oakhurst', 'Pendry', 'Quarrington', 'Rookwood', 'Saltmarsh', 'Thistlewood', 'Underhill', 'Vantreight', 'Whitlock', 'Yarrowby', 'Zennor', 'Applegarth', 'Blackmere', 'Coldharbour', 'Drummond-Vey', 'Esterhay', 'Fallowfield', 'Greystoke-Amar'];
+// Family names from two invented halves (1,600 of them), so a surname finds a dozen people, as in a real registry.
+const FAMILY_HEAD = ['Ash', 'Brin', 'Car', 'Dun', 'Els', 'Fair', 'Gorse', 'Hal', 'Ing', 'Jess', 'Ket', 'Lark', 'March', 'Neth', 'Oak', 'Pen', 'Quar', 'Rook', 'Salt', 'Thist', 'Under', 'Van', 'Whit', 'Yar', 'Zen', 'Apple', 'Black', 'Cold', 'Drum', 'Ester', 'Fallow', 'Grey', 'Holm', 'Ivy', 'Juni', 'Kel', 'Lin', 'Moss', 'Nor', 'Orr'];
+const FAMILY_TAIL = ['combe', 'dlewood', 'row', 'more', 'worth', 'bairn', 'field', 'lowell', 'leby', 'amy', 'tering', 'spur', 'bank', 'erby', 'hurst', 'dry', 'rington', 'wood', 'marsh', 'lethorpe', 'hill', 'treight', 'lock', 'rowby', 'nor', 'garth', 'mere', 'harbour', 'mond', 'hay', 'ford', 'stoke', 'gate', 'bridge', 'wick', 'ley', 'stead', 'well', 'by', 'ton'];
 const TITLE_A = ['Copper', 'Hollow', 'Winter', 'Silent', 'Paper', 'Amber', 'Iron', 'Glass', 'Salt', 'Velvet', 'Ember', 'Tidal'];
 const TITLE_B = ['Orchard', 'Harbour', 'Crown', 'Meridian', 'Lighthouse', 'Garden', 'Signal', 'Cathedral', 'Ferry', 'Archive', 'Comet', 'Valley'];
 const MATERIALS = ['alginate', 'gypsum plaster', 'platinum silicone', 'fibreglass', 'dental stone', 'polyurethane resin'];
@@ -60,12 +63,14 @@ export async function loadStaffAndProductions(c: pg.ClientBase, n: ScaleSizes): 
 export async function loadPerformers(c: pg.ClientBase, count: number): Promise<void> {
   await c.query(
     `insert into performers (legal_name, preferred_name, email, email_confirmed_at, pronouns)
-     select ($1::text[])[1 + i % cardinality($1::text[])] || ' ' || ($2::text[])[1 + (i / 32) % cardinality($2::text[])] || '-' || ($2::text[])[1 + (i / 1024) % cardinality($2::text[])],
+     select ($1::text[])[1 + (i * 7) % cardinality($1::text[])] || ' ' || s.surname
+              || case when i % 5 = 0 then '-' || ($2::text[])[1 + (i / 13) % cardinality($2::text[])] else '' end,
             case when i % 9 = 0 then ($1::text[])[1 + (i / 3) % cardinality($1::text[])] end,
             'performer' || i || '@scale.plinth.test', case when i % 3 > 0 then now() - interval '40 days' end,
             (array['she/her','he/him','they/them',null])[1 + i % 4]
-     from generate_series(1, $3::int) i`,
-    [GIVEN, FAMILY, count],
+     from generate_series(1, $3::int) i
+     cross join lateral (select ($4::text[])[1 + i % cardinality($4::text[])] || ($5::text[])[1 + (i / cardinality($4::text[])) % cardinality($5::text[])] as surname) s`,
+    [GIVEN, FAMILY, count, FAMILY_HEAD, FAMILY_TAIL],
   );
   await c.query(
     `with p as (select id, row_number() over (order by email) as i from performers where email like '%@scale.plinth.test'),
