@@ -233,6 +233,8 @@ export interface BookingsTable {
   status: ColumnType<'booked' | 'cancelled' | 'done', 'booked' | 'cancelled' | 'done' | undefined>;
   created_by: string | null;
   created_at: Timestamp;
+  /** The SEQUENCE of the calendar invitation last sent: 0 when booked, one more for each change or the cancellation. */
+  invitation_sequence: Generated<number>;
 }
 
 export interface MailFailuresTable {

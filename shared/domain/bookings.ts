@@ -76,3 +76,20 @@ export function sessionsMissingConsent(
   }
   return missing;
 }
+
+/**
+ * How long a calendar holds for a session that records no end of its own. A patch-test appointment is the
+ * application only (the readings are their own visits); a face life cast with set-up, casting and clean-up
+ * takes a morning; a full prosthetic application is a few hours before call.
+ */
+// common practice, no published source
+export const DEFAULT_SESSION_MINUTES: Record<BookingPurpose, number> = {
+  patch_test: 30,
+  life_cast: 180,
+  application: 150,
+};
+
+/** When a session ends on the calendar: its own end when it records one, else its start plus the usual length. */
+export function sessionEnd(purpose: BookingPurpose, startsAt: Date, endsAt?: Date | null): Date {
+  return endsAt ?? new Date(startsAt.getTime() + DEFAULT_SESSION_MINUTES[purpose] * 60_000);
+}

@@ -12,6 +12,8 @@ export const BookingSchema = z.object({
   startsAt: z.iso.datetime(),
   location: z.string().nullable(),
   status: z.enum(['booked', 'cancelled', 'done']),
+  /** How many times the session has been moved or cancelled since it was booked; a change names the one it saw. */
+  sequence: z.number().int().min(0),
   consentMissing: z.boolean(),
 });
 export type Booking = z.infer<typeof BookingSchema>;
@@ -23,6 +25,13 @@ export const CreateBookingInputSchema = z.object({
   location: z.string().trim().max(200).optional(),
 });
 export type CreateBookingInput = z.infer<typeof CreateBookingInputSchema>;
+export const RescheduleBookingInputSchema = z.object({
+  startsAt: MomentInputSchema,
+  location: z.string().trim().max(200).optional(),
+  /** The session's `sequence` as the editor saw it. */
+  sequence: z.number({ message: 'Reload the session and try again' }).int().min(0),
+});
+export type RescheduleBookingInput = z.infer<typeof RescheduleBookingInputSchema>;
 export const BookingListSchema = z.object({ items: z.array(BookingSchema) });
 export const BookingListQuerySchema = z.object({ productionId: IdSchema, performerId: IdSchema.optional(), upcoming: z.enum(['true', 'false']).default('true') });
 export type BookingListQuery = z.infer<typeof BookingListQuerySchema>;

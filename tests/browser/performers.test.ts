@@ -87,6 +87,17 @@ describe('the performer registry', () => {
       await row.getByText('Consent missing').waitFor();
       expect(await row.textContent()).toContain('Life cast');
       await expectAccessible(page, 'sessions');
+
+      // Moving the session: a new time and place; the calendars get an update (checked in the API tests).
+      await row.getByRole('button', { name: /^Move the life cast of Oz Parfitt/ }).click();
+      const dialog = page.getByTestId('move-session-dialog');
+      const when = new Date(Date.now() + 20 * 86_400_000);
+      const local = `${when.getFullYear()}-${String(when.getMonth() + 1).padStart(2, '0')}-${String(when.getDate()).padStart(2, '0')}T14:15`;
+      await dialog.getByLabel('New date and time').fill(local);
+      await dialog.getByLabel('Place').fill('Casting bay 4');
+      await expectAccessible(page, 'move a session');
+      await dialog.getByRole('button', { name: 'Move the session' }).click();
+      await page.getByTestId('bookings-table').getByRole('row').filter({ hasText: 'Casting bay 4' }).getByText('Oz Parfitt').waitFor();
     } finally {
       await context.close();
     }

@@ -11,6 +11,8 @@ export interface BookingRow {
   startsAt: Date;
   location: string | null;
   status: 'booked' | 'cancelled' | 'done';
+  /** Changes sent to calendars so far; an edit names the one it was based on. */
+  sequence: number;
 }
 
 export interface BookingFilter {
@@ -29,7 +31,7 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
   let q = db
     .selectFrom('bookings as b')
     .innerJoin('performers as p', 'p.id', 'b.performer_id')
-    .select(['b.id', 'b.performer_id', sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'), 'b.production_id', 'b.purpose', 'b.starts_at', 'b.location', 'b.status']);
+    .select(['b.id', 'b.performer_id', sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'), 'b.production_id', 'b.purpose', 'b.starts_at', 'b.location', 'b.status', 'b.invitation_sequence']);
   if (where.productionId) q = q.where('b.production_id', '=', where.productionId);
   if (where.productionIds) {
     if (where.productionIds.length === 0) return [];
@@ -53,12 +55,16 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
     startsAt: new Date(r.starts_at),
     location: r.location,
     status: r.status,
+    sequence: r.invitation_sequence,
   }));
 }
 
-export async function findBookingForChange(db: Db, id: string): Promise<{ id: string; productionId: string; status: BookingRow['status'] } | undefined> {
-  const r = await db.selectFrom('bookings').select(['id', 'production_id', 'status']).where('id', '=', id).forUpdate().executeTakeFirst();
-  return r ? { id: r.id, productionId: r.production_id, status: r.status } : undefined;
+export async function findBookingForChange(
+  db: Db,
+  id: string,
+): Promise<{ id: string; productionId: string; status: BookingRow['status']; sequence: number; startsAt: Date; location: string | null } | undefined> {
+  const r = await db.selectFrom('bookings').select(['id', 'production_id', 'status', 'invitation_sequence', 'starts_at', 'location']).where('id', '=', id).forUpdate().executeTakeFirst();
+  return r ? { id: r.id, productionId: r.production_id, status: r.status, sequence: r.invitation_sequence, startsAt: new Date(r.starts_at), location: r.location } : undefined;
 }
 
 export async function findBookingProduction(db: Db, id: string): Promise<string | undefined> {
@@ -89,12 +95,49 @@ export interface BookingJsonRow {
   starts_at: string;
   location: string | null;
   status: BookingRow['status'];
+  sequence: number;
 }
 
 /** The booked sessions of the performer whose id is `performerId` starting from `from`, in start order, as a JSON array. */
 export function upcomingBookingsJsonSql(performerId: RawBuilder<string>, from: Date): RawBuilder<BookingJsonRow[]> {
   return sql<BookingJsonRow[]>`coalesce((
-    select json_agg(json_build_object('id', b.id, 'production_id', b.production_id, 'purpose', b.purpose, 'starts_at', b.starts_at, 'location', b.location, 'status', b.status) order by b.starts_at, b.id)
+    select json_agg(json_build_object('id', b.id, 'production_id', b.production_id, 'purpose', b.purpose, 'starts_at', b.starts_at, 'location', b.location, 'status', b.status, 'sequence', b.invitation_sequence) order by b.starts_at, b.id)
     from bookings b where b.performer_id = ${performerId} and b.status = 'booked' and b.starts_at >= ${from}
   ), '[]'::json)`;
+}
+
+export interface BookingForInvitation {
+  id: string;
+  performerId: string;
+  productionId: string;
+  productionName: string;
+  purpose: BookingPurpose;
+  startsAt: Date;
+  location: string | null;
+  status: BookingRow['status'];
+  invitationSequence: number;
+}
+
+/** What a session's calendar invitation says, with its production's name. */
+export async function findBookingForInvitation(db: Db, id: string): Promise<BookingForInvitation | undefined> {
+  const r = await db
+    .selectFrom('bookings as b')
+    .innerJoin('productions as pr', 'pr.id', 'b.production_id')
+    .select(['b.id', 'b.performer_id', 'b.production_id', 'pr.name as production_name', 'b.purpose', 'b.starts_at', 'b.location', 'b.status', 'b.invitation_sequence'])
+    .where('b.id', '=', id)
+    .executeTakeFirst();
+  return r
+    ? { id: r.id, performerId: r.performer_id, productionId: r.production_id, productionName: r.production_name, purpose: r.purpose, startsAt: new Date(r.starts_at), location: r.location, status: r.status, invitationSequence: r.invitation_sequence }
+    : undefined;
+}
+
+/** A change the calendar must hear of: the next SEQUENCE, in the change's own transaction. */
+export async function bumpInvitationSequence(db: Db, id: string): Promise<number> {
+  const r = await db.updateTable('bookings').set((eb) => ({ invitation_sequence: eb('invitation_sequence', '+', 1) })).where('id', '=', id).returning('invitation_sequence').executeTakeFirstOrThrow();
+  return r.invitation_sequence;
+}
+
+/** Moves a booked session; the caller holds the row (`findBookingForChange`). */
+export async function moveBooking(db: Db, id: string, v: { startsAt: Date; location: string | null }): Promise<void> {
+  await db.updateTable('bookings').set({ starts_at: v.startsAt, location: v.location }).where('id', '=', id).execute();
 }

@@ -1,8 +1,8 @@
 import { IdParamsSchema } from '#shared/schemas/common.ts';
-import { BookingListQuerySchema, BookingListSchema, BookingSchema, CreateBookingInputSchema } from '#shared/schemas/bookings.ts';
+import { BookingListQuerySchema, BookingListSchema, BookingSchema, CreateBookingInputSchema, RescheduleBookingInputSchema } from '#shared/schemas/bookings.ts';
 import { authorize } from '../../http/authorize.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
-import { cancelBooking, createBooking, listBookings } from './service.ts';
+import { cancelBooking, createBooking, listBookings, rescheduleBooking } from './service.ts';
 
 export const bookingRoutes: AnyRoute[] = [
   defineRoute({
@@ -31,6 +31,18 @@ export const bookingRoutes: AnyRoute[] = [
     status: 201,
     errors: [403],
     handler: ({ ctx, actor, body, req }) => createBooking(ctx, actor, body, req),
+  }),
+  defineRoute({
+    method: 'post',
+    path: '/api/bookings/:id/reschedule',
+    summary: 'Move a booked session to a new time or place (calendars get an update)',
+    tag: 'bookings',
+    auth: 'session',
+    params: IdParamsSchema,
+    body: RescheduleBookingInputSchema,
+    response: BookingSchema,
+    errors: [403, 404, 409],
+    handler: ({ ctx, actor, params, body, req }) => rescheduleBooking(ctx, actor, params.id, body, req),
   }),
   defineRoute({
     method: 'post',

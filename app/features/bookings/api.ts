@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import { BookingListSchema, BookingSchema, type CreateBookingInput } from '#shared/schemas/bookings.ts';
+import { BookingListSchema, BookingSchema, type CreateBookingInput, type RescheduleBookingInput } from '#shared/schemas/bookings.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
 import { bookingsKey, homeKey, performersKey } from '../../lib/query-keys.ts';
 
@@ -28,5 +28,14 @@ export function useCancelBooking() {
   return useMutation({
     mutationFn: (id: string) => api.post(`/api/bookings/${encodeURIComponent(id)}/cancel`, {}, BookingSchema),
     onSuccess: () => bookingsChanged(queryClient),
+  });
+}
+
+/** Moves a session; on a 409 (someone moved it first) the lists reload so the latest time shows. */
+export function useRescheduleBooking() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, input }: { id: string; input: RescheduleBookingInput }) => api.post(`/api/bookings/${encodeURIComponent(id)}/reschedule`, input, BookingSchema),
+    onSettled: () => bookingsChanged(queryClient),
   });
 }

@@ -45,7 +45,7 @@ export function BookingForm({ performerId, productionId }: { performerId: string
       const b = await create.mutateAsync({ ...values, location: values.location || undefined, performerId, productionId });
       form.reset();
       setBooked(
-        `Booked: ${BOOKING_PURPOSE_LABELS[b.purpose].toLowerCase()} on ${formatDateTime(b.startsAt)}.${b.consentMissing ? ' The consent it needs is not in place yet.' : ''}`,
+        `Booked: ${BOOKING_PURPOSE_LABELS[b.purpose].toLowerCase()} on ${formatDateTime(b.startsAt)}.${b.consentMissing ? ' The consent it needs is not in place yet.' : ''} Calendar invitations went to the performer (at a confirmed address) and the designated lead.`,
       );
     } catch (err) {
       setFormError(formErrorsFrom(err, form.setError, ['purpose', 'startsAt', 'location']));

@@ -8,6 +8,7 @@ import { formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { IconBadge } from '../../../components/consent/consent-state.tsx';
 import { useCancelBooking } from '../api.ts';
+import { MoveSessionDialog } from './move-session-dialog.tsx';
 import { BOOKING_PURPOSE_LABELS, neededConsentLabel } from './purpose.ts';
 
 const STATUS_LABELS: Record<Booking['status'], string> = { booked: 'Booked', cancelled: 'Cancelled', done: 'Done' };
@@ -43,6 +44,7 @@ interface BookingsTableProps {
 export function BookingsTable({ bookings, caption, showPerformer = false, canCancel }: BookingsTableProps) {
   const cancel = useCancelBooking();
   const [cancelling, setCancelling] = useState<Booking | null>(null);
+  const [moving, setMoving] = useState<Booking | null>(null);
 
   function close() {
     setCancelling(null);
@@ -87,9 +89,14 @@ export function BookingsTable({ bookings, caption, showPerformer = false, canCan
               {canCancel ? (
                 <Td className="text-right">
                   {b.status === 'booked' ? (
+                    <span className="inline-flex flex-wrap justify-end gap-2">
+                    <Button variant="secondary" aria-label={`Move the ${BOOKING_PURPOSE_LABELS[b.purpose].toLowerCase()} of ${b.performerName} on ${formatDateTime(b.startsAt)}`} onClick={() => setMoving(b)}>
+                      Move
+                    </Button>
                     <Button variant="secondary" aria-label={`Cancel the ${BOOKING_PURPOSE_LABELS[b.purpose].toLowerCase()} of ${b.performerName} on ${formatDateTime(b.startsAt)}`} onClick={() => setCancelling(b)}>
                       Cancel
                     </Button>
+                    </span>
                   ) : null}
                 </Td>
               ) : null}
@@ -111,10 +118,11 @@ export function BookingsTable({ bookings, caption, showPerformer = false, canCan
         {cancelling ? (
           <p>
             The {BOOKING_PURPOSE_LABELS[cancelling.purpose].toLowerCase()} of {cancelling.performerName} on {formatDateTime(cancelling.startsAt)} will be cancelled.
-            Tell the performer yourself: Plinth does not e-mail them about it.
+            The performer (at a confirmed address) and the designated lead get a cancellation for their calendars.
           </p>
         ) : null}
       </ConfirmDialog>
+      <MoveSessionDialog booking={moving} onClose={() => setMoving(null)} />
     </>
   );
 }
