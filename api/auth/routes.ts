@@ -5,6 +5,7 @@ import { recordEvent } from '../http/audit.ts';
 import { defineRoute } from '../http/route.ts';
 import { client } from './oidc-client.ts';
 import { linkConfirmedPerformerAtSignIn } from '../features/performers/index.ts';
+import { findLastSeat } from '../features/session/index.ts';
 import { EmailBoundElsewhere, mayActAsPerformer, upsertUserFromClaims } from './users.ts';
 
 const LoginQuerySchema = z.object({
@@ -135,6 +136,9 @@ export const authRoutes = [
       req.session.userId = user.id;
       req.session.signedInAt = Date.now();
       req.session.idToken = tokens.id_token;
+      // Start where the person last worked: the seat they last chose, or their latest production in the audit log.
+      const lastSeat = await findLastSeat(ctx.db, user.id);
+      if (lastSeat) req.session.current = lastSeat;
       await save(req);
       await recordEvent(ctx.db, { actorUserId: user.id, action: 'auth.sign_in', entityType: 'user', entityId: user.id, req, details: { created: user.created } });
       res.set('Cache-Control', 'no-store').redirect(302, returnTo);

@@ -106,6 +106,14 @@ export interface AuditLogTable {
   route: ColumnType<string | null, string | null | undefined, string | null>;
 }
 
+/** The production and role a person last chose to act in; their next sign-in starts there. */
+export interface UserLastSeatsTable {
+  user_id: string;
+  production_id: string | null;
+  role: string;
+  chosen_at: Generated<Date>;
+}
+
 export interface FilesTable {
   id: Generated<string>;
   purpose: string;
@@ -537,6 +545,7 @@ export interface Database {
   account_invitations: AccountInvitationsTable;
   mail_failures: MailFailuresTable;
   users: UsersTable;
+  user_last_seats: UserLastSeatsTable;
   productions: ProductionsTable;
   memberships: MembershipsTable;
   lead_appointments: LeadAppointmentsTable;

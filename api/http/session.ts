@@ -15,7 +15,8 @@ declare module 'express-session' {
     signedInAt?: number;
     idToken?: string;
     oidc?: { codeVerifier: string; state: string; nonce: string; returnTo: string; forceLogin?: boolean; startedAt: number };
-    current?: { productionId: string | null; role: string };
+    /** The seat acted in; set at sign-in to where the person last worked (then the role may be open). */
+    current?: { productionId: string | null; role?: string };
     /** Set while the department's tablet is handed to a performer: the session can do nothing else. */
     tablet?: { requestId: string; staffUserId: string; phase: 'signing' | 'handback'; idempotencyKey: string };
   }

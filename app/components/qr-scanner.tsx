@@ -115,10 +115,10 @@ function CameraView({ onScanning, onCode, onProblem }: CameraViewProps) {
   }, []);
 
   return (
-    <div className="relative aspect-[4/3] w-full max-w-2xl overflow-hidden rounded-xl bg-ink-900">
+    <div className="relative aspect-[4/3] w-full max-w-2xl overflow-hidden rounded-xl bg-graphite-900">
       <video ref={videoRef} muted playsInline disablePictureInPicture aria-label="Camera view" className="size-full object-cover" />
       {/* A square to aim with; the reader looks at the whole frame, so it is only a guide. */}
-      <div aria-hidden="true" className="pointer-events-none absolute top-1/2 left-1/2 aspect-square h-3/5 -translate-x-1/2 -translate-y-1/2 rounded-xl border-4 border-white outline-2 outline-ink-900" />
+      <div aria-hidden="true" className="pointer-events-none absolute top-1/2 left-1/2 aspect-square h-3/5 -translate-x-1/2 -translate-y-1/2 rounded-xl border-4 border-white outline-2 outline-graphite-900" />
     </div>
   );
 }
@@ -171,9 +171,9 @@ export function QrScanner({ onResult, label = 'Scan a code', manualLabel = 'Or t
   const status = state.kind === 'starting' ? 'Starting the camera…' : state.kind === 'scanning' ? 'Point the camera at the code' : state.kind === 'read' ? 'Code read.' : null;
 
   return (
-    <section aria-label={label} className="flex flex-col gap-4 rounded-2xl border border-sand-300 bg-white p-4 sm:p-6" data-testid="qr-scanner">
+    <section aria-label={label} className="flex flex-col gap-4 rounded-2xl border border-plaster-300 bg-white p-4 sm:p-6" data-testid="qr-scanner">
       {status ? (
-        <output className="block text-lg font-semibold text-ink-900" data-testid="qr-scanner-status">
+        <output className="block text-lg font-semibold text-graphite-900" data-testid="qr-scanner-status">
           {status}
         </output>
       ) : null}

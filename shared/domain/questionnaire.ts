@@ -40,9 +40,12 @@ export function answersSchemaFor(questions: readonly Question[]) {
   return z.strictObject(shape, { message: 'Answer the questions on the form only' });
 }
 
+/** Words for an optional question left blank: the performer declared nothing there. */
+export const NO_ANSWER_WORDS = 'None declared';
+
 /** Human words for an answer, for the PDF and the record page. */
 export function formatAnswer(q: Pick<Question, 'type'>, value: AnswerValue | undefined): string {
-  if (value === undefined || value === '') return '(no answer)';
+  if (value === undefined || value === '') return NO_ANSWER_WORDS;
   if (q.type === 'yes_no') return value === true ? 'Yes' : 'No';
   return String(value);
 }

@@ -30,17 +30,22 @@ export function seatsFor(actor: Actor, productionNames: ReadonlyMap<string, stri
 const DEFAULT_RANK: ActingRole[] = ['admin', 'lead', 'head', 'artist', 'archivist', 'performer'];
 
 /**
- * The seat to act in: the one asked for if the person still holds it, otherwise their most
- * responsible one (admin, then lead, head, artist, archivist, performer), so nobody starts in a lesser role by accident.
+ * The seat to act in: the one asked for if the person still holds it (with only a production asked
+ * for, their most responsible seat on it), otherwise their most responsible one overall
+ * (admin, then lead, head, artist, archivist, performer), so nobody starts in a lesser role by accident.
  */
-export function chooseSeat(seats: readonly Seat[], wanted: { productionId: string | null; role: string } | undefined): Seat | null {
-  if (wanted) {
+export function chooseSeat(seats: readonly Seat[], wanted: { productionId: string | null; role?: string } | undefined): Seat | null {
+  if (wanted?.role) {
     const hit = seats.find((s) => s.productionId === wanted.productionId && s.role === wanted.role);
     if (hit) return hit;
   }
-  for (const role of DEFAULT_RANK) {
-    const hit = seats.find((s) => s.role === role);
-    if (hit) return hit;
+  // A production with no role (the one last worked on): the best seat there. A seat no longer held: the best overall.
+  const onWanted = wanted && !wanted.role ? seats.filter((s) => s.productionId === wanted.productionId) : [];
+  for (const list of [onWanted, seats]) {
+    for (const role of DEFAULT_RANK) {
+      const hit = list.find((s) => s.role === role);
+      if (hit) return hit;
+    }
   }
   return null;
 }

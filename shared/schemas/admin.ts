@@ -160,6 +160,10 @@ export const AuditEntrySchema = z.object({
   entityType: z.string(),
   entityId: z.string().nullable(),
   productionId: IdSchema.nullable(),
+  /** The production's name, so the log reads in words. */
+  productionName: z.string().nullable(),
+  /** Whose record the entry is about (a performer's name), when it is about one. */
+  subjectName: z.string().nullable(),
   details: z.record(z.string(), z.unknown()),
 });
 export type AuditEntry = z.infer<typeof AuditEntrySchema>;

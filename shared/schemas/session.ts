@@ -38,12 +38,18 @@ export type SelectSeatInput = z.infer<typeof SelectSeatInputSchema>;
 
 export const LogoutResultSchema = z.object({ redirectTo: z.string() });
 
+/** One named thing under a task (a performer and their session's time); the client words the date. */
+export const HomeTaskItemSchema = z.object({
+  label: z.string(),
+  at: z.iso.datetime().nullable(),
+});
 export const HomeTaskSchema = z.object({
   id: z.string(),
   title: z.string(),
   detail: z.string(),
   count: z.number().int(),
   href: z.string().nullable(),
+  items: z.array(HomeTaskItemSchema).optional(),
 });
 export const HomeSchema = z.object({
   role: ActingRoleSchema,

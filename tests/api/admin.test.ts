@@ -223,6 +223,18 @@ describe('audit log', () => {
     expect(res.status).toBe(200);
     expect(res.body.items[0]).toMatchObject({ action: 'user.create', actor: 'Ines Calloway', entityType: 'user' });
   });
+
+  it('names the production and the performer an entry is about, so the page reads in words', async () => {
+    const performer = await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow();
+    const p = await lantern();
+    await t.db.db
+      .insertInto('audit_log')
+      .values({ actor_user_id: await t.userId('head@plinth.test'), action: 'performer.update', entity_type: 'performer', entity_id: performer.id, production_id: p.id, subject_performer_id: performer.id, details: '{}' })
+      .execute();
+    const res = await request(t.app).get('/api/audit?action=performer.update').set('Cookie', admin);
+    expect(res.status).toBe(200);
+    expect(res.body.items[0]).toMatchObject({ action: 'performer.update', productionName: 'The Lantern Keeper', subjectName: 'Juno Castellane' });
+  });
 });
 
 describe('mail that could not be sent', () => {

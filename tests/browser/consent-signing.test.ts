@@ -147,14 +147,27 @@ describe('signing a consent on the department’s tablet', () => {
       expect(canvas?.height).toBeGreaterThanOrEqual(200);
       await expectAccessible(page, 'tablet signing form (landscape)');
 
+      // A sense of progress through the questions.
+      expect(await page.getByTestId('answer-progress').textContent()).toMatch(/0 of \d+ questions answered/);
+
       // Nothing answered: each required question, the name, the agreement and the signature say so.
       await page.getByRole('button', { name: 'Sign and submit' }).click();
       await page.getByTestId('question-area').getByText('Choose one of the options').waitFor();
       expect(await page.getByTestId('question-stop_signal').textContent()).toContain('This answer is required');
       expect(await page.getByTestId('question-breathing').textContent()).toContain('Answer yes or no');
-      expect(await page.getByText('Print your full name').count()).toBe(1);
-      expect(await page.getByText(/Tick the box to agree/).count()).toBe(1);
+      // Beside the field and again in the summary at the top.
+      expect(await page.getByText('Print your full name').count()).toBe(2);
+      expect(await page.getByText(/Tick the box to agree/).count()).toBe(2);
       expect(await page.getByTestId('signature-error').count()).toBe(1);
+
+      // Focus is on the first missing answer in the form's order, not on the signature pad.
+      const questionOrder = await page.locator('[data-testid^="question-"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
+      const focusedIn = await page.evaluate(() => document.activeElement?.closest('[data-testid^="question-"]')?.getAttribute('data-testid') ?? document.activeElement?.tagName);
+      expect(focusedIn).toBe(questionOrder[0]);
+      // The summary lists what is missing in that same order, the signature last.
+      const summary = (await page.getByTestId('missing-summary').getByRole('listitem').allTextContents()).map((t) => t.split(':')[0]);
+      expect(summary.at(-1)).toBe('Signature');
+      expect(summary.slice(-3)).toEqual(['Your full name', 'Agreement', 'Signature']);
       await expectAccessible(page, 'tablet signing form with errors');
 
       await page.getByRole('button', { name: 'I don’t want to sign now' }).click();

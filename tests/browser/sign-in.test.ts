@@ -20,7 +20,8 @@ const ACCOUNTS: { email: string; heading: RegExp; context: RegExp | null; nav: s
   { email: 'lead@plinth.test', heading: /Today · Designated lead/, context: /The Lantern Keeper/, nav: ['Home'] },
   { email: 'artist@plinth.test', heading: /Today · Artist/, context: /The Lantern Keeper/, nav: ['Home'] },
   { email: 'archivist@plinth.test', heading: /Today · Archivist/, context: /The Lantern Keeper|Saltglass Mile/, nav: ['Home'] },
-  { email: 'performer@plinth.test', heading: /Today · Performer/, context: /The Lantern Keeper/, nav: ['Home'] },
+  // A performer's own view has no staff words: no production · role line, no "Acting as".
+  { email: 'performer@plinth.test', heading: /Hello, Juno/, context: null, nav: ['Home', 'My record'] },
 ];
 
 describe('signing in through the identity provider at a tablet viewport', () => {
@@ -41,6 +42,12 @@ describe('signing in through the identity provider at a tablet viewport', () => 
         const heading = page.getByRole('heading', { level: 1, name: account.heading });
         await heading.waitFor();
         if (account.context) expect(await page.getByTestId('acting-context').textContent()).toMatch(account.context);
+        else if (account.email === 'performer@plinth.test') {
+          expect(await page.getByTestId('acting-context').count()).toBe(0);
+          await page.getByTestId('account-control').getByRole('button').click();
+          await page.getByRole('button', { name: 'Sign out' }).waitFor();
+          expect(await page.getByText('Acting as').count()).toBe(0);
+        }
         const nav = page.getByRole('navigation', { name: 'Main' });
         for (const item of account.nav) await expect(nav.getByRole('link', { name: item, exact: true }).isVisible()).resolves.toBe(true);
         await expectAccessible(page, `${account.email} home`);
@@ -82,17 +89,27 @@ describe('signing in through the identity provider at a tablet viewport', () => 
 });
 
 describe('the shell', () => {
-  it('switches production and role from the "Acting as" list (portrait tablet)', async () => {
+  it('switches production and role from the one header control (portrait tablet)', async () => {
     const context = await tabletContext(browser, TABLET_PORTRAIT);
     const page = await context.newPage();
     try {
       await signInThroughIdp(page, appUrl, 'head@plinth.test', DEMO_PASSWORD);
       await page.getByRole('heading', { level: 1, name: /Today · Department head/ }).waitFor();
-      const switcher = page.getByLabel('Acting as');
-      await switcher.selectOption({ label: 'Saltglass Mile — Artist' });
+      // One control, no repeated "production · role" label beside the wordmark.
+      expect(await page.getByTestId('acting-context').count()).toBe(1);
+      const control = page.getByTestId('account-control').getByRole('button', { name: /Marta Oyelaran/ });
+      const box = await control.boundingBox();
+      expect(box!.height).toBeGreaterThanOrEqual(44);
+      await control.click();
+      await expectAccessible(page, 'account control open');
+      await page.getByRole('group', { name: 'Acting as' }).getByRole('radio', { name: 'Saltglass Mile — Artist' }).click();
       await page.getByRole('heading', { level: 1, name: /Today · Artist/ }).waitFor();
       expect(await page.getByTestId('acting-context').textContent()).toMatch(/Saltglass Mile/);
       await expectAccessible(page, 'home after switching');
+      // Back again: the next sign-in lands on the seat last chosen, and other tests expect the head's.
+      await control.click();
+      await page.getByRole('group', { name: 'Acting as' }).getByRole('radio', { name: 'The Lantern Keeper — Department head' }).click();
+      await page.getByRole('heading', { level: 1, name: /Today · Department head/ }).waitFor();
     } finally {
       await context.close();
     }
@@ -104,6 +121,7 @@ describe('the shell', () => {
     try {
       await signInThroughIdp(page, appUrl, 'artist@plinth.test', DEMO_PASSWORD);
       await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor();
+      await page.getByTestId('account-control').getByRole('button', { name: /Rafe Lindqvist/ }).click();
       await page.getByRole('button', { name: 'Sign out' }).click();
       await page.waitForURL(/\/signin/);
       await page.getByRole('link', { name: 'Sign in' }).waitFor();

@@ -36,3 +36,14 @@ describe('chooseSeat', () => {
     expect(chooseSeat([], undefined)).toBeNull();
   });
 });
+
+describe('chooseSeat with only a production (the one last worked on)', () => {
+  const seats = seatsFor(actor({ memberships: [{ productionId: A, role: 'archivist' }, { productionId: B, role: 'archivist' }, { productionId: B, role: 'artist' }] }), names);
+  it('lands on that production, in the most responsible seat there', () => {
+    expect(chooseSeat(seats, { productionId: A })).toMatchObject({ productionId: A, role: 'archivist' });
+    expect(chooseSeat(seats, { productionId: B })).toMatchObject({ productionId: B, role: 'artist' });
+  });
+  it('falls back to the most responsible seat overall when the person no longer works on it', () => {
+    expect(chooseSeat(seats, { productionId: 'cccccccc-cccc-4ccc-8ccc-cccccccccccc' })).toMatchObject({ role: 'artist' });
+  });
+});

@@ -9,7 +9,10 @@ export async function listAuditPage(db: Db, query: AuditQuery): Promise<AuditPag
   if (query.q) q = q.where((eb) => eb.or([eb('u.display_name', 'ilike', `%${query.q}%`), eb('a.entity_id', '=', query.q!)]));
   const [rows, total] = await Promise.all([
     q
-      .select(['a.id', 'a.at', 'u.display_name', 'a.action', 'a.entity_type', 'a.entity_id', 'a.production_id', 'a.details'])
+      .leftJoin('productions as pr', 'pr.id', 'a.production_id')
+      .leftJoin('performers as sp', 'sp.id', 'a.subject_performer_id')
+      .select(['a.id', 'a.at', 'u.display_name', 'a.action', 'a.entity_type', 'a.entity_id', 'a.production_id', 'a.details', 'pr.name as production_name'])
+      .select(sql<string | null>`coalesce(sp.preferred_name, sp.legal_name)`.as('subject_name'))
       .orderBy('a.at', query.dir)
       .orderBy(sql.ref('a.id'), query.dir)
       .limit(query.pageSize)
@@ -26,6 +29,8 @@ export async function listAuditPage(db: Db, query: AuditQuery): Promise<AuditPag
       entityType: r.entity_type,
       entityId: r.entity_id,
       productionId: r.production_id,
+      productionName: r.production_name,
+      subjectName: r.subject_name,
       details: r.details,
     })),
     total: Number(total.n),

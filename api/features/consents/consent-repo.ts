@@ -102,7 +102,16 @@ export async function findConsentDetailRow(db: Db, id: string) {
 }
 
 export async function listConsentAnswers(db: Db, consentId: string): Promise<{ questionId: string; label: string; medical: boolean; answer: boolean | string | null }[]> {
-  const rows = await db.selectFrom('consent_answers').select(['question_id', 'question_label', 'medical', 'answer']).where('consent_id', '=', consentId).orderBy('id').execute();
+  // In the form's order: each answer's place among the signed version's questions (ids are random).
+  const rows = await db
+    .selectFrom('consent_answers as a')
+    .innerJoin('consents as c', 'c.id', 'a.consent_id')
+    .innerJoin('consent_template_versions as v', 'v.id', 'c.template_version_id')
+    .select(['a.question_id', 'a.question_label', 'a.medical', 'a.answer'])
+    .where('a.consent_id', '=', consentId)
+    .orderBy(sql`(select q.ord from jsonb_array_elements(v.questions) with ordinality as q(item, ord) where q.item->>'id' = a.question_id)`, (ob) => ob.asc().nullsLast())
+    .orderBy('a.id')
+    .execute();
   return rows.map((a) => {
     const answer = openJson(a.answer);
     return { questionId: a.question_id, label: a.question_label, medical: a.medical, answer: typeof answer === 'boolean' || typeof answer === 'string' ? answer : null };

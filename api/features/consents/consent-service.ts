@@ -12,6 +12,7 @@ import { authorize } from '../../http/authorize.ts';
 import { conflict, notFound } from '../../http/errors.ts';
 import { hashToken, newToken } from '../../http/tokens.ts';
 import { deliverAll } from '../../mail/deliver.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { findConfirmedEmail, findPerformerScope, lockPerformerByConfirmedEmail } from '../performers/index.ts';
 import {
   findConsentDetailRow,
@@ -129,7 +130,7 @@ async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, 
     {
       to: p.email,
       subject: `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent has been withdrawn`,
-      text: [`Hello ${p.name},`, '', `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent is withdrawn as of ${new Date().toUTCString()}.`, ...withdrawalConsequences(kind), '', 'If you did not ask for this, contact the make-up department.'].join('\n'),
+      text: [`Hello ${p.name},`, '', `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent is withdrawn as of ${mailDateTime(new Date(), ctx.config.timeZone)}.`, ...withdrawalConsequences(kind), '', 'If you did not ask for this, contact the make-up department.'].join('\n'),
     },
   ]);
 }

@@ -1,6 +1,6 @@
 // What other features may use of consents; everything else here is the feature's own.
 export { consentFromJson, consentsJsonSql, consentCoversSql, consentStateSql, countActiveConsents, countExpiringForProduction, listConsentSummaries, listConsentsForGate, storageConsentTimes } from './consent-repo.ts';
-export { countOpenLinkRequests } from './request-repo.ts';
+export { countOpenLinkRequests, listOpenRequestsForPerformer } from './request-repo.ts';
 export { writeSignedConsent } from './signing-service.ts';
 export { findCurrentTemplateVersion } from './template-repo.ts';
 export { findConsentDetailRow, listConsentAnswers } from './consent-repo.ts';

@@ -160,3 +160,9 @@ export async function insertWithdrawalLink(db: Db, performerId: string, tokenHas
 export async function markWithdrawalLinkUsed(db: Db, id: string): Promise<void> {
   await db.updateTable('withdrawal_links').set({ used_at: sql`coalesce(used_at, now())` }).where('id', '=', id).execute();
 }
+
+/** A performer's open requests still in time, newest first: what waits for them to sign. */
+export async function listOpenRequestsForPerformer(db: Db, performerId: string, now: Date): Promise<RequestRecord[]> {
+  const rows = await requestQuery(db).where('r.performer_id', '=', performerId).where('r.status', '=', 'open').where('r.expires_at', '>', now).orderBy('r.created_at', 'desc').limit(20).execute();
+  return rows.map(toRecord);
+}

@@ -10,6 +10,7 @@ import { authorize } from '../../http/authorize.ts';
 import { ApiError, conflict, invalid, notFound } from '../../http/errors.ts';
 import { hashToken, newToken } from '../../http/tokens.ts';
 import { deliverAll } from '../../mail/deliver.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { findPerformerScope } from '../performers/index.ts';
 import { findProductionName } from '../productions/index.ts';
 import { cancelOpenRequest, findLinkRequestByTokenHash, findRequest, insertRequest, listRequests, markRequestOpened, type RequestRecord, toSigningRequest } from './request-repo.ts';
@@ -69,7 +70,7 @@ export async function createSigningRequest(ctx: AppContext, actor: Actor, input:
           '',
           `${ctx.config.appOrigin}/sign/${token}`,
           '',
-          `The link works once and until ${expiresAt.toUTCString()}. You are free not to sign; ask the department if anything is unclear.`,
+          `The link works once and until ${mailDateTime(expiresAt, ctx.config.timeZone)}. You are free not to sign; ask the department if anything is unclear.`,
         ].join('\n'),
       },
     ]);

@@ -5,7 +5,8 @@ import type { AppContext } from '../../context.ts';
 import { archivistTasks } from '../archive/index.ts';
 import { listBookings } from '../bookings/index.ts';
 import { piecesShortTask } from '../builds/index.ts';
-import { countActiveConsents, countExpiringForProduction, countOpenLinkRequests } from '../consents/index.ts';
+import { BOOKING_PURPOSE_LABELS } from '#shared/domain/bookings.ts';
+import { countActiveConsents, countExpiringForProduction, countOpenLinkRequests, listOpenRequestsForPerformer } from '../consents/index.ts';
 import { countEngagedNow } from '../performers/index.ts';
 import { countProductionsWithoutLead } from '../productions/index.ts';
 import { countUsersWithoutAccess } from '../users/index.ts';
@@ -34,10 +35,11 @@ async function consentTasks(ctx: AppContext, productionId: string): Promise<Task
       id: 'bookings-missing-consent',
       title: 'Upcoming sessions missing a consent',
       detail: missing.length
-        ? missing.slice(0, 3).map((b) => `${b.performerName} (${new Date(b.startsAt).toISOString().slice(0, 10)})`).join(', ') + (missing.length > 3 ? '…' : '')
+        ? `Ask for the consent before the session${missing.length > 3 ? `; the first three of ${missing.length}` : ''}:`
         : 'Every booked session in the next 30 days has the consent it needs.',
       count: missing.length,
       href: '/bookings',
+      items: missing.slice(0, 3).map((b) => ({ label: b.performerName, at: b.startsAt })),
     },
     {
       id: 'signing-links-open',
@@ -67,12 +69,37 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
   if (!seat.productionId) return [];
   if (seat.role === 'performer' && actor.performerIds[0]) {
     const performerId = actor.performerIds[0];
+    const now = new Date();
+    const [sessions, waiting, active] = await Promise.all([
+      listBookings(ctx.db, { performerId, from: now, status: 'booked' }),
+      listOpenRequestsForPerformer(ctx.db, performerId, now),
+      countActiveConsents(ctx.db, performerId, now),
+    ]);
+    const next = sessions[0];
     return [
+      {
+        id: 'my-next-session',
+        title: 'Your next session',
+        detail: next ? `${BOOKING_PURPOSE_LABELS[next.purpose]}${next.location ? `, ${next.location}` : ''}` : 'No session is booked for you.',
+        count: sessions.length,
+        href: `/performers/${performerId}#sessions`,
+        items: next ? [{ label: BOOKING_PURPOSE_LABELS[next.purpose], at: next.startsAt }] : [],
+      },
+      {
+        id: 'my-forms-to-sign',
+        title: 'Waiting for you to sign',
+        detail: waiting.length
+          ? 'Open the link in the e-mail the department sent you, or sign on their tablet when you are in. You are free not to sign.'
+          : 'Nothing is waiting for your signature.',
+        count: waiting.length,
+        href: null,
+        items: waiting.map((r) => ({ label: r.title, at: null })),
+      },
       {
         id: 'my-consents',
         title: 'Your consents',
         detail: 'See what you have agreed to, read your answers, and withdraw a consent at any time.',
-        count: await countActiveConsents(ctx.db, performerId, new Date()),
+        count: active,
         href: `/performers/${performerId}`,
       },
     ];

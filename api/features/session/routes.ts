@@ -7,6 +7,7 @@ import { invalid, notFound } from '../../http/errors.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { findUserWithProductionNames } from '../users/index.ts';
 import { homeTasks } from './home.ts';
+import { saveLastSeat } from './repo.ts';
 
 async function buildSession(ctx: AppContext, actor: Actor, req: Request) {
   const ids = [...new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf])];
@@ -49,6 +50,7 @@ export const sessionRoutes: AnyRoute[] = [
       const seat = before.seats.find((s) => s.productionId === body.productionId && s.role === body.role);
       if (!seat) throw invalid({ role: ['You do not hold that role on that production.'] });
       req.session.current = { productionId: seat.productionId, role: seat.role };
+      await saveLastSeat(ctx.db, actor.userId, seat);
       return { ...before, current: seat };
     },
   }),

@@ -24,7 +24,7 @@ export function Caution({ kind, large = false }: { kind: ConsentKind; large?: bo
   return (
     <aside
       aria-label={caution.title}
-      className={`flex gap-3 rounded-xl border-l-4 border-amber-700 bg-amber-100 p-4 text-ink-900 ${large ? 'text-lg' : ''}`}
+      className={`flex gap-3 rounded-xl border-l-4 border-amber-700 bg-amber-100 p-4 text-graphite-900 ${large ? 'text-lg' : ''}`}
       data-testid="caution"
     >
       <Icon name="warning" className={`${large ? 'size-7' : 'size-5'} mt-0.5 text-amber-800`} />

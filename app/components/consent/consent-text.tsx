@@ -7,7 +7,7 @@ function heading(level: Level) {
   const Tag = `h${Math.min(level, 6)}` as 'h2';
   const size = level === 2 ? 'text-2xl' : level === 3 ? 'text-xl' : 'text-lg';
   return function Heading({ children }: { children?: ReactNode }) {
-    return <Tag className={`mt-2 font-bold text-ink-900 ${size}`}>{children}</Tag>;
+    return <Tag className={`mt-2 font-bold text-graphite-900 ${size}`}>{children}</Tag>;
   };
 }
 
@@ -24,15 +24,15 @@ function componentsFor(top: Level): Components {
     p: ({ children }) => <p className="max-w-prose">{children}</p>,
     ul: ({ children }) => <ul className="flex max-w-prose list-disc flex-col gap-2 pl-6">{children}</ul>,
     ol: ({ children }) => <ol className="flex max-w-prose list-decimal flex-col gap-2 pl-6">{children}</ol>,
-    strong: ({ children }) => <strong className="font-bold text-ink-900">{children}</strong>,
+    strong: ({ children }) => <strong className="font-bold text-graphite-900">{children}</strong>,
     a: ({ children, href }) => (
       <a href={href} rel="noreferrer noopener" target="_blank" className="font-semibold underline">
         {children}
       </a>
     ),
-    blockquote: ({ children }) => <blockquote className="border-l-4 border-sand-300 pl-4 text-ink-700">{children}</blockquote>,
-    hr: () => <hr className="border-sand-300" />,
-    code: ({ children }) => <code className="rounded bg-sand-100 px-1 font-mono">{children}</code>,
+    blockquote: ({ children }) => <blockquote className="border-l-4 border-plaster-300 pl-4 text-graphite-700">{children}</blockquote>,
+    hr: () => <hr className="border-plaster-300" />,
+    code: ({ children }) => <code className="rounded bg-plaster-100 px-1 font-mono">{children}</code>,
   };
 }
 
@@ -45,7 +45,7 @@ const COMPONENTS: Record<Level, Components> = { 2: componentsFor(2), 3: componen
  */
 export function ConsentText({ body, headingLevel = 2, large = false, testId }: { body: string; headingLevel?: Level; large?: boolean; testId?: string }) {
   return (
-    <div className={`flex flex-col gap-3 text-ink-900 ${large ? 'text-xl leading-relaxed' : 'text-base'}`} data-testid={testId}>
+    <div className={`flex flex-col gap-3 text-graphite-900 ${large ? 'text-xl leading-relaxed' : 'text-base'}`} data-testid={testId}>
       <Markdown components={COMPONENTS[headingLevel]} disallowedElements={['img']} unwrapDisallowed skipHtml>
         {body}
       </Markdown>

@@ -1,14 +1,11 @@
 import { useState } from 'react';
 import { Link, NavLink, Outlet, useNavigation } from 'react-router-dom';
-import { ROLE_LABELS } from '#shared/policy.ts';
-import { SeatSwitcher } from './seat-switcher.tsx';
-import { SignOutButton } from './sign-out-button.tsx';
+import { AccountControl } from './account-control.tsx';
 import { useSession } from '../../lib/session/session-context.tsx';
 import { paths } from '../../lib/paths.ts';
 import { navItemsFor } from './nav-items.ts';
 import { Wordmark } from './wordmark.tsx';
 
-const MENU_ID = 'site-menu';
 const NAV_ID = 'main-nav';
 
 export function AppShell() {
@@ -16,59 +13,37 @@ export function AppShell() {
   const navigation = useNavigation();
   const [menuOpen, setMenuOpen] = useState(false);
   const items = navItemsFor(session);
-  const seat = session.current;
-
-  const context = seat
-    ? seat.role === 'admin' || !seat.productionId
-      ? ROLE_LABELS[seat.role]
-      : `${seat.productionName ?? 'Untitled production'} · ${ROLE_LABELS[seat.role]}`
-    : '';
   const loading = navigation.state === 'loading';
 
   return (
     <div className="flex min-h-screen flex-col">
       <a
         href="#main"
-        className="sr-only rounded-lg bg-clay-800 px-4 py-3 font-semibold text-white focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:z-50"
+        className="sr-only rounded-lg bg-verdigris-800 px-4 py-3 font-semibold text-white focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:z-50"
       >
         Skip to main content
       </a>
-      <header className="border-b border-sand-300 bg-white">
-        <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3">
-          <Link to={paths.home.href()} onClick={() => setMenuOpen(false)} className="inline-flex min-h-11 items-center rounded-lg no-underline">
+      <header className="border-b border-plaster-300 bg-white">
+        <div className="mx-auto flex max-w-6xl items-center gap-3 px-4 py-3">
+          <Link to={paths.home.href()} onClick={() => setMenuOpen(false)} className="inline-flex min-h-11 shrink-0 items-center rounded-lg no-underline">
             <Wordmark />
           </Link>
-          <p className="min-w-0 flex-1 font-semibold text-ink-700 md:flex-none" data-testid="acting-context">
-            {context}
-          </p>
-          <button
-            type="button"
-            className="inline-flex min-h-11 min-w-11 items-center justify-center gap-2 rounded-lg border border-ink-500 px-3 font-semibold text-ink-900 hover:bg-sand-100 md:hidden"
-            aria-expanded={menuOpen}
-            aria-controls={`${MENU_ID} ${NAV_ID}`}
-            onClick={() => setMenuOpen((open) => !open)}
-            data-testid="menu-button"
-          >
-            <span aria-hidden="true">{menuOpen ? '✕' : '☰'}</span>
-            Menu
-          </button>
-          <div
-            id={MENU_ID}
-            className={`${menuOpen ? 'flex' : 'hidden'} w-full flex-col gap-3 md:flex md:w-auto md:flex-1 md:flex-row md:flex-wrap md:items-end md:justify-end`}
-          >
-            <SeatSwitcher />
-            <div className="flex flex-wrap items-end gap-3">
-              <p className="flex min-h-11 flex-col justify-center text-sm text-ink-700">
-                <span>Signed in as</span>
-                <span className="font-semibold text-ink-900" data-testid="user-name">
-                  {session.user.displayName}
-                </span>
-              </p>
-              <SignOutButton />
-            </div>
+          <div className="ml-auto flex min-w-0 items-center gap-3">
+            <button
+              type="button"
+              className="inline-flex min-h-11 min-w-11 shrink-0 items-center justify-center gap-2 rounded-lg border border-graphite-500 px-3 font-semibold text-graphite-900 hover:bg-plaster-100 md:hidden"
+              aria-expanded={menuOpen}
+              aria-controls={NAV_ID}
+              onClick={() => setMenuOpen((open) => !open)}
+              data-testid="menu-button"
+            >
+              <span aria-hidden="true">{menuOpen ? '✕' : '☰'}</span>
+              Menu
+            </button>
+            <AccountControl />
           </div>
         </div>
-        <nav id={NAV_ID} aria-label="Main" className={`${menuOpen ? 'block' : 'hidden'} border-t border-sand-200 md:block`}>
+        <nav id={NAV_ID} aria-label="Main" className={`${menuOpen ? 'block' : 'hidden'} border-t border-plaster-200 md:block`}>
           <ul className="mx-auto flex max-w-6xl flex-col gap-1 px-4 py-2 md:flex-row md:flex-wrap">
             {items.map((item) => (
               <li key={item.to}>
@@ -79,7 +54,7 @@ export function AppShell() {
                   onClick={() => setMenuOpen(false)}
                   className={({ isActive }) =>
                     `flex min-h-11 items-center rounded-lg px-4 font-semibold no-underline ${
-                      isActive ? 'bg-clay-100 text-clay-900' : 'text-ink-700 hover:bg-sand-100 hover:text-ink-900'
+                      isActive ? 'bg-verdigris-100 text-verdigris-900' : 'text-graphite-700 hover:bg-plaster-100 hover:text-graphite-900'
                     }`
                   }
                 >
@@ -91,12 +66,12 @@ export function AppShell() {
         </nav>
       </header>
       {/* A slim bar while the next page's code and data load; the page itself says "Loading…" if it must. */}
-      <div aria-hidden="true" className={`h-1 bg-clay-600 transition-opacity ${loading ? 'animate-pulse opacity-100' : 'opacity-0'}`} />
+      <div aria-hidden="true" className={`h-1 bg-verdigris-600 transition-opacity ${loading ? 'animate-pulse opacity-100' : 'opacity-0'}`} />
       <main id="main" tabIndex={-1} aria-busy={loading || undefined} className="mx-auto flex w-full max-w-6xl flex-1 flex-col gap-6 px-4 py-6">
         <Outlet />
       </main>
-      <footer className="border-t border-sand-300 bg-sand-100">
-        <p className="mx-auto max-w-6xl px-4 py-4 text-sm text-ink-600">
+      <footer className="border-t border-plaster-300 bg-plaster-100">
+        <p className="mx-auto max-w-6xl px-4 py-4 text-sm text-graphite-600">
           Plinth records skin screening and consent; it is not a medical diagnosis.
         </p>
       </footer>

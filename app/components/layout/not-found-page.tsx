@@ -8,7 +8,7 @@ export function NotFoundPage() {
       <PageHeading title="Page not found" testId="not-found-heading">
         Page not found
       </PageHeading>
-      <p className="max-w-prose text-ink-700">There is no page at this address. It may have moved, or the link may be mistyped.</p>
+      <p className="max-w-prose text-graphite-700">There is no page at this address. It may have moved, or the link may be mistyped.</p>
       <div>
         <ButtonLink to={paths.home.href()}>Go to Today</ButtonLink>
       </div>

@@ -17,7 +17,7 @@ export function RequireAction({ action }: { action: Action | readonly Action[] }
   return (
     <>
       <PageHeading title="Not available in this role">Not available in this role</PageHeading>
-      <p className="max-w-prose text-ink-700">
+      <p className="max-w-prose text-graphite-700">
         Acting as {role}, you cannot open this page.
         {adminSeat ? ' Switch “Acting as” to Studio administrator to use it.' : ' Ask a studio administrator if you need it.'}
       </p>

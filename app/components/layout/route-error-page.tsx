@@ -9,11 +9,11 @@ function RouteErrorContent() {
   const message = isRouteErrorResponse(error) ? `${error.status} ${error.statusText}` : errorMessage(error);
   return (
     <>
-      <h1 className="text-2xl font-bold text-ink-900">Something went wrong</h1>
+      <h1 className="text-2xl font-bold text-graphite-900">Something went wrong</h1>
       <p role="alert" className="rounded-xl border-l-4 border-brick-700 bg-brick-50 p-4">
         {message}
       </p>
-      <p className="text-ink-700">Reloading usually fixes this (for example after Plinth was updated). Nothing you saved has been lost.</p>
+      <p className="text-graphite-700">Reloading usually fixes this (for example after Plinth was updated). Nothing you saved has been lost.</p>
       <div>
         <Button onClick={() => window.location.reload()}>Reload the page</Button>
       </div>

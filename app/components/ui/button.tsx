@@ -9,9 +9,9 @@ const base =
   'transition-colors no-underline disabled:cursor-not-allowed disabled:opacity-60';
 
 const variants: Record<ButtonVariant, string> = {
-  primary: 'bg-clay-700 text-white hover:bg-clay-800 active:bg-clay-900',
-  secondary: 'border border-clay-700 bg-white text-clay-800 hover:bg-clay-50',
-  quiet: 'text-clay-800 underline hover:bg-sand-100',
+  primary: 'bg-verdigris-700 text-white hover:bg-verdigris-800 active:bg-verdigris-900',
+  secondary: 'border border-verdigris-700 bg-white text-verdigris-800 hover:bg-verdigris-50',
+  quiet: 'text-verdigris-800 underline hover:bg-plaster-100',
   danger: 'bg-brick-700 text-white hover:bg-brick-800',
 };
 

@@ -15,11 +15,11 @@ export function CheckboxField({ label, hint, error, className = '', ...rest }: C
   return (
     <div className={`flex flex-col gap-1 ${className}`}>
       {/* The whole label row is the 44 px target, not just the small box. */}
-      <label htmlFor={id} className="inline-flex min-h-11 cursor-pointer items-center gap-3 font-semibold text-ink-900">
+      <label htmlFor={id} className="inline-flex min-h-11 cursor-pointer items-center gap-3 font-semibold text-graphite-900">
         <input
           id={id}
           type="checkbox"
-          className="size-6 shrink-0 cursor-pointer accent-clay-700"
+          className="size-6 shrink-0 cursor-pointer accent-verdigris-700"
           aria-invalid={error ? true : undefined}
           aria-describedby={describedBy(hintId, errorId, hint, error)}
           {...rest}

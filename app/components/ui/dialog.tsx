@@ -31,7 +31,7 @@ export function Dialog({ open, onClose, title, children, testId }: DialogProps) 
       aria-labelledby={titleId}
       onClose={onClose}
       data-testid={testId}
-      className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-2xl border border-sand-300 bg-white p-0 text-ink-900 shadow-xl backdrop:bg-ink-900/50"
+      className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-2xl border border-plaster-300 bg-white p-0 text-graphite-900 shadow-xl backdrop:bg-graphite-900/50"
     >
       {open ? (
         <div className="flex flex-col gap-4 p-6">
@@ -43,7 +43,7 @@ export function Dialog({ open, onClose, title, children, testId }: DialogProps) 
               type="button"
               aria-label="Close"
               onClick={onClose}
-              className="-mt-2 -mr-2 inline-flex min-h-11 min-w-11 items-center justify-center rounded-lg text-xl text-ink-700 hover:bg-sand-100 hover:text-ink-900"
+              className="-mt-2 -mr-2 inline-flex min-h-11 min-w-11 items-center justify-center rounded-lg text-xl text-graphite-700 hover:bg-plaster-100 hover:text-graphite-900"
             >
               <span aria-hidden="true">✕</span>
             </button>
@@ -70,7 +70,7 @@ interface ConfirmDialogProps {
 export function ConfirmDialog({ open, title, children, confirmLabel, onConfirm, onCancel, pending = false, error, tone = 'danger' }: ConfirmDialogProps) {
   return (
     <Dialog open={open} onClose={onCancel} title={title} testId="confirm-dialog">
-      <div className="text-ink-700">{children}</div>
+      <div className="text-graphite-700">{children}</div>
       {error ? <ErrorBanner error={error} /> : null}
       <div className="flex flex-wrap justify-end gap-3">
         <Button variant="secondary" onClick={onCancel}>

@@ -13,7 +13,7 @@ interface ErrorBannerProps {
 
 export function ErrorBanner({ error, message, title, onRetry, children }: ErrorBannerProps) {
   return (
-    <div role="alert" className="flex flex-col gap-2 rounded-xl border-l-4 border-brick-700 bg-brick-50 p-4 text-ink-900" data-testid="error-banner">
+    <div role="alert" className="flex flex-col gap-2 rounded-xl border-l-4 border-brick-700 bg-brick-50 p-4 text-graphite-900" data-testid="error-banner">
       {title ? <p className="font-bold text-brick-800">{title}</p> : null}
       <p>{message ?? errorMessage(error)}</p>
       {children}

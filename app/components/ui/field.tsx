@@ -5,7 +5,7 @@ export function FieldMessages({ hintId, errorId, hint, error }: { hintId: string
   return (
     <>
       {hint ? (
-        <p id={hintId} className="text-sm text-ink-600">
+        <p id={hintId} className="text-sm text-graphite-600">
           {hint}
         </p>
       ) : null}
@@ -25,10 +25,10 @@ export function describedBy(hintId: string, errorId: string, hint: unknown, erro
 }
 
 export const controlClasses =
-  'block min-h-11 w-full rounded-lg border border-ink-500 bg-white px-3 py-2 text-base text-ink-900 ' +
-  'aria-invalid:border-brick-700 aria-invalid:border-2 disabled:bg-sand-100 disabled:text-ink-600';
+  'block min-h-11 w-full rounded-lg border border-graphite-500 bg-white px-3 py-2 text-base text-graphite-900 ' +
+  'aria-invalid:border-brick-700 aria-invalid:border-2 disabled:bg-plaster-100 disabled:text-graphite-600';
 
-export const labelClasses = 'block text-sm font-semibold text-ink-900';
+export const labelClasses = 'block text-sm font-semibold text-graphite-900';
 
 export interface ControlWiring {
   id: string;

@@ -9,8 +9,8 @@ interface FileFieldProps extends Omit<InputHTMLAttributes<HTMLInputElement>, 'id
 }
 
 const FILE_CLASSES =
-  'block w-full text-base text-ink-900 file:mr-3 file:min-h-11 file:cursor-pointer file:rounded-lg file:border file:border-clay-700 ' +
-  'file:bg-white file:px-4 file:py-2 file:font-semibold file:text-clay-800 hover:file:bg-clay-50 disabled:opacity-60';
+  'block w-full text-base text-graphite-900 file:mr-3 file:min-h-11 file:cursor-pointer file:rounded-lg file:border file:border-verdigris-700 ' +
+  'file:bg-white file:px-4 file:py-2 file:font-semibold file:text-verdigris-800 hover:file:bg-verdigris-50 disabled:opacity-60';
 
 /** The browser's own file chooser (it works with every assistive technology), with a 44 px button. */
 export function FileField({ label, hint, error, className = '', ...rest }: FileFieldProps) {

@@ -32,10 +32,10 @@ export function PageHeading({ children, title, lead, actions, testId }: PageHead
   return (
     <div className="flex flex-wrap items-end justify-between gap-4">
       <div className="flex flex-col gap-1">
-        <h1 ref={ref} tabIndex={-1} className="text-3xl font-bold text-ink-900" data-testid={testId}>
+        <h1 ref={ref} tabIndex={-1} className="text-3xl font-bold text-graphite-900" data-testid={testId}>
           {children}
         </h1>
-        {lead ? <p className="max-w-prose text-ink-700">{lead}</p> : null}
+        {lead ? <p className="max-w-prose text-graphite-700">{lead}</p> : null}
       </div>
       {actions ? <div className="flex flex-wrap gap-3">{actions}</div> : null}
     </div>

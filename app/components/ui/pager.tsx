@@ -16,7 +16,7 @@ export function Pager({ page, pageSize, total, noun, onPage }: PagerProps) {
   const to = Math.min(total, page * pageSize);
   return (
     <nav aria-label={`Pages of ${noun}`} className="flex flex-wrap items-center justify-between gap-3 py-3">
-      <p className="text-sm text-ink-700" aria-live="polite">
+      <p className="text-sm text-graphite-700" aria-live="polite">
         {total === 0 ? `No ${noun}` : `${formatNumber(from)}–${formatNumber(to)} of ${formatNumber(total)} ${noun}`}
         {pages > 1 ? ` · page ${formatNumber(page)} of ${formatNumber(pages)}` : ''}
       </p>

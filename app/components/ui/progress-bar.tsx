@@ -10,10 +10,10 @@ export function ProgressBar({ label, value, testId }: { label: string; value: nu
   return (
     <div className="flex flex-col gap-1" data-testid={testId}>
       <div className="flex items-baseline justify-between gap-3 text-sm">
-        <label htmlFor={id} className="font-semibold text-ink-900">
+        <label htmlFor={id} className="font-semibold text-graphite-900">
           {label}
         </label>
-        <span className="text-ink-700" aria-hidden="true">
+        <span className="text-graphite-700" aria-hidden="true">
           {percent}%
         </span>
       </div>
@@ -22,8 +22,8 @@ export function ProgressBar({ label, value, testId }: { label: string; value: nu
         max={100}
         value={percent}
         className={
-          'h-3 w-full appearance-none overflow-hidden rounded-full border border-ink-500 bg-sand-100 ' +
-          '[&::-moz-progress-bar]:bg-clay-700 [&::-webkit-progress-bar]:bg-sand-100 [&::-webkit-progress-value]:bg-clay-700'
+          'h-3 w-full appearance-none overflow-hidden rounded-full border border-graphite-500 bg-plaster-100 ' +
+          '[&::-moz-progress-bar]:bg-verdigris-700 [&::-webkit-progress-bar]:bg-plaster-100 [&::-webkit-progress-value]:bg-verdigris-700'
         }
       >
         {percent}%

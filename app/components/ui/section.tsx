@@ -4,9 +4,9 @@ import { useId, type ReactNode } from 'react';
 export function Section({ title, children, actions, testId }: { title: ReactNode; children: ReactNode; actions?: ReactNode; testId?: string }) {
   const id = useId();
   return (
-    <section aria-labelledby={id} className="flex flex-col gap-4 rounded-2xl border border-sand-300 bg-white p-4 sm:p-6" data-testid={testId}>
+    <section aria-labelledby={id} className="flex flex-col gap-4 rounded-2xl border border-plaster-300 bg-white p-4 sm:p-6" data-testid={testId}>
       <div className="flex flex-wrap items-center justify-between gap-3">
-        <h2 id={id} className="text-xl font-bold text-ink-900">
+        <h2 id={id} className="text-xl font-bold text-graphite-900">
           {title}
         </h2>
         {actions}

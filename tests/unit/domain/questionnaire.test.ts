@@ -38,7 +38,9 @@ describe('formatAnswer', () => {
   it('words yes/no and blanks', () => {
     expect(formatAnswer({ type: 'yes_no' }, true)).toBe('Yes');
     expect(formatAnswer({ type: 'yes_no' }, false)).toBe('No');
-    expect(formatAnswer({ type: 'short_text' }, '')).toBe('(no answer)');
+    // A blank optional answer reads as a declaration of nothing, never as a gap.
+    expect(formatAnswer({ type: 'short_text' }, '')).toBe('None declared');
+    expect(formatAnswer({ type: 'short_text' }, undefined)).toBe('None declared');
     expect(formatAnswer({ type: 'choice' }, 'Face')).toBe('Face');
   });
 });

@@ -10,6 +10,7 @@ import { Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';
 import { formatDate } from '../../../lib/format.ts';
 import { useRemoveMembership } from '../api.ts';
 import { AddMemberForm } from './add-member-form.tsx';
+import { EmailAddress } from '../../../components/ui/email-address.tsx';
 
 export function TeamSection({ production }: { production: ProductionDetail }) {
   const remove = useRemoveMembership(production.id);
@@ -51,7 +52,9 @@ export function TeamSection({ production }: { production: ProductionDetail }) {
                     </span>
                   ) : null}
                 </Td>
-                <Td className="break-all">{m.email}</Td>
+                <Td>
+                  <EmailAddress value={m.email} />
+                </Td>
                 <Td>{ROLE_LABELS[m.role]}</Td>
                 <Td className="whitespace-nowrap">
                   <time dateTime={m.createdAt}>{formatDate(m.createdAt)}</time>

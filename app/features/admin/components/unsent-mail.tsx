@@ -5,6 +5,7 @@ import { Section } from '../../../components/ui/section.tsx';
 import { Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';
 import { formatDateTime } from '../../../lib/format.ts';
 import { mailFailuresQueryOptions, useRetryMail } from '../api.ts';
+import { EmailAddress } from '../../../components/ui/email-address.tsx';
 
 /**
  * Mail that followed a change but could not be sent: the change stood, the message was kept.
@@ -40,7 +41,9 @@ export function UnsentMail() {
               <Td className="whitespace-nowrap">
                 <time dateTime={f.failedAt}>{formatDateTime(f.failedAt)}</time>
               </Td>
-              <Td className="break-all">{f.recipients}</Td>
+              <Td>
+                <EmailAddress value={f.recipients} />
+              </Td>
               <Td className="font-semibold">{f.subject}</Td>
               <Td className="text-sm text-ink-700">
                 {f.error}

@@ -3,6 +3,7 @@ import { Button } from '../../../components/ui/button.tsx';
 import { StatusBadge } from '../../../components/ui/status-badge.tsx';
 import { SortHeader, Table, Td, Th, Thead, Tr, type SortDir } from '../../../components/ui/table.tsx';
 import { formatDate, plural } from '../../../lib/format.ts';
+import { EmailAddress } from '../../../components/ui/email-address.tsx';
 
 type SortKey = UserListQuery['sort'];
 
@@ -48,7 +49,9 @@ export function UsersTable({ users, caption, sort, dir, busy, onSort, onEdit }: 
         {users.map((user) => (
           <Tr key={user.id}>
             <Td className="font-semibold">{user.displayName}</Td>
-            <Td className="break-all">{user.email}</Td>
+            <Td>
+              <EmailAddress value={user.email} />
+            </Td>
             <Td>
               <AccessBadges user={user} />
             </Td>

@@ -7,6 +7,12 @@ import { Pager } from '../../../components/ui/pager.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { SortHeader, Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
+import { SelectField } from '../../../components/ui/select-field.tsx';
+import { AUDIT_ACTION_LABELS, auditActionLabel } from '#shared/domain/audit.ts';
+import { detailWords, humanize, recordWords } from '../components/audit-words.ts';
+
+/** Every event, in words, alphabetically: the filter asks "what happened", never for a code. */
+const ACTION_CHOICES = Object.entries(AUDIT_ACTION_LABELS).sort((a, b) => a[1].localeCompare(b[1]));
 import { formatDateTime } from '../../../lib/format.ts';
 import { parseListParams, useDebouncedSearch, useListParams } from '../../../lib/list-params.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
@@ -18,21 +24,18 @@ export async function auditLoader({ request }: LoaderFunctionArgs) {
   return null;
 }
 
-function detailValue(value: unknown): string {
-  if (typeof value === 'string') return value;
-  if (value === null || value === undefined) return String(value);
-  return typeof value === 'object' ? JSON.stringify(value) : String(value);
-}
-
-/** Details as compact key=value pairs, one chip each, so long entries wrap between pairs. */
+/** Details in words, one line each; ids and empty values are left out (search by id still finds them). */
 function Details({ details }: { details: AuditEntry['details'] }) {
-  const entries = Object.entries(details);
-  if (entries.length === 0) return <span className="text-ink-600">None</span>;
+  const entries = Object.entries(details).flatMap(([key, value]) => {
+    const words = detailWords(value);
+    return words === null ? [] : [[humanize(key), words] as const];
+  });
+  if (entries.length === 0) return <span className="text-graphite-600">None</span>;
   return (
-    <ul className="flex flex-wrap gap-1">
-      {entries.map(([key, value]) => (
-        <li key={key} className="rounded bg-sand-100 px-1.5 font-mono text-sm break-all text-ink-900">
-          {key}={detailValue(value)}
+    <ul className="flex flex-col gap-0.5 text-sm">
+      {entries.map(([key, words]) => (
+        <li key={key} className="break-words">
+          <span className="font-semibold">{key}:</span> {words}
         </li>
       ))}
     </ul>
@@ -54,22 +57,21 @@ export function AuditPage() {
       <search aria-label="Filter the audit log">
         <form className="grid gap-4 md:grid-cols-2" onSubmit={(e) => e.preventDefault()}>
         <TextField
-          label="Person or record id"
+          label="Person"
           type="search"
           value={search}
           onChange={(e) => setSearch(e.target.value)}
-          hint="A name, or the exact id of a record."
+          hint="A name (or, if you have one, the exact id of a record)."
           data-testid="audit-search"
         />
-        <TextField
-          label="Action starts with"
-          type="search"
-          value={action}
-          onChange={(e) => setAction(e.target.value)}
-          hint="For example “production.” or “lead.appoint”."
-          maxLength={80}
-          data-testid="audit-action"
-        />
+        <SelectField label="What happened" value={action} onChange={(e) => setAction(e.target.value)} data-testid="audit-action">
+          <option value="">Anything</option>
+          {ACTION_CHOICES.map(([code, words]) => (
+            <option key={code} value={code}>
+              {words}
+            </option>
+          ))}
+        </SelectField>
       </form>
       </search>
       <QueryView query={audit} loadingLabel="Loading the audit log…">
@@ -83,7 +85,7 @@ export function AuditPage() {
                   <tr>
                     <SortHeader label="Time" sortKey="at" sort={query.sort} dir={query.dir} onSort={(sort, dir) => setQuery({ sort, dir }, { resetPage: true })} />
                     <Th>Who</Th>
-                    <Th>Action</Th>
+                    <Th>What happened</Th>
                     <Th>Record</Th>
                     <Th>Details</Th>
                   </tr>
@@ -95,12 +97,11 @@ export function AuditPage() {
                         <time dateTime={e.at}>{formatDateTime(e.at)}</time>
                       </Td>
                       <Td>{e.actor ?? <span className="text-ink-600">System</span>}</Td>
+                      <Td className="font-semibold">{auditActionLabel(e.action)}</Td>
                       <Td>
-                        <code className="font-mono text-sm">{e.action}</code>
-                      </Td>
-                      <Td>
-                        <span className="font-semibold">{e.entityType}</span>
-                        {e.entityId ? <span className="block font-mono text-sm break-all text-ink-700">{e.entityId}</span> : null}
+                        <span className="font-semibold">{recordWords(e.entityType)}</span>
+                        {e.subjectName ? <span className="block text-sm text-graphite-700">of {e.subjectName}</span> : null}
+                        {e.productionName ? <span className="block text-sm text-graphite-700">on {e.productionName}</span> : null}
                       </Td>
                       <Td>
                         <Details details={e.details} />

@@ -14,6 +14,7 @@ import { parseListParams, useListParams } from '../../../lib/list-params.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { outboxMessageQueryOptions, outboxQueryOptions } from '../api.ts';
 import { UnsentMail } from '../components/unsent-mail.tsx';
+import { EmailAddress } from '../../../components/ui/email-address.tsx';
 
 /** The text of one caught message; attachments are listed by name only (a consent copy carries health answers). */
 function MessageDialog({ id, subject, onClose }: { id: string; subject: string; onClose: () => void }) {
@@ -90,8 +91,8 @@ export function OutboxPage() {
                       <Td>
                         <ul className="flex flex-col">
                           {m.to.map((to) => (
-                            <li key={to} className="break-all">
-                              {to}
+                            <li key={to}>
+                              <EmailAddress value={to} />
                             </li>
                           ))}
                         </ul>

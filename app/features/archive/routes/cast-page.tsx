@@ -21,6 +21,7 @@ import { ConditionSection } from '../components/condition-section.tsx';
 import { MovementDialog } from '../components/movement-dialog.tsx';
 import { PhotoGrid } from '../components/photo-grid.tsx';
 import { PhotoUploader } from '../components/photo-uploader.tsx';
+import { useRecordProduction } from '../../../lib/session/use-record-production.ts';
 
 export async function castLoader({ params }: LoaderFunctionArgs) {
   const id = IdSchema.safeParse(params.id);
@@ -58,6 +59,7 @@ function CastView({ id }: { id: string }) {
 }
 
 function CastRecord({ cast: c }: { cast: CastDetail }) {
+  useRecordProduction(c.productionId);
   const [moving, setMoving] = useState<MovementKind | null>(null);
   const title = castTitle(c);
   return (

@@ -1,15 +1,7 @@
 import { PIECE_STATUS_LABELS, type PieceStatus } from '#shared/domain/builds.ts';
 import type { ApplianceOutlook } from '#shared/schemas/builds.ts';
 import { Icon, type IconName } from '../../../components/ui/icons.tsx';
-import type { BadgeTone } from '../../../components/ui/status-badge.tsx';
-
-const TONES: Record<BadgeTone, string> = {
-  neutral: 'bg-slate-100 text-slate-800',
-  good: 'bg-sage-100 text-sage-800',
-  warning: 'bg-amber-100 text-amber-800',
-  danger: 'bg-brick-100 text-brick-800',
-  accent: 'bg-clay-100 text-clay-900',
-};
+import { BADGE_TONES as TONES, type BadgeTone } from '../../../components/ui/status-badge.tsx';
 
 function Badge({ icon, tone, children, testId }: { icon: IconName; tone: BadgeTone; children: string; testId?: string }) {
   return (

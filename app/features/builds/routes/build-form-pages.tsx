@@ -8,6 +8,7 @@ import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { VersionedEditNotice } from '../../../components/ui/versioned-edit-notice.tsx';
 import { paths } from '../../../lib/paths.ts';
+import { formatDate } from '../../../lib/format.ts';
 import { seatProduction } from '../../../lib/session/seat-production.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { useVersionedEdit } from '../../../lib/use-versioned-edit.ts';
@@ -89,7 +90,7 @@ function EditForm({ build: b, refetch }: { build: BuildDetail; refetch: () => Pr
   const molds = [{ ...current.mold, performerId: current.performer.id, performerName: current.performer.name, madeOn: current.madeOn, status: 'in_store' as const }];
   return (
     <>
-      <PageHeading title="Correct the build">Correct the build of {current.madeOn}</PageHeading>
+      <PageHeading title="Correct the build">Correct the build of {formatDate(current.madeOn)}</PageHeading>
       <QueryView query={products} loadingLabel="Loading the catalogue…">
         {(p) => (
           <BuildForm

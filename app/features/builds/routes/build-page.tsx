@@ -20,6 +20,7 @@ import { CoatingResult } from '../components/coating-fields.tsx';
 import { PiecesSection } from '../components/pieces-section.tsx';
 import { OutlookSummary, PlanForm } from '../components/plan-form.tsx';
 import { WeighOut } from '../components/weigh-out.tsx';
+import { useRecordProduction } from '../../../lib/session/use-record-production.ts';
 
 export async function buildLoader({ params }: LoaderFunctionArgs) {
   const id = IdSchema.safeParse(params.id);
@@ -36,6 +37,7 @@ export function BuildPage() {
 function Build({ id }: { id: string }) {
   const queryClient = useQueryClient();
   const build = useQuery(buildQueryOptions(id));
+  useRecordProduction(build.data?.productionId);
   return (
     <>
       <nav aria-label="Breadcrumb">

@@ -2,15 +2,7 @@ import type { ReactNode } from 'react';
 import { LOT_STATE_LABELS, type LotState } from '#shared/domain/catalogue.ts';
 import { ALLERGEN_GROUP_LABELS, type AllergenGroup } from '#shared/domain/ingredients.ts';
 import { Icon, type IconName } from '../../../components/ui/icons.tsx';
-import type { BadgeTone } from '../../../components/ui/status-badge.tsx';
-
-const TONES: Record<BadgeTone, string> = {
-  neutral: 'bg-slate-100 text-slate-800',
-  good: 'bg-sage-100 text-sage-800',
-  warning: 'bg-amber-100 text-amber-800',
-  danger: 'bg-brick-100 text-brick-800',
-  accent: 'bg-clay-100 text-clay-900',
-};
+import { BADGE_TONES as TONES, type BadgeTone } from '../../../components/ui/status-badge.tsx';
 
 /** A state in words with its icon; the colour only backs them up. */
 export function MarkedBadge({ icon, tone, children, testId }: { icon: IconName; tone: BadgeTone; children: ReactNode; testId?: string }) {

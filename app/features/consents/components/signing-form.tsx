@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useId, useMemo, useRef, useState } from 'react';
-import { useController, useForm, type Control, type Path, type Resolver } from 'react-hook-form';
+import { useController, useForm, useWatch, type Control, type Path, type Resolver } from 'react-hook-form';
 import { z } from 'zod';
 import { CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
 import { answersSchemaFor, type Question } from '#shared/domain/questionnaire.ts';
@@ -14,6 +14,7 @@ import { formatDateTime } from '../../../lib/format.ts';
 import { Caution } from '../../../components/consent/caution.tsx';
 import { ConsentText } from '../../../components/consent/consent-text.tsx';
 import { SignatureField } from './signature-field.tsx';
+import { AnswerProgress, MissingSummary, partLabel, type MissingItem } from './signing-progress.tsx';
 
 export interface SigningValues {
   answers: Record<string, boolean | string | undefined>;
@@ -68,6 +69,8 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
   const schema = useMemo(() => signingSchema(template.questions, mode), [template.questions, mode]);
   const form = useForm<SigningValues>({
     resolver: zodResolver(schema) as unknown as Resolver<SigningValues>,
+    // The signature pad registers first; focus goes to the first missing answer in the form's order instead.
+    shouldFocusError: false,
     defaultValues: {
       answers: Object.fromEntries(template.questions.map((q) => [q.id, q.type === 'short_text' ? '' : undefined])),
       signerName: '',
@@ -126,9 +129,33 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
   }
 
   const agreeId = useId();
+  const parts = template.questions.length ? 3 : 2;
+  const answers = useWatch({ control: form.control, name: 'answers' });
+  const answeredCount = template.questions.filter((q) => answers[q.id] !== undefined && answers[q.id] !== '').length;
+  // In the form's order: the questions, then name, agreement and signature.
+  const missing: MissingItem[] =
+    form.formState.submitCount > 0
+      ? [
+          ...template.questions.flatMap((q) => {
+            const message = errors.answers?.[q.id]?.message;
+            return message ? [{ name: `answers.${q.id}`, label: q.label, message }] : [];
+          }),
+          ...(errors.signerName?.message ? [{ name: 'signerName', label: 'Your full name', message: errors.signerName.message }] : []),
+          ...(errors.agreed?.message ? [{ name: 'agreed', label: 'Agreement', message: 'Tick the box to agree' }] : []),
+          ...(errors.signaturePng?.message ? [{ name: 'signaturePng', label: 'Signature', message: errors.signaturePng.message }] : []),
+        ]
+      : [];
+  const goTo = (name: string) => form.setFocus(name as Path<SigningValues>);
+  function focusFirstMissing(invalid: typeof errors) {
+    const first = [
+      ...template.questions.filter((q) => invalid.answers?.[q.id]).map((q) => `answers.${q.id}`),
+      ...(['signerName', 'agreed', 'signaturePng'] as const).filter((n) => invalid[n]),
+    ][0];
+    if (first) goTo(first);
+  }
 
   return (
-    <form noValidate onSubmit={(e) => void form.handleSubmit(send)(e)} className="flex flex-col gap-8 text-lg" aria-label={template.title} data-testid="signing-form">
+    <form noValidate onSubmit={(e) => void form.handleSubmit(send, focusFirstMissing)(e)} className="flex flex-col gap-8 text-lg" aria-label={template.title} data-testid="signing-form">
       <header className="flex flex-col gap-2">
         <p className="text-lg font-semibold text-ink-700">
           {CONSENT_KIND_LABELS[template.kind]} · version {template.version}
@@ -149,9 +176,11 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
         )}
       </header>
 
+      <MissingSummary items={missing} onGo={goTo} />
+
       <section aria-labelledby={`${agreeId}-text`} className="flex flex-col gap-3 rounded-2xl border border-sand-300 bg-white p-5 sm:p-8">
-        <h2 id={`${agreeId}-text`} className="sr-only">
-          The form
+        <h2 id={`${agreeId}-text`} className="text-lg font-semibold text-ink-700">
+          {partLabel(1, parts)} · Read the form
         </h2>
         <ConsentText body={template.body} headingLevel={3} large testId="signing-text" />
       </section>
@@ -159,8 +188,10 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
       {template.questions.length ? (
         <section aria-labelledby={`${agreeId}-questions`} className="flex flex-col gap-6">
           <h2 id={`${agreeId}-questions`} className="text-2xl font-bold text-ink-900">
+            <span className="block text-lg font-semibold text-ink-700">{partLabel(2, parts)}</span>
             Your answers
           </h2>
+          <AnswerProgress answered={answeredCount} total={template.questions.length} />
           {template.questions.map((q) => (
             <QuestionField key={q.id} question={q} control={form.control} error={errors.answers?.[q.id]?.message} disabled={isSubmitting} />
           ))}
@@ -169,6 +200,7 @@ export function SigningFormView({ form: signing, idempotencyKey, mode, submit, o
 
       <section aria-labelledby={`${agreeId}-sign`} className="flex flex-col gap-6">
         <h2 id={`${agreeId}-sign`} className="text-2xl font-bold text-ink-900">
+          <span className="block text-lg font-semibold text-ink-700">{partLabel(parts, parts)}</span>
           Agree and sign
         </h2>
         <BigTextField

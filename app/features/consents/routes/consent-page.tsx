@@ -21,6 +21,7 @@ import { consentQueryOptions, useWithdrawConsent } from '../api.ts';
 import { ConsentStateBadge } from '../../../components/consent/consent-state.tsx';
 import { ConsentText } from '../../../components/consent/consent-text.tsx';
 import { WithdrawDialog } from '../components/withdraw-dialog.tsx';
+import { useRecordProduction } from '../../../lib/session/use-record-production.ts';
 
 export async function consentLoader({ params }: LoaderFunctionArgs) {
   const id = IdSchema.safeParse(params.id);
@@ -89,6 +90,7 @@ function ConsentView({ id }: { id: string }) {
 }
 
 function ConsentBody({ consent: c }: { consent: ConsentDetail }) {
+  useRecordProduction(c.productionId);
   const withdraw = useWithdrawConsent(c.id);
   const [open, setOpen] = useState(false);
 

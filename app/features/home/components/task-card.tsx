@@ -1,7 +1,7 @@
 import { useId } from 'react';
 import { Link } from 'react-router-dom';
 import type { Home } from '#shared/schemas/session.ts';
-import { formatNumber } from '../../../lib/format.ts';
+import { formatDateTime, formatNumber } from '../../../lib/format.ts';
 
 type Task = Home['tasks'][number];
 
@@ -10,6 +10,10 @@ function isAppPath(href: string): boolean {
   return /^\/(?!\/)/.test(href) && !href.startsWith('/api/');
 }
 
+/**
+ * A task card. Its four parts (title, count, words, list) sit on the rows of the grid around it
+ * (subgrid), so the counts of cards side by side line up whatever the length of their titles.
+ */
 export function TaskCard({ task }: { task: Task }) {
   const titleId = useId();
   const attention = task.count > 0;
@@ -17,21 +21,39 @@ export function TaskCard({ task }: { task: Task }) {
     <article
       aria-labelledby={titleId}
       data-testid="task-card"
-      className={`flex h-full flex-col gap-2 rounded-2xl border bg-white p-5 ${attention ? 'border-clay-600' : 'border-sand-300'}`}
+      data-task={task.id}
+      className={`row-span-4 grid grid-rows-subgrid gap-2 rounded-2xl border bg-white p-5 ${attention ? 'border-verdigris-600' : 'border-plaster-300'}`}
     >
-      <h2 id={titleId} className="text-lg font-bold text-ink-900">
+      <h2 id={titleId} className="self-start text-lg font-bold text-graphite-900">
         {task.href && isAppPath(task.href) ? (
-          <Link to={task.href} className="inline-flex min-h-11 items-center underline decoration-2 hover:text-clay-900">
+          <Link to={task.href} className="inline-flex min-h-11 items-center underline decoration-2 hover:text-verdigris-900">
             {task.title}
           </Link>
         ) : (
-          task.title
+          <span className="inline-flex min-h-11 items-center">{task.title}</span>
         )}
       </h2>
-      <p className="text-4xl font-bold text-clay-800" data-testid="task-count">
+      <p className="text-4xl font-bold text-verdigris-800" data-testid="task-count">
         {formatNumber(task.count)}
       </p>
-      <p className="text-ink-700">{task.detail}</p>
+      <p className="text-graphite-700">{task.detail}</p>
+      {task.items?.length ? (
+        <ul className="flex flex-col gap-1 text-graphite-900" data-testid="task-items">
+          {task.items.map((item, i) => (
+            <li key={`${item.label}-${i}`}>
+              <span className="font-semibold">{item.label}</span>
+              {item.at ? (
+                <>
+                  {' · '}
+                  <time dateTime={item.at}>{formatDateTime(item.at)}</time>
+                </>
+              ) : null}
+            </li>
+          ))}
+        </ul>
+      ) : (
+        <span aria-hidden="true" />
+      )}
     </article>
   );
 }

@@ -6,6 +6,7 @@ import { QueryView } from '../../../components/ui/query-view.tsx';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { homeQueryOptions } from '../api.ts';
+import { StartActions } from '../components/start-actions.tsx';
 import { TaskCard } from '../components/task-card.tsx';
 
 /** One line on what this seat is for, so a person switching seats knows which hat they wear. */
@@ -28,25 +29,45 @@ export function HomePage() {
   const home = useQuery(homeQueryOptions());
   const role: ActingRole = home.data?.role ?? session.current?.role ?? 'performer';
 
+  const performer = role === 'performer';
+
   return (
     <>
-      <PageHeading title="Today" testId="home-heading" lead={ROLE_INTROS[role]}>
-        Today <span className="text-2xl font-semibold text-ink-600">· {ROLE_LABELS[role]}</span>
+      <PageHeading
+        title={performer ? 'Your record' : 'Today'}
+        testId="home-heading"
+        lead={ROLE_INTROS[role]}
+        // A performer's own view uses no staff words: no role label beside the heading.
+      >
+        {performer ? (
+          `Hello, ${session.user.displayName.split(' ')[0]}`
+        ) : (
+          <>
+            Today <span className="text-2xl font-semibold text-graphite-600">· {ROLE_LABELS[role]}</span>
+          </>
+        )}
       </PageHeading>
       <QueryView query={home} loadingLabel="Loading today’s tasks…">
-        {(data) =>
-          data.tasks.length === 0 ? (
-            <EmptyState title="Nothing needs doing today." />
-          ) : (
-            <ul aria-label="Today’s tasks" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
-              {data.tasks.map((task) => (
-                <li key={task.id}>
-                  <TaskCard task={task} />
-                </li>
-              ))}
-            </ul>
-          )
-        }
+        {(data) => (
+          <>
+            {!performer && data.tasks.every((t) => t.count === 0) ? (
+              <EmptyState title="Nothing needs doing today." action={<StartActions />}>
+                Start from here:
+              </EmptyState>
+            ) : (
+              <StartActions />
+            )}
+            {data.tasks.length > 0 ? (
+              <ul aria-label={performer ? 'For you' : 'Today’s tasks'} className="grid gap-x-4 gap-y-4 sm:grid-cols-2 lg:grid-cols-3">
+                {data.tasks.map((task) => (
+                  <li key={task.id} className="row-span-4 grid grid-rows-subgrid">
+                    <TaskCard task={task} />
+                  </li>
+                ))}
+              </ul>
+            ) : null}
+          </>
+        )}
       </QueryView>
     </>
   );

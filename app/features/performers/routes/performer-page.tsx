@@ -4,8 +4,8 @@ import { IdSchema } from '#shared/schemas/common.ts';
 import type { PerformerDetail } from '#shared/schemas/performers.ts';
 import { NotFoundPage } from '../../../components/layout/not-found-page.tsx';
 import { Button, ButtonLink } from '../../../components/ui/button.tsx';
-import { EmptyState } from '../../../components/ui/empty-state.tsx';
 import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
+import { PageAnchor, PageIndex } from '../../../components/ui/page-index.tsx';
 import { PageHeading } from '../../../components/ui/page-heading.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { Section } from '../../../components/ui/section.tsx';
@@ -25,6 +25,7 @@ import { HealthReads } from '../components/health-reads.tsx';
 import { LinkedAccount } from '../components/linked-account.tsx';
 import { displayName } from '../components/names.tsx';
 import { PortraitPanel } from '../components/portrait-panel.tsx';
+import { ClearancePlaceholder, ConsentSummaryLine, EngagementLine } from '../components/record-summary.tsx';
 import { seatProduction } from '../../../lib/session/seat-production.ts';
 
 export async function performerLoader({ params }: LoaderFunctionArgs) {
@@ -84,11 +85,23 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
   const canBook = engagedHere && seatCan(session, 'patchtests.book');
   const bookings = p.bookings;
 
+  // What staff act on leads (who, where, consents, then requests and sessions); records below.
+  const index = [
+    { id: 'consents', label: 'Consents' },
+    { id: 'sessions', label: 'Sessions' },
+    { id: 'clearances', label: 'Clearances' },
+    ...(isSelf || seatCan(session, 'casts.read') ? [{ id: 'casts', label: 'Life casts' }] : []),
+    ...(isSelf || seatCan(session, 'builds.read') ? [{ id: 'appliances', label: 'Appliances' }] : []),
+    ...(p.contact ? [{ id: 'contact', label: 'Contact' }] : []),
+    { id: 'engagements', label: 'Engagements' },
+    ...(p.canSeeMedical ? [{ id: 'health', label: 'Health details' }] : []),
+  ];
+
   return (
     <div className="flex flex-col gap-6">
       <div className="flex flex-col gap-6 sm:flex-row sm:items-start">
         <PortraitPanel performer={p} />
-        <div className="flex flex-1 flex-col gap-3">
+        <div className="flex min-w-0 flex-1 flex-col gap-3">
           <PageHeading
             title={isSelf ? 'My record' : name}
             testId="performer-heading"
@@ -108,72 +121,95 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
           >
             {name}
           </PageHeading>
+          <EngagementLine performer={p} productionId={production?.id ?? null} />
+          <ConsentSummaryLine performer={p} production={isSelf ? null : production} />
           {isSelf ? (
-            <p className="max-w-prose text-ink-700">
+            <p className="max-w-prose text-graphite-700">
               This is what the department holds about you. You can withdraw any consent below, as easily as you gave it.
             </p>
           ) : null}
         </div>
       </div>
 
-      {p.contact ? (
-        <Section title="Contact" testId="contact-section">
-          <dl className="grid gap-x-6 gap-y-3 sm:grid-cols-[max-content_1fr]">
-            <EmailRow performer={p} />
-            <ContactRow label="Phone" value={p.contact.phone} />
-            <ContactRow label="Emergency contact" value={[p.contact.emergencyContactName, p.contact.emergencyContactPhone].filter(Boolean).join(', ') || null} />
-            <ContactRow label="Agent" value={[p.contact.agentName, p.contact.agentContact].filter(Boolean).join(', ') || null} />
-            <ContactRow label="Notes" value={p.contact.notes} />
-          </dl>
+      <PageIndex items={index} />
+
+      <PageAnchor id="consents">
+        <ConsentsSection performer={p} requestOn={requestOn} />
+      </PageAnchor>
+
+      <PageAnchor id="sessions">
+        <Section title="Sessions" testId="sessions-section">
+          {bookings.length === 0 ? (
+            <p className="text-graphite-700">No sessions booked from now on.</p>
+          ) : (
+            <BookingsTable bookings={bookings} caption={`Upcoming sessions of ${name}`} canCancel={canBook} />
+          )}
+          {canBook && production ? (
+            <>
+              <h3 className="text-lg font-bold text-graphite-900">Book a session</h3>
+              <BookingForm performerId={p.id} productionId={production.id} />
+            </>
+          ) : null}
         </Section>
+      </PageAnchor>
+
+      <PageAnchor id="clearances">
+        {/* The patch-test log fills this section; until then it says every product counts as Untested. */}
+        <Section title="Patch tests and clearances" testId="clearances-section">
+          <ClearancePlaceholder name={isSelf ? 'you' : name} />
+        </Section>
+      </PageAnchor>
+
+      <PageAnchor id="casts">
+        <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
+      </PageAnchor>
+      <PageAnchor id="appliances">
+        <PerformerBuilds performerId={p.id} isSelf={isSelf} />
+      </PageAnchor>
+
+      {p.contact ? (
+        <PageAnchor id="contact">
+          <Section title="Contact" testId="contact-section">
+            <dl className="grid gap-x-6 gap-y-3 sm:grid-cols-[max-content_1fr]">
+              <EmailRow performer={p} />
+              <ContactRow label="Phone" value={p.contact.phone} />
+              <ContactRow label="Emergency contact" value={[p.contact.emergencyContactName, p.contact.emergencyContactPhone].filter(Boolean).join(', ') || null} />
+              <ContactRow label="Agent" value={[p.contact.agentName, p.contact.agentContact].filter(Boolean).join(', ') || null} />
+              <ContactRow label="Notes" value={p.contact.notes} />
+            </dl>
+          </Section>
+        </PageAnchor>
       ) : null}
 
       <LinkedAccount performer={p} isSelf={isSelf} onReload={() => queryClient.fetchQuery({ ...performerQueryOptions(p.id), staleTime: 0 })} />
 
-      <Section title="Engagements">
-        {p.engagements.length === 0 ? (
-          <p className="text-ink-700">No engagements you can see.</p>
-        ) : (
-          <ul className="flex flex-col divide-y divide-sand-200" data-testid="engagements">
-            {p.engagements.map((e) => (
-              <li key={e.productionId} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
-                <span>
-                  <span className="font-semibold">{e.productionName}</span>
-                  {e.characterName ? <span> as {e.characterName}</span> : null}
-                </span>
-                <span className="text-sm text-ink-700">
-                  {e.startsOn || e.endsOn ? `${e.startsOn ? formatDate(e.startsOn) : 'Open start'} – ${e.endsOn ? formatDate(e.endsOn) : 'open end'}` : 'No dates'}
-                </span>
-              </li>
-            ))}
-          </ul>
-        )}
-      </Section>
+      <PageAnchor id="engagements">
+        <Section title="Engagements">
+          {p.engagements.length === 0 ? (
+            <p className="text-graphite-700">No engagements you can see.</p>
+          ) : (
+            <ul className="flex flex-col divide-y divide-plaster-200" data-testid="engagements">
+              {p.engagements.map((e) => (
+                <li key={e.productionId} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
+                  <span>
+                    <span className="font-semibold">{e.productionName}</span>
+                    {e.characterName ? <span> as {e.characterName}</span> : null}
+                  </span>
+                  <span className="text-sm text-graphite-700">
+                    {e.startsOn || e.endsOn ? `${e.startsOn ? formatDate(e.startsOn) : 'Open start'} – ${e.endsOn ? formatDate(e.endsOn) : 'open end'}` : 'No dates'}
+                  </span>
+                </li>
+              ))}
+            </ul>
+          )}
+        </Section>
+      </PageAnchor>
 
-      <ConsentsSection performer={p} requestOn={requestOn} />
-
-      <Section title="Sessions" testId="sessions-section">
-        {bookings.length === 0 ? (
-          <p className="text-ink-700">No sessions booked from now on.</p>
-        ) : (
-          <BookingsTable bookings={bookings} caption={`Upcoming sessions of ${name}`} canCancel={canBook} />
-        )}
-        {canBook && production ? (
-          <>
-            <h3 className="text-lg font-bold text-ink-900">Book a session</h3>
-            <BookingForm performerId={p.id} productionId={production.id} />
-          </>
-        ) : null}
-      </Section>
-
-      <Section title="Patch tests and clearances">
-        <EmptyState title="Nothing recorded yet.">Recorded here once the department starts testing.</EmptyState>
-      </Section>
-
-      <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
-      <PerformerBuilds performerId={p.id} isSelf={isSelf} />
-
-      {p.canSeeMedical ? <HealthReads performerId={p.id} isSelf={isSelf} /> : null}
+      {p.canSeeMedical ? (
+        <PageAnchor id="health">
+          <HealthReads performerId={p.id} isSelf={isSelf} />
+        </PageAnchor>
+      ) : null}
     </div>
   );
 }

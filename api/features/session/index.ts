@@ -1,0 +1,1 @@
+export { findLastSeat } from './repo.ts';

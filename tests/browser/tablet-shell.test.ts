@@ -1,0 +1,115 @@
+// The shell and the pages staff start from, on a tablet: homes that offer the next step, the
+// performer's own home, the performer page's lead and index, and a header that follows the page.
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import { createDb, type DbHandle } from '../../api/db/index.ts';
+import { DEMO_PASSWORD } from '../../fake-idp/accounts.ts';
+import { expectAccessible, launchBrowser, signInThroughIdp, TABLET_LANDSCAPE, TABLET_PORTRAIT, tabletContext } from '../support/browser.ts';
+
+const appUrl = inject('appUrl');
+let browser: Browser;
+let db: DbHandle;
+
+beforeAll(async () => {
+  db = createDb(inject('databaseUrl'), { max: 1 });
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await db?.close();
+});
+
+async function withPage(viewport: { width: number; height: number }, run: (page: Page) => Promise<void>) {
+  const context = await tabletContext(browser, viewport);
+  const page = await context.newPage();
+  try {
+    await run(page);
+  } finally {
+    await context.close();
+  }
+}
+
+describe('homes offer the next step', () => {
+  it('an artist with nothing to do today is offered where to start', async () => {
+    await withPage(TABLET_PORTRAIT, async (page) => {
+      await signInThroughIdp(page, appUrl, 'artist@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('heading', { level: 1, name: /Today · Artist/ }).waitFor();
+      const empty = page.getByTestId('empty-state');
+      await empty.getByText('Nothing needs doing today.').waitFor();
+      const actions = empty.getByTestId('start-actions').getByRole('link');
+      expect(await actions.allTextContents()).toEqual(['Find a performer', 'Product catalogue']);
+      for (const box of await Promise.all((await actions.all()).map((a) => a.boundingBox()))) expect(box!.height).toBeGreaterThanOrEqual(44);
+      await actions.first().click();
+      await page.getByRole('heading', { level: 1, name: /Performers/ }).waitFor();
+    });
+  });
+
+  it('a performer’s home shows their next session and what waits for them to sign, in their own words', async () => {
+    await withPage(TABLET_PORTRAIT, async (page) => {
+      await signInThroughIdp(page, appUrl, 'performer@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('heading', { level: 1, name: 'Hello, Juno' }).waitFor();
+      const next = page.locator('[data-task="my-next-session"]');
+      await next.waitFor();
+      // Juno has a session booked in the demo data; its time is worded by the browser (en-GB here).
+      expect(await next.getByTestId('task-items').textContent()).toMatch(/\d{1,2} [A-Z][a-z]{2,8} \d{4}/);
+      await page.locator('[data-task="my-forms-to-sign"]').waitFor();
+      const text = await page.evaluate(() => document.body.innerText);
+      for (const staffWord of ['Acting as', 'Performer ·', 'Designated lead', 'Department head']) expect(text).not.toContain(staffWord);
+      await expectAccessible(page, 'performer home');
+    });
+  });
+});
+
+describe('the performer page leads with what staff act on', () => {
+  it('name, character and production, the consent summary, the clearance placeholder and an index of sections', async () => {
+    await withPage(TABLET_PORTRAIT, async (page) => {
+      await signInThroughIdp(page, appUrl, 'lead@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor();
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Performers', exact: true }).click();
+      await page.getByTestId('performers-table').getByRole('link', { name: /Juno Castellane/ }).click();
+      await page.getByRole('heading', { level: 1, name: 'Juno Castellane' }).waitFor();
+      expect(await page.getByTestId('engagement-line').textContent()).toBe('The Keeper in The Lantern Keeper');
+      const summary = page.getByTestId('consent-summary');
+      expect(await summary.textContent()).toContain('Consents on The Lantern Keeper');
+      expect(await summary.getByTestId('summary-in-force').textContent()).toMatch(/^In force: /);
+      const placeholder = page.getByTestId('clearances-section').getByTestId('clearance-placeholder');
+      expect(await placeholder.textContent()).toContain('Clearances are not yet recorded in Plinth');
+      expect(await placeholder.getByTestId('clearance-state').textContent()).toBe('Untested');
+
+      // The summary sits above the sections, and the sections come in the order staff act on them.
+      const top = async (testId: string) => (await page.getByTestId(testId).boundingBox())!.y;
+      expect(await top('consent-summary')).toBeLessThan(await top('consents-section'));
+      expect(await top('consents-section')).toBeLessThan(await top('sessions-section'));
+      expect(await top('sessions-section')).toBeLessThan(await top('contact-section'));
+
+      const index = page.getByRole('navigation', { name: 'On this page' });
+      await index.getByRole('link', { name: 'Sessions' }).click();
+      await page.waitForURL(/#sessions$/);
+      expect((await page.getByTestId('sessions-section').boundingBox())!.y).toBeLessThan(TABLET_PORTRAIT.height / 2);
+      await expectAccessible(page, 'performer page');
+    });
+  });
+});
+
+describe('the header names the production the page shows', () => {
+  it('opening a cast of another of the archivist’s productions switches the seat to it', async () => {
+    const cast = await db.db
+      .selectFrom('casts as c')
+      .innerJoin('productions as p', 'p.id', 'c.production_id')
+      .select('c.id')
+      .where('p.name', '=', 'The Lantern Keeper')
+      .orderBy('c.id')
+      .executeTakeFirstOrThrow();
+    await withPage(TABLET_LANDSCAPE, async (page) => {
+      await signInThroughIdp(page, appUrl, 'archivist@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('heading', { level: 1, name: /Today · Archivist/ }).waitFor();
+      await page.getByTestId('account-control').getByRole('button', { name: /Nell Achterberg/ }).click();
+      await page.getByRole('group', { name: 'Acting as' }).getByRole('radio', { name: 'Saltglass Mile — Archivist' }).click();
+      await page.getByTestId('acting-context').getByText('Saltglass Mile · Archivist').waitFor();
+
+      await page.goto(`${appUrl}/archive/casts/${cast.id}`);
+      await page.getByTestId('acting-context').getByText('The Lantern Keeper · Archivist').waitFor();
+      expect(await page.locator('main').textContent()).toContain('from The Lantern Keeper');
+    });
+  });
+});
