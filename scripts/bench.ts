@@ -62,6 +62,12 @@ if (SCALE) {
     () => false,
   );
   await c.end().catch(() => {});
+  // A release with newer migrations than the seed: bring the schema up to date (no rows are added).
+  if (ready) {
+    const migrator = createDb(databaseUrl, { log: () => {} });
+    await migrateToLatest(migrator.db);
+    await migrator.close();
+  }
   if (!ready) {
     await cleanup();
     console.error('The scale database is empty or missing: run `npm run seed:scale` first.');
