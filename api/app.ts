@@ -5,7 +5,7 @@ import helmet from 'helmet';
 import type { Config } from './config.ts';
 import type { AppContext } from './context.ts';
 import { ApiError, apiNotFound, errorHandler } from './http/errors.ts';
-import { RATE_LIMITS_SETTING, rateLimiter } from './http/rate-limit.ts';
+import { RATE_LIMIT_POOL_SETTING, RATE_LIMITS_SETTING, rateLimiter } from './http/rate-limit.ts';
 import { mountRoutes } from './http/route.ts';
 import { sessionMiddleware } from './http/session.ts';
 import { allRoutes } from './routes.ts';
@@ -39,6 +39,7 @@ export function createApp({ ctx, pool, serveClient = false, clientMiddleware }: 
   // One reverse proxy in front: req.ip (audit entries, rate-limit keys) is the address it saw.
   if (config.trustProxy) app.set('trust proxy', 1);
   app.set(RATE_LIMITS_SETTING, config.rateLimits);
+  app.set(RATE_LIMIT_POOL_SETTING, pool);
 
   app.use(
     helmet({
@@ -63,7 +64,7 @@ export function createApp({ ctx, pool, serveClient = false, clientMiddleware }: 
   api.use(sameOriginWrites(config));
   api.use(
     '/auth',
-    rateLimiter({ windowMs: 60_000, limit: 60, message: 'Too many sign-in attempts. Wait a minute and try again.' }),
+    rateLimiter({ name: 'sign-in', windowMs: 60_000, limit: 60, message: 'Too many sign-in attempts. Wait a minute and try again.' }),
   );
   api.use(sessionMiddleware(config, pool));
   api.use((_req, res, next) => {

@@ -27,6 +27,15 @@ const EnvSchema = z
     SMTP_CATCHER_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
     MAIL_FROM: z.string().min(3).default('Plinth <plinth@plinth.test>'),
     STORAGE_DIR: z.string().default(path.join(root, 'storage')),
+    // Where stored files live: this machine's disk (STORAGE_DIR), or an S3-compatible bucket shared by several API processes.
+    FILE_STORE: z.enum(['local', 's3']).default('local'),
+    S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'must be a bucket name (3–63 lower-case letters, digits, dots or hyphens)').optional(),
+    S3_ENDPOINT: z.url({ message: 'must be the URL of the S3-compatible service, such as https://s3.example.org' }).optional(),
+    S3_REGION: z.string().min(1).default('us-east-1'),
+    S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+    S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+    S3_FORCE_PATH_STYLE: z.enum(['true', 'false']).optional(),
+    S3_PREFIX: z.string().regex(/^([a-z0-9-]+\/)*$/, 'must be empty or end with "/" (lower-case letters, digits and hyphens), such as plinth/').default(''),
     MAIL_DIR: z.string().optional(),
     // Unset means: start them in development and test, never in production.
     START_FAKES: z.enum(['true', 'false']).optional(),
@@ -58,6 +67,12 @@ const EnvSchema = z
     if (issuer.protocol === 'http:' && !['127.0.0.1', 'localhost', '[::1]'].includes(issuer.hostname)) {
       ctx.addIssue({ code: 'custom', path: ['OIDC_ISSUER'], message: 'must use https:// unless the identity provider runs on this machine (127.0.0.1 or localhost)' });
     }
+    if (env.FILE_STORE === 's3' && !env.S3_BUCKET) {
+      ctx.addIssue({ code: 'custom', path: ['S3_BUCKET'], message: 'must name the bucket when FILE_STORE=s3' });
+    }
+    if (!env.S3_ACCESS_KEY_ID !== !env.S3_SECRET_ACCESS_KEY) {
+      ctx.addIssue({ code: 'custom', path: [env.S3_ACCESS_KEY_ID ? 'S3_SECRET_ACCESS_KEY' : 'S3_ACCESS_KEY_ID'], message: 'must be set together with the other S3 key (or leave both unset to use the AWS default credentials)' });
+    }
     if (env.NODE_ENV === 'production' && env.START_FAKES === 'true') {
       ctx.addIssue({ code: 'custom', path: ['START_FAKES'], message: 'must be false in production: the demo identity provider and mail catcher are for development only' });
     }
@@ -86,6 +101,8 @@ export interface Config {
   smtpCatcherPort: number;
   mailFrom: string;
   storageDir: string;
+  /** Where stored files live (local disk under storageDir unless an S3-compatible bucket is configured). */
+  files: FilesConfig;
   mailDir: string;
   startFakes: boolean;
   trustProxy: boolean;
@@ -98,6 +115,21 @@ export interface Config {
   timeZone: string;
   root: string;
 }
+
+export type FilesConfig =
+  | { driver: 'local'; dir: string }
+  | {
+      driver: 's3';
+      bucket: string;
+      /** Unset means AWS itself. */
+      endpoint: string | null;
+      region: string;
+      /** Unset means the AWS default credential chain (environment, profile, instance role). */
+      credentials: { accessKeyId: string; secretAccessKey: string } | null;
+      forcePathStyle: boolean;
+      /** Prepended to every object key, so one bucket can hold several studios. */
+      prefix: string;
+    };
 
 export class ConfigError extends Error {
   constructor(public readonly problems: string[]) {
@@ -142,6 +174,19 @@ export function parseConfig(source: Record<string, string | undefined>): Config 
     smtpCatcherPort: env.SMTP_CATCHER_PORT,
     mailFrom: env.MAIL_FROM,
     storageDir,
+    files:
+      env.FILE_STORE === 's3'
+        ? {
+            driver: 's3',
+            bucket: env.S3_BUCKET!,
+            endpoint: env.S3_ENDPOINT ?? null,
+            region: env.S3_REGION,
+            credentials: env.S3_ACCESS_KEY_ID && env.S3_SECRET_ACCESS_KEY ? { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY } : null,
+            // A self-hosted service at its own address seldom has a DNS name per bucket.
+            forcePathStyle: env.S3_FORCE_PATH_STYLE ? env.S3_FORCE_PATH_STYLE === 'true' : Boolean(env.S3_ENDPOINT),
+            prefix: env.S3_PREFIX,
+          }
+        : { driver: 'local', dir: storageDir },
     mailDir: env.MAIL_DIR ? path.resolve(root, env.MAIL_DIR) : path.join(storageDir, 'mail'),
     startFakes: env.START_FAKES ? env.START_FAKES === 'true' : env.NODE_ENV !== 'production',
     trustProxy: env.TRUST_PROXY === 'true',

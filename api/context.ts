@@ -1,5 +1,6 @@
 import type { Config } from './config.ts';
 import type { Db } from './db/index.ts';
+import type { FileStore } from './files/drivers.ts';
 import type { Mailer } from './mail/mailer.ts';
 import type { OidcClient } from './auth/oidc-client.ts';
 
@@ -7,6 +8,8 @@ import type { OidcClient } from './auth/oidc-client.ts';
 export interface AppContext {
   config: Config;
   db: Db;
+  /** Stored files (disk or bucket, by configuration); only api/files/store.ts reads and writes it. */
+  files: FileStore;
   mailer: Mailer;
   oidc: OidcClient;
   log: (msg: string, err?: unknown) => void;

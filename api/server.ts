@@ -10,6 +10,7 @@ import { createDb } from './db/index.ts';
 import { allJobs } from './jobs/jobs.ts';
 import { startJobRunner, type JobRunner } from './jobs/runner.ts';
 import { createMailer } from './mail/mailer.ts';
+import { createFileStore } from './files/store.ts';
 
 export interface RunningServer {
   url: string;
@@ -26,7 +27,8 @@ export async function startServer(config: Config, databaseUrl: string, opts: { s
   installMedicalKeys(config);
   const handle = createDb(databaseUrl, { log });
   const mailer = createMailer(config.smtpUrl, config.mailFrom);
-  const ctx: AppContext = { config, db: handle.db, mailer, oidc: createOidcClient(config.oidc, log), log };
+  const files = createFileStore(config.files);
+  const ctx: AppContext = { config, db: handle.db, files, mailer, oidc: createOidcClient(config.oidc, log), log };
   const app = createApp({ ctx, pool: handle.pool, serveClient: opts.serveClient ?? true, clientMiddleware: opts.clientMiddleware });
 
   const server: Server = await new Promise((resolve, reject) => {
@@ -45,6 +47,7 @@ export async function startServer(config: Config, databaseUrl: string, opts: { s
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       mailer.close();
+      files.close();
       await handle.close();
     },
   };

@@ -46,6 +46,14 @@ async function main(): Promise<void> {
     process.exit(1);
   }
   const [command, file] = process.argv.slice(2);
+  if (config.files.driver !== 'local') {
+    // The bucket keeps its own copies (versioning, replication); this archive is for files on disk.
+    console.error(
+      `FILE_STORE=${config.files.driver}: the stored files live in the bucket "${config.files.bucket}", which this command does not copy. ` +
+        'Back up the database with pg_dump and the bucket with its own versioning or replication (see "Backup and restore" in README.md).',
+    );
+    process.exit(2);
+  }
   if (command === 'backup') {
     const out = path.resolve(file ?? path.join(root, 'backups', `plinth-${new Date().toISOString().replace(/[:.]/g, '-')}.tar.gz`));
     const manifest = await withDatabase(config, (url) => backup({ databaseUrl: url, storageDir: config.storageDir, out }));

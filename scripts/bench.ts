@@ -1,154 +1,108 @@
 /**
- * `npm run bench`: measures the API with autocannon on a throwaway database with a studio-sized
- * data set, beside a bare Express + pg primary-key lookup on the same database, and prints figures.
- * Nothing here asserts a time; tests stay deterministic.
+ * `npm run bench [-- --scale]`: measures the API with autocannon beside a bare Express 5 + pg
+ * primary-key lookup on the same database in the same run, EXPLAINs the reads each hot route
+ * makes, weighs the client's initial JavaScript, and writes it all to bench/results.json.
+ * Without --scale it loads a quick data set into a throwaway cluster; with --scale it reads the
+ * studio `npm run seed:scale` made. Nothing here asserts a time; tests stay deterministic.
  */
-import type { AddressInfo } from 'node:net';
-import type { Server } from 'node:http';
 import { createHmac, randomBytes } from 'node:crypto';
-import { mkdtemp } from 'node:fs/promises';
-import { rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import autocannon from 'autocannon';
+import { mkdir, writeFile } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
 import express from 'express';
+import { sql } from 'kysely';
 import pg from 'pg';
 import { createApp } from '../api/app.ts';
 import { createOidcClient } from '../api/auth/oidc-client.ts';
 import { parseConfig } from '../api/config.ts';
+import { installKeyring, keyringOf } from '../api/crypto/medical.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
-import { seedDemo } from '../api/db/seed.ts';
-import { installKeyring, keyringOf } from '../api/crypto/medical.ts';
+import { localFileStore } from '../api/files/drivers.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
-import { BODY_REGIONS, CAST_KINDS } from '../shared/domain/archive-casts.ts';
-import { LABEL_CODE_SPACE, labelCodeFromNumber } from '../shared/domain/label-codes.ts';
+import { allRoutes } from '../api/routes.ts';
+import { CASTS, loadQuickData, PERFORMERS, USERS } from './bench-load.ts';
+import { explainStatements, formatTable, initialJsGzipBytes, LARGE_TABLE_ROWS, listen, measure, type PlanReport, type Row, statementRecorder, type Target } from './bench-lib.ts';
 import { createThrowawayCluster, ensureDatabase } from './pg.ts';
+import { openScaleDatabase, SCALE_MEDICAL_KEY } from './scale-db.ts';
 
-const USERS = Number(process.env.BENCH_USERS ?? 5000);
-const PERFORMERS = Number(process.env.BENCH_PERFORMERS ?? 3000);
+const SCALE = process.argv.includes('--scale');
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 6);
-const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
+/** Hot routes run at each of these; the rest at the first only. */
+const CONNECTIONS = (process.env.BENCH_CONNECTIONS ?? '10,50').split(',').map(Number);
 /** A comma-separated list of words; only routes whose label contains one are measured (the baseline always is). */
 const ONLY = (process.env.BENCH_ONLY ?? '').split(',').map((w) => w.trim().toLowerCase()).filter(Boolean);
-const CASTS = Number(process.env.BENCH_CASTS ?? 100_000);
+const BUILD = process.env.BENCH_BUILD !== 'off';
+const root = path.resolve(import.meta.dirname, '..');
+const mounted = (method: string, p: string) => allRoutes.some((r) => r.method === method && r.path === p);
+const wanted = (label: string) => !ONLY.length || ONLY.some((w) => label.toLowerCase().includes(w));
 
-interface Row {
-  label: string;
-  rps: number;
-  p50: number;
-  p975: number;
-  p99: number;
-  failed: number;
+let clientSize: Awaited<ReturnType<typeof initialJsGzipBytes>> | null = null;
+if (BUILD) {
+  const { build } = await import('vite');
+  await build({ root, logLevel: 'warn', configFile: path.join(root, 'vite.config.ts') });
+  clientSize = await initialJsGzipBytes(path.join(root, 'dist'));
+  console.log(`Initial JavaScript of the built client: ${(clientSize.gzipBytes / 1024).toFixed(1)} kB gzipped (${clientSize.files.length} files)`);
 }
 
-/** autocannon in a worker thread, so the load generator does not share the server's event loop. */
-async function measure(label: string, url: string, cookie?: string): Promise<Row | null> {
-  if (ONLY.length && !label.includes('baseline') && !ONLY.some((w) => label.toLowerCase().includes(w))) return null;
-  const headers = cookie ? { cookie } : {};
-  await autocannon({ url, connections: CONNECTIONS, duration: 1, headers, workers: 1 });
-  const r = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers, workers: 1 });
-  return { label, rps: r.requests.average, p50: r.latency.p50, p975: r.latency.p97_5, p99: r.latency.p99, failed: r.non2xx + r.errors + r.timeouts };
-}
-
-function listen(app: express.Express): Promise<{ server: Server; base: string }> {
-  return new Promise((resolve) => {
-    const server = app.listen(0, '127.0.0.1', () => resolve({ server, base: `http://127.0.0.1:${(server.address() as AddressInfo).port}` }));
-  });
-}
-
-function printTable(rows: Row[], baselineRps: number): void {
-  const head = ['route', 'req/s', 'p50 ms', 'p97.5 ms', 'p99 ms', '× baseline'];
-  const body = rows.map((r) => [
-    r.label + (r.failed ? `  (${r.failed} failed)` : ''),
-    r.rps.toFixed(0),
-    r.p50.toFixed(1),
-    r.p975.toFixed(1),
-    r.p99.toFixed(1),
-    (r.rps / baselineRps).toFixed(2),
-  ]);
-  const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i]!.length)));
-  const line = (cells: string[]) => `| ${cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join(' | ')} |`;
-  console.log(line(head));
-  console.log(`|${widths.map((w, i) => (i === 0 ? '-'.repeat(w + 2) : `${'-'.repeat(w + 1)}:`)).join('|')}|`);
-  for (const b of body) console.log(line(b));
-}
-
-const { cluster, dispose } = await createThrowawayCluster();
-try {
+const secret = 'bench-session-secret-0123456789abcdef-xyz';
+const baseConfig = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret });
+let databaseUrl: string;
+let storage: string;
+let cleanup: () => Promise<void>;
+if (SCALE) {
+  const scale = await openScaleDatabase(baseConfig);
+  databaseUrl = scale.url;
+  storage = scale.storageDir;
+  cleanup = scale.close;
+  installKeyring(keyringOf(SCALE_MEDICAL_KEY));
+  const c = new pg.Client({ connectionString: databaseUrl });
+  const ready = await c.connect().then(
+    async () => Number((await c.query<{ n: string }>('select count(*) as n from performers')).rows[0]!.n) > 1000,
+    () => false,
+  );
+  await c.end().catch(() => {});
+  // A release with newer migrations than the seed: bring the schema up to date (no rows are added).
+  if (ready) {
+    const migrator = createDb(databaseUrl, { log: () => {} });
+    await migrateToLatest(migrator.db);
+    await migrator.close();
+  }
+  if (!ready) {
+    await cleanup();
+    console.error('The scale database is empty or missing: run `npm run seed:scale` first.');
+    process.exit(1);
+  }
+} else {
+  const { cluster, dispose } = await createThrowawayCluster();
   await ensureDatabase(cluster, 'bench');
-  const handle = createDb(cluster.url('bench'), { log: () => {} });
-  await migrateToLatest(handle.db);
-  const storage = await mkdtemp(`${tmpdir()}/plinth-bench-`);
-  process.on('exit', () => rmSync(storage, { recursive: true, force: true }));
-  const s0 = performance.now();
-  installKeyring(keyringOf(randomBytes(32).toString('base64')));
-  await seedDemo(handle.db, { storageDir: storage });
-  console.log(`Demo scenario (11 signed consents with PDFs) seeded in ${((performance.now() - s0) / 1000).toFixed(2)} s`);
-  const t0 = performance.now();
-  for (let i = 0; i < USERS; i += 1000) {
-    const rows = Array.from({ length: Math.min(1000, USERS - i) }, (_, k) => ({ email: `bench${i + k}@example.test`, display_name: `Bench Person ${i + k}` }));
-    await handle.db.insertInto('users').values(rows).execute();
-  }
-  console.log(`Loaded ${USERS} extra users in ${((performance.now() - t0) / 1000).toFixed(2)} s`);
-  const lantern = await handle.db.selectFrom('productions').select('id').where('name', '=', 'The Lantern Keeper').executeTakeFirstOrThrow();
-  const t1 = performance.now();
-  for (let i = 0; i < PERFORMERS; i += 500) {
-    const rows = await handle.db
-      .insertInto('performers')
-      .values(Array.from({ length: Math.min(500, PERFORMERS - i) }, (_, k) => ({ legal_name: `Bench Performer ${i + k} ${['Arden', 'Blythe', 'Corwen', 'Dalby'][(i + k) % 4]}` })))
-      .returning('id')
-      .execute();
-    await handle.db.insertInto('engagements').values(rows.map((r) => ({ performer_id: r.id, production_id: lantern.id }))).execute();
-  }
-  console.log(`Loaded ${PERFORMERS} extra performers on The Lantern Keeper in ${((performance.now() - t1) / 1000).toFixed(2)} s`);
-  // Settle the freshly loaded database first, so autovacuum and a checkpoint do not land inside the first measurement.
-  await handle.pool.query('vacuum analyze');
+  databaseUrl = cluster.url('bench');
+  cleanup = dispose;
+  const loader = createDb(databaseUrl, { log: () => {} });
+  await migrateToLatest(loader.db);
+  storage = await loadQuickData(loader);
+  await loader.pool.query('vacuum analyze');
+  await loader.close();
+}
+
+const handle = createDb(databaseUrl, { log: () => {} });
+try {
   await handle.pool.query('checkpoint');
-
-  // The archive: CASTS casts of the bench performers, spread over the demo store's shelves and bins.
-  const t2 = performance.now();
-  const performerIds = (await handle.db.selectFrom('performers').select('id').execute()).map((r) => r.id);
-  const shelves = (await handle.db.selectFrom('archive_locations').select('id').where('level', 'in', ['shelf', 'bin']).execute()).map((r) => r.id);
-  const taken = new Set((await handle.db.selectFrom('casts').select('label_code').execute()).map((r) => r.label_code));
-  const BATCH = 2500;
-  for (let i = 0; i < CASTS; i += BATCH) {
-    const rows = Array.from({ length: Math.min(BATCH, CASTS - i) }, (_, k) => {
-      const n = i + k;
-      let labelNumber = (n * 7_919 + 104_729) % LABEL_CODE_SPACE;
-      while (taken.has(labelCodeFromNumber('cast', labelNumber))) labelNumber = (labelNumber + 1) % LABEL_CODE_SPACE;
-      const label = labelCodeFromNumber('cast', labelNumber);
-      taken.add(label);
-      const shelf = shelves[n % shelves.length]!;
-      return {
-        label_code: label,
-        performer_id: performerIds[n % performerIds.length]!,
-        production_id: lantern.id,
-        region: BODY_REGIONS[n % BODY_REGIONS.length]!,
-        kind: CAST_KINDS[(n >> 2) % CAST_KINDS.length]!,
-        material: 'Gypsum stone',
-        made_on: `20${String(10 + (n % 16)).padStart(2, '0')}-0${1 + (n % 9)}-1${n % 10}`,
-        made_by: 'Bench Maker',
-        normal_location_id: shelf,
-        current_location_id: shelf,
-        since: new Date(),
-      };
-    });
-    await handle.db.insertInto('casts').values(rows).execute();
-  }
-  await handle.pool.query('analyze casts; analyze performers; analyze engagements; analyze productions');
-  console.log(`Loaded ${CASTS} casts in ${((performance.now() - t2) / 1000).toFixed(2)} s`);
-  const someLabel = labelCodeFromNumber('cast', (4_242 * 7_919 + 104_729) % LABEL_CODE_SPACE);
-
-  const secret = 'bench-session-secret-0123456789abcdef-xyz';
-  const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: cluster.url('bench'), STORAGE_DIR: storage });
+  const counts = Object.fromEntries(
+    (await handle.pool.query<{ t: string; n: string }>(
+      `select relname as t, n_live_tup::text as n from pg_stat_user_tables where relname in ('performers','engagements','products','product_lots','casts','cast_movements','audit_log','patch_tests','patch_test_readings','users') order by relname`,
+    )).rows.map((r) => [r.t, Number(r.n)]),
+  );
+  const config = parseConfig({ NODE_ENV: 'test', PORT: '0', SESSION_SECRET: secret, DATABASE_URL: databaseUrl, STORAGE_DIR: storage });
   const app = createApp({
-    ctx: { config, db: handle.db, mailer: { send: async () => ({ messageId: 'bench' }), close() {} }, oidc: createOidcClient(config.oidc), log: () => {} },
+    ctx: { config, db: handle.db, files: localFileStore(storage), mailer: { send: async () => ({ messageId: 'bench' }), close() {} }, oidc: createOidcClient(config.oidc), log: () => {} },
     pool: handle.pool,
+    serveClient: BUILD,
   });
   const plinth = await listen(app);
 
   // The floor to compare with: Express 5 and one pg primary-key read, nothing else.
-  const barePool = new pg.Pool({ connectionString: cluster.url('bench'), max: 10 });
+  const barePool = new pg.Pool({ connectionString: databaseUrl, max: 10 });
   const bareApp = express();
   bareApp.get('/performers/:id', async (req, res, next) => {
     try {
@@ -169,45 +123,103 @@ try {
     await handle.db.insertInto('sessions').values({ sid, sess: JSON.stringify({ cookie, userId: user.id, signedInAt: Date.now() }), expire: expires }).execute();
     return `${SESSION_COOKIE}=${encodeURIComponent(`s:${sid}.${createHmac('sha256', secret).update(sid).digest('base64').replace(/=+$/, '')}`)}`;
   }
-  const admin = await cookieFor('admin@plinth.test');
-  const head = await cookieFor('head@plinth.test');
-  const lead = await cookieFor('lead@plinth.test');
+  const [admin, head, lead, artist, archivist] = await Promise.all(['admin', 'head', 'lead', 'artist', 'archivist'].map((w) => cookieFor(`${w}@plinth.test`)));
   const juno = await handle.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow();
-
-  console.log(`\nautocannon, ${CONNECTIONS} connections, ${SECONDS} s per route after a 1 s warm-up; a department head's session unless named:\n`);
-  const bareUrl = `${bare.base}/performers/${juno.id}`;
-  const before = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, first)', bareUrl))!;
-  const rows: (Row | null)[] = [before];
+  const lantern = await handle.db.selectFrom('productions').select('id').where('name', '=', 'The Lantern Keeper').executeTakeFirstOrThrow();
+  const someLabel = (await handle.db.selectFrom('casts').select('label_code').orderBy('label_code').offset(4242).limit(1).executeTakeFirst())?.label_code ?? 'C-000000';
+  // The 30-product kit seed:scale gave Juno Castellane's tests (any 30 products on the quick data set).
+  const kit = (await handle.db.selectFrom('products').select('id').orderBy(sql`name not like 'Studio %'`).orderBy('name').limit(30).execute()).map((r) => r.id);
   const p = plinth.base;
-  rows.push(await measure('GET /api/health', `${p}/api/health`, head));
-  rows.push(await measure('GET /api/session', `${p}/api/session`, head));
-  rows.push(await measure('GET /api/performers/:id', `${p}/api/performers/${juno.id}`, head));
-  rows.push(await measure(`GET /api/performers page 1 of ${PERFORMERS + 6}`, `${p}/api/performers?pageSize=25`, head));
-  rows.push(await measure('GET /api/performers?q=castelane', `${p}/api/performers?q=castelane`, head));
-  rows.push(await measure('GET /api/performers consent=incomplete', `${p}/api/performers?consent=incomplete&pageSize=25`, head));
-  rows.push(await measure('GET /api/home (admin)', `${p}/api/home`, admin));
-  rows.push(await measure(`GET /api/users page 1 of ${USERS + 8} (admin)`, `${p}/api/users?pageSize=25`, admin));
-  rows.push(await measure('GET /api/users?q=person 42 (admin)', `${p}/api/users?q=person%2042&pageSize=25`, admin));
-  rows.push(await measure('GET /api/consent-templates (lead)', `${p}/api/consent-templates`, lead));
-  const archivist = await cookieFor('archivist@plinth.test');
-  const casts = `${CASTS + 20} casts`;
-  rows.push(await measure(`GET /api/casts page 1 of ${casts} (archivist)`, `${p}/api/casts?pageSize=25`, archivist));
-  rows.push(await measure('GET /api/casts fuzzy "castelane" (archivist)', `${p}/api/casts?q=castelane`, archivist));
-  rows.push(await measure('GET /api/casts "arden face mold" (3 terms, archivist)', `${p}/api/casts?q=arden%20face%20mold`, archivist));
-  rows.push(await measure('GET /api/casts label code (archivist)', `${p}/api/casts?q=${someLabel}`, archivist));
-  rows.push(await measure('GET /api/casts code path GH/NORTH/R1 (archivist)', `${p}/api/casts?q=GH%2FNORTH%2FR1&pageSize=25`, archivist));
-  rows.push(await measure('GET /api/casts region=face&kind=mold, page 40 (archivist)', `${p}/api/casts?region=face&kind=mold&page=40`, archivist));
-  // Measured again last: the ratio is to the mean of both, so a machine that slows down part-way shows up as two different baselines.
-  const after = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, last)', bareUrl))!;
-  rows.push(after);
-  printTable(rows.filter((r): r is Row => r !== null), (before.rps + after.rps) / 2);
+
+  // The routes a studio leans on all day; measured at every connection count, their reads EXPLAINed.
+  const hot: Target[] = [
+    { label: 'performer search ?q=castelane (head)', url: `${p}/api/performers?q=castelane`, cookie: head },
+    { label: 'performer search ?q=thistlethorpe (head)', url: `${p}/api/performers?q=thistlethorpe`, cookie: head },
+    { label: 'cast search fuzzy "castelane" (archivist)', url: `${p}/api/casts?q=castelane`, cookie: archivist },
+    { label: 'cast search label code (archivist)', url: `${p}/api/casts?q=${someLabel}`, cookie: archivist },
+    { label: "lead's home GET /api/home (lead)", url: `${p}/api/home`, cookie: lead },
+    { label: 'performer page GET /api/performers/:id (head)', url: `${p}/api/performers/${juno.id}`, cookie: head },
+    { label: 'performer page GET /api/performers/:id (lead)', url: `${p}/api/performers/${juno.id}`, cookie: lead },
+  ];
+  // Measured once they are mounted: the clearance table and the artist's check.
+  if (mounted('get', '/api/performers/:id/patch-tests')) {
+    const url = `${p}/api/performers/${juno.id}/patch-tests`;
+    hot.push({ label: 'clearance table, 200 tests (head)', url, cookie: head }, { label: 'clearance table, 200 tests (lead)', url, cookie: lead });
+  }
+  if (mounted('post', '/api/checks')) {
+    hot.push({ label: "artist's check, 30-product kit, 200 tests (artist)", url: `${p}/api/checks`, cookie: artist, method: 'POST', origin: p, body: { productionId: lantern.id, performerId: juno.id, productIds: kit } });
+  }
+  const others: Target[] = [
+    { label: 'GET /api/health', url: `${p}/api/health`, cookie: head },
+    { label: 'GET /api/session', url: `${p}/api/session`, cookie: head },
+    { label: 'GET /api/performers page 1', url: `${p}/api/performers?pageSize=25`, cookie: head },
+    { label: 'GET /api/performers consent=incomplete', url: `${p}/api/performers?consent=incomplete&pageSize=25`, cookie: head },
+    { label: 'GET /api/home (admin)', url: `${p}/api/home`, cookie: admin },
+    { label: 'GET /api/users page 1 (admin)', url: `${p}/api/users?pageSize=25`, cookie: admin },
+    { label: 'GET /api/consent-templates (lead)', url: `${p}/api/consent-templates`, cookie: lead },
+    { label: 'GET /api/casts page 1 (archivist)', url: `${p}/api/casts?pageSize=25`, cookie: archivist },
+    { label: 'GET /api/casts code path GH/NORTH/R1 (archivist)', url: `${p}/api/casts?q=GH%2FNORTH%2FR1&pageSize=25`, cookie: archivist },
+    { label: 'GET /api/casts region=face&kind=mold, page 40 (archivist)', url: `${p}/api/casts?region=face&kind=mold&page=40`, cookie: archivist },
+  ];
+
+  // One request of each hot route with its statements recorded, then their plans.
+  const recorder = statementRecorder();
+  const plans: PlanReport[] = [];
+  for (const t of hot.filter((h) => wanted(h.label))) {
+    recorder.start();
+    const res = await fetch(t.url, { method: t.method ?? 'GET', headers: { cookie: t.cookie ?? '', ...(t.body ? { 'content-type': 'application/json', origin: t.origin ?? '' } : {}) }, body: t.body ? JSON.stringify(t.body) : undefined });
+    await res.arrayBuffer();
+    const statements = recorder.stop();
+    if (!res.ok) console.log(`  ${t.label}: answered ${res.status}`);
+    plans.push(...(await explainStatements(databaseUrl, t.label, statements)));
+  }
+
+  const mode = SCALE ? 'the seed:scale studio' : `the quick data set (${PERFORMERS} performers, ${USERS} users, ${CASTS} casts)`;
+  console.log(`\nautocannon on ${mode}, ${SECONDS} s per route after a 1 s warm-up, ${os.cpus().length} CPUs:\n`);
+  const bareUrl = `${bare.base}/performers/${juno.id}`;
+  const rows: Row[] = [];
+  const baselines = new Map<number, number[]>();
+  for (const [i, conns] of CONNECTIONS.entries()) {
+    const first = await measure({ label: 'baseline: bare Express 5 + pg primary key (first)', url: bareUrl }, conns, SECONDS);
+    rows.push(first);
+    for (const t of [...hot, ...(i === 0 ? others : [])].filter((x) => wanted(x.label))) rows.push(await measure(t, conns, SECONDS));
+    // Measured again last: the ratio is to the mean of both, so a machine that slows part-way shows as two baselines.
+    const last = await measure({ label: 'baseline: bare Express 5 + pg primary key (last)', url: bareUrl }, conns, SECONDS);
+    rows.push(last);
+    baselines.set(conns, [first.rps, last.rps]);
+  }
+  const baselineRps = (c: number) => (baselines.get(c)!.reduce((a, b) => a + b, 0) / 2);
+  console.log(formatTable(rows, baselineRps));
+
+  console.log(`\nEXPLAIN (ANALYZE) of ${plans.length} reads made by the hot routes:`);
+  for (const pl of plans) {
+    const scans = pl.seqScans.map((s) => `${s.table} (${s.rows.toLocaleString('en')} rows)`).join(', ');
+    console.log(`  ${pl.flagged ? 'SEQ SCAN ON A LARGE TABLE' : 'ok'.padEnd(25)} ${pl.executionMs.toFixed(2).padStart(8)} ms  ${pl.route}: ${pl.sql.slice(0, 110)}${scans ? `  [seq: ${scans}]` : ''}`);
+  }
+  const flagged = plans.filter((pl) => pl.flagged);
+  console.log(flagged.length ? `\n${flagged.length} read(s) scan a table of ${LARGE_TABLE_ROWS.toLocaleString('en')} rows or more in sequence.` : `\nNo hot read scans a table of ${LARGE_TABLE_ROWS.toLocaleString('en')} rows or more in sequence.`);
+
+  const results = {
+    at: new Date().toISOString(),
+    data: SCALE ? 'scale' : 'quick',
+    machine: { cpus: os.cpus().length, cpu: os.cpus()[0]?.model ?? null, node: process.version },
+    seconds: SECONDS,
+    rows: counts,
+    baseline: Object.fromEntries([...baselines].map(([c, v]) => [c, { first: v[0], last: v[1], mean: baselineRps(c) }])),
+    routes: rows.map((r) => ({ ...r, hot: hot.some((h) => h.label === r.label), ratio: r.rps / baselineRps(r.connections) })),
+    client: clientSize ? { initialJsGzipBytes: clientSize.gzipBytes, files: clientSize.files, limitBytes: 200 * 1024 } : null,
+    explain: { largeTableRows: LARGE_TABLE_ROWS, flagged: flagged.length, plans },
+  };
+  await mkdir(path.join(root, 'bench'), { recursive: true });
+  await writeFile(path.join(root, 'bench', 'results.json'), JSON.stringify(results, null, 2) + '\n');
+  console.log('Written to bench/results.json');
 
   for (const s of [plinth.server, bare.server]) {
     s.closeAllConnections();
     s.close();
   }
   await barePool.end();
-  await handle.close();
 } finally {
-  await dispose();
+  await handle.close();
+  await cleanup();
 }

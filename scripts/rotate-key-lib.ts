@@ -2,12 +2,12 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import { readFile, rename, rm, writeFile } from 'node:fs/promises';
-import path from 'node:path';
 import { sql } from 'kysely';
 import { previousKeyFile } from '../api/crypto/medical-keys.ts';
 import { installKeyring, isSealed, keyringOf, openBytes, openJson, sealBytes, sealedWith, sealJson } from '../api/crypto/medical.ts';
 import { SEALED_COLUMNS } from '../api/crypto/sealed-columns.ts';
 import type { Db } from '../api/db/index.ts';
+import type { FileStore } from '../api/files/store.ts';
 
 export interface RotationReport {
   values: number;
@@ -25,7 +25,7 @@ async function writeSecret(file: string, text: string): Promise<void> {
  * Run with the app stopped. The old key is kept beside the new one until everything is sealed
  * again, so a rotation cut short can be run once more and loses nothing.
  */
-export async function rotateMedicalKey(opts: { db: Db; storageDir: string; keyFile: string }): Promise<RotationReport> {
+export async function rotateMedicalKey(opts: { db: Db; files: FileStore; keyFile: string }): Promise<RotationReport> {
   const old = (await readFile(opts.keyFile, 'utf8')).trim();
   const prevFile = previousKeyFile(opts.keyFile);
   const previous = existsSync(prevFile) ? (await readFile(prevFile, 'utf8')).split('\n').map((l) => l.trim()).filter(Boolean) : [];
@@ -51,14 +51,12 @@ export async function rotateMedicalKey(opts: { db: Db; storageDir: string; keyFi
   let files = 0;
   const rows = await opts.db.selectFrom('files').select(['storage_path']).execute();
   for (const f of rows) {
-    const abs = path.join(opts.storageDir, f.storage_path);
-    if (!existsSync(abs)) continue;
-    const bytes = await readFile(abs);
+    const bytes = await opts.files.get(f.storage_path);
+    if (!bytes) continue;
     const id = sealedWith(bytes);
     if (id === null || id === ring.current.id) continue;
-    const tmp = `${abs}.${randomBytes(4).toString('hex')}.part`;
-    await writeFile(tmp, sealBytes(openBytes(bytes)), { flag: 'wx' });
-    await rename(tmp, abs);
+    // Each file is replaced whole (disk: renamed into place; bucket: one PUT), so a reader never sees half.
+    await opts.files.put(f.storage_path, sealBytes(openBytes(bytes)), 'application/octet-stream');
     files++;
   }
   // Everything is under the new key: the old one goes.

@@ -2,6 +2,7 @@
 import { ConfigError, parseConfig } from '../api/config.ts';
 import { installMedicalKeys } from '../api/crypto/medical-keys.ts';
 import { createDb } from '../api/db/index.ts';
+import { createFileStore } from '../api/files/store.ts';
 import { rotateMedicalKey } from './rotate-key-lib.ts';
 import path from 'node:path';
 import { startCluster, ensureDatabase } from './pg.ts';
@@ -23,10 +24,12 @@ installMedicalKeys(config);
 const cluster = config.databaseUrl ? null : await startCluster({ dataDir: path.join(root, '.data', 'postgres'), port: config.dbPort, password: config.dbPassword, quiet: true });
 if (cluster) await ensureDatabase(cluster, 'plinth');
 const handle = createDb(config.databaseUrl ?? cluster!.url('plinth'), { max: 2 });
+const files = createFileStore(config.files);
 try {
-  const report = await rotateMedicalKey({ db: handle.db, storageDir: config.storageDir, keyFile: config.medicalDataKeyFile });
+  const report = await rotateMedicalKey({ db: handle.db, files, keyFile: config.medicalDataKeyFile });
   console.log(`New medical data key ${report.keyId} in ${config.medicalDataKeyFile}: ${report.values} values and ${report.files} files sealed again. Start Plinth again.`);
 } finally {
+  files.close();
   await handle.close();
   await cluster?.stop();
 }

@@ -10,6 +10,7 @@ import { type Config, ConfigError, parseConfig } from '../api/config.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
+import { createFileStore } from '../api/files/store.ts';
 import { installMedicalKeys } from '../api/crypto/medical-keys.ts';
 import { ensureDefaultProtocols } from '../api/features/protocols/index.ts';
 import { startServer } from '../api/server.ts';
@@ -90,15 +91,17 @@ async function main(): Promise<void> {
   // Health details are sealed from the first demo consent on: the key exists before the seed runs.
   installMedicalKeys(config);
   const handle = createDb(databaseUrl, { max: 2 });
+  const files = createFileStore(config.files);
   try {
     const applied = await migrateToLatest(handle.db);
     if (applied.length) console.log(`Migrations applied: ${applied.join(', ')}`);
     // Demo people and records never enter a production database.
-    if (!config.isProduction && (await seedDemo(handle.db, { storageDir: config.storageDir }))) console.log('Loaded the demo scenario (The Lantern Keeper).');
+    if (!config.isProduction && (await seedDemo(handle.db, { files }))) console.log('Loaded the demo scenario (The Lantern Keeper).');
     // The test protocols a studio starts with are not demo data: every database gets them once.
     const protocols = await ensureDefaultProtocols(handle.db);
     if (protocols.length) console.log(`Added the default test protocols: ${protocols.join(', ')}`);
   } finally {
+    files.close();
     await handle.close();
   }
 

@@ -6,6 +6,7 @@ import { constants as osConstants } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { aptInstall, createThrowawayCluster } from './pg.ts';
+import { startS3Fake } from './s3-fake.ts';
 
 const repoRoot = fileURLToPath(new URL('..', import.meta.url));
 const vitestBin = join(repoRoot, 'node_modules', '.bin', 'vitest');
@@ -91,13 +92,19 @@ async function main(): Promise<number> {
   if (browserProjectWillRun(args)) ensureChromium();
 
   const { cluster, dispose } = await createThrowawayCluster();
+  // The API tests keep their stored files in buckets of this fake, as several API processes would.
+  const s3 = await startS3Fake();
   try {
     if (interruptedBy) return signalExitCode(interruptedBy);
     // Tests create their own databases from this one, so parallel files do not collide.
     process.env.TEST_DATABASE_URL = cluster.url('postgres');
+    process.env.TEST_S3_ENDPOINT = s3.endpoint;
+    // The SDK's notice that Node 20 support ends later is not a test failure.
+    process.env.AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED = 'true';
     process.env.NODE_ENV = 'test';
     return await runVitest(args);
   } finally {
+    await s3.close();
     await dispose();
   }
 }

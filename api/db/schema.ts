@@ -494,6 +494,14 @@ export interface JobOnceTable {
 export type BuildMaterialRoleCol = 'part_a' | 'part_b' | 'softener' | 'pigment' | 'flocking' | 'cap_material' | 'solvent' | 'release_agent';
 export type PieceStatusCol = 'on_hand' | 'used' | 'spoiled';
 
+/** Rate-limit counters shared by every API process (api/http/rate-limit.ts). */
+export interface RateLimitHitsTable {
+  /** `<limiter name>:<client key>`. */
+  key: string;
+  hits: number;
+  reset_at: Timestamp;
+}
+
 /** A run of appliance pieces poured from a performer's mold. */
 export interface ApplianceBuildsTable {
   id: Generated<string>;
@@ -593,6 +601,7 @@ export interface Database {
   cast_condition_checks: CastConditionChecksTable;
   cast_photos: CastPhotosTable;
   job_once: JobOnceTable;
+  rate_limit_hits: RateLimitHitsTable;
   appliance_builds: ApplianceBuildsTable;
   appliance_build_materials: ApplianceBuildMaterialsTable;
   appliance_pieces: AppliancePiecesTable;

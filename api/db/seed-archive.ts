@@ -4,7 +4,7 @@ import sharp from 'sharp';
 import type { CurrentPlace } from '#shared/domain/archive-casts.ts';
 import { placeText, whereaboutsOf } from '../features/archive/cast-view.ts';
 import { processPhoto } from '../files/photos.ts';
-import { storeFile } from '../files/store.ts';
+import { type FileStore, storeFile } from '../files/store.ts';
 import type { Db } from './index.ts';
 import {
   ARCHIVE_DEMO_CONDITION_CHECKS,
@@ -118,7 +118,7 @@ export async function seedArchiveRecords(trx: Db, ids: ArchiveSeedIds): Promise<
 }
 
 /** A drawn photo of every cast (and of the poor condition seen on one), stored like an upload. */
-export async function seedArchivePhotos(db: Db, storageDir: string): Promise<void> {
+export async function seedArchivePhotos(db: Db, store: FileStore): Promise<void> {
   const casts = await db.selectFrom('casts').select(['id', 'label_code', 'region', 'kind', 'created_by']).orderBy('label_code').execute();
   const checks = await db.selectFrom('cast_condition_checks').select(['id', 'cast_id']).where('grade', 'in', ['poor', 'damaged']).execute();
   let variant = 0;
@@ -128,8 +128,8 @@ export async function seedArchivePhotos(db: Db, storageDir: string): Promise<voi
       const png = await sharp(Buffer.from(placeholderPhotoSvg({ region: c.region, kind: c.kind, variant: variant++ }))).png().toBuffer();
       const { photo, thumbnail } = await processPhoto(png, 'photo');
       await db.transaction().execute(async (trx) => {
-        const big = await storeFile(trx, storageDir, { purpose: 'cast_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: c.created_by });
-        const small = await storeFile(trx, storageDir, { purpose: 'cast_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: c.created_by });
+        const big = await storeFile(trx, store, { purpose: 'cast_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: c.created_by });
+        const small = await storeFile(trx, store, { purpose: 'cast_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: c.created_by });
         await trx
           .insertInto('cast_photos')
           .values({ cast_id: c.id, condition_check_id: checkId, file_id: big.id, thumb_file_id: small.id, width: photo.width, height: photo.height, created_by: c.created_by })

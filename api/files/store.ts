@@ -1,8 +1,9 @@
 import { createHash, randomUUID } from 'node:crypto';
-import { promises as fs } from 'node:fs';
-import path from 'node:path';
 import { openBytes, sealBytes } from '../crypto/medical.ts';
 import type { Db } from '../db/index.ts';
+import type { FileStore } from './drivers.ts';
+
+export { createFileStore, type FileStore } from './drivers.ts';
 
 export interface StoredFile {
   id: string;
@@ -17,13 +18,13 @@ export function sha256Hex(buf: Buffer | Uint8Array): string {
 }
 
 /**
- * The only writer to storage/: bytes go to <storage>/<purpose>/<id>.<ext> (never a name from the
- * request), written to a temporary name and renamed, then recorded in `files`. Pass the
+ * The only writer of stored files: bytes go to the store (disk or bucket) under
+ * <purpose>/<id>.<ext> (never a name from the request), then are recorded in `files`. Pass the
  * transaction so the row and the record that points at it commit together.
  */
 export async function storeFile(
   db: Db,
-  storageDir: string,
+  store: FileStore,
   file: {
     purpose: string;
     contentType: string;
@@ -38,12 +39,9 @@ export async function storeFile(
 ): Promise<StoredFile> {
   if (!/^[a-z_]+$/.test(file.purpose) || !/^[a-z0-9]+$/.test(file.ext)) throw new Error('bad file purpose or extension');
   const id = randomUUID();
-  const rel = path.join(file.purpose, `${id}.${file.ext}`);
-  const abs = path.join(storageDir, rel);
-  await fs.mkdir(path.dirname(abs), { recursive: true });
-  const tmp = `${abs}.part`;
-  await fs.writeFile(tmp, file.sealed ? sealBytes(file.bytes) : file.bytes, { flag: 'wx' });
-  await fs.rename(tmp, abs);
+  const rel = `${file.purpose}/${id}.${file.ext}`;
+  // A sealed file is sealed before it leaves the process: the bucket or disk only ever holds ciphertext.
+  await store.put(rel, file.sealed ? sealBytes(file.bytes) : file.bytes, file.sealed ? 'application/octet-stream' : file.contentType);
   const sha256 = sha256Hex(file.bytes);
   await db
     .insertInto('files')
@@ -63,20 +61,16 @@ export async function storeFile(
 }
 
 /** Removes bytes written for a request whose transaction then failed, so nothing is half-saved. */
-export async function discardFiles(storageDir: string, files: readonly Pick<StoredFile, 'storagePath'>[]): Promise<void> {
-  await Promise.all(files.map((f) => fs.rm(path.join(storageDir, f.storagePath), { force: true })));
+export async function discardFiles(store: FileStore, files: readonly Pick<StoredFile, 'storagePath'>[]): Promise<void> {
+  if (files.length) await store.remove(files.map((f) => f.storagePath));
 }
 
-export async function readStoredFile(db: Db, storageDir: string, id: string): Promise<{ bytes: Buffer; contentType: string; sha256: string } | null> {
+/** The plain bytes of a stored file, for a route that has already decided the reader may have them. */
+export async function readStoredFile(db: Db, store: FileStore, id: string): Promise<{ bytes: Buffer; contentType: string; sha256: string } | null> {
   const row = await db.selectFrom('files').select(['storage_path', 'content_type', 'sha256']).where('id', '=', id).executeTakeFirst();
   if (!row) return null;
-  const abs = path.resolve(storageDir, row.storage_path);
-  if (!abs.startsWith(path.resolve(storageDir) + path.sep)) return null;
-  try {
-    // Sealed files open transparently; the recorded SHA-256 is always of the plain bytes.
-    return { bytes: openBytes(await fs.readFile(abs)), contentType: row.content_type, sha256: row.sha256 };
-  } catch (err) {
-    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
-    throw err;
-  }
+  const stored = await store.get(row.storage_path);
+  if (!stored) return null;
+  // Sealed files open transparently; the recorded SHA-256 is always of the plain bytes.
+  return { bytes: openBytes(stored), contentType: row.content_type, sha256: row.sha256 };
 }

@@ -26,7 +26,8 @@ async function admin(sqlText: string) {
 }
 
 beforeAll(async () => {
-  source = await createTestApp();
+  // The archive copies files on this machine's disk: both apps keep theirs there.
+  source = await createTestApp({ FILE_STORE: 'local' });
   work = await fs.mkdtemp(path.join(os.tmpdir(), 'plinth-backup-test-'));
   await admin(`create database ${emptyDb} template template0`);
 });
@@ -72,7 +73,7 @@ describe('backup and restore', () => {
     expect(await sha256sOf(storage, [])).toEqual(await sha256sOf(source.config.storageDir, ['mail']));
 
     // The restored app recognises a consent PDF it issued before the backup.
-    restored = await createTestApp({ DATABASE_URL: adminUrl(emptyDb), STORAGE_DIR: storage, MEDICAL_DATA_KEY: source.config.medicalDataKey! }, { seed: false, database: adminUrl(emptyDb) });
+    restored = await createTestApp({ FILE_STORE: 'local', DATABASE_URL: adminUrl(emptyDb), STORAGE_DIR: storage, MEDICAL_DATA_KEY: source.config.medicalDataKey! }, { seed: false, database: adminUrl(emptyDb) });
     const c = await restored.db.db.selectFrom('consents').innerJoin('files', 'files.id', 'consents.pdf_file_id').select(['consents.id', 'files.storage_path']).executeTakeFirstOrThrow();
     const pdf = openBytes(await fs.readFile(path.join(storage, c.storage_path)));
     const check = await request(restored.app).post('/api/consents/verify').set('Cookie', await restored.sessionFor('head@plinth.test')).attach('file', pdf, 'consent.pdf');

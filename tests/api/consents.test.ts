@@ -134,7 +134,7 @@ describe('signing through a one-time link', () => {
 
     // The stored PDF: its SHA-256 (computed here with node:crypto) is the one on record.
     const pdfRow = await t.db.db.selectFrom('files').selectAll().where('id', '=', consent.pdf_file_id).executeTakeFirstOrThrow();
-    const onDisk = await fs.readFile(path.join(t.config.storageDir, pdfRow.storage_path));
+    const onDisk = await t.storedBytes(pdfRow.storage_path);
     // It carries health answers, so the bytes on disk are sealed; opened, they are the PDF on record.
     expect(onDisk.subarray(0, 5).toString()).not.toBe('%PDF-');
     const pdf = openBytes(onDisk);
@@ -409,7 +409,7 @@ describe('withdrawal', () => {
 describe('verifying a PDF', () => {
   it('recognises an unaltered consent and rejects a one-byte change', async () => {
     const c = await t.db.db.selectFrom('consents').innerJoin('files', 'files.id', 'consents.pdf_file_id').select(['consents.id', 'files.storage_path']).executeTakeFirstOrThrow();
-    const pdf = openBytes(await fs.readFile(path.join(t.config.storageDir, c.storage_path)));
+    const pdf = openBytes(await t.storedBytes(c.storage_path));
     const ok = await request(t.app).post('/api/consents/verify').set('Cookie', head).attach('file', pdf, 'consent.pdf');
     expect(ok.status).toBe(200);
     expect(ok.body).toMatchObject({ match: true, consent: { id: c.id } });

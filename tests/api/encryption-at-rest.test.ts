@@ -57,7 +57,7 @@ async function medicalPdfFiles() {
     .select(['f.storage_path'])
     .where((eb) => eb.exists(eb.selectFrom('consent_answers as a').select('a.id').whereRef('a.consent_id', '=', 'c.id').where('a.medical', '=', true)))
     .execute();
-  return Promise.all(rows.map(async (r) => fs.readFile(path.join(t.config.storageDir, r.storage_path))));
+  return Promise.all(rows.map(async (r) => t.storedBytes(r.storage_path)));
 }
 
 describe('health details at rest', () => {
@@ -91,7 +91,7 @@ describe('health details at rest', () => {
     await fs.writeFile(keyFile, `${TEST_MEDICAL_KEY}\n`, { mode: 0o600 });
     const before = await rawMedical();
     const oldId = sealedWith(JSON.parse(before.answers[0]!) as string);
-    const report = await rotateMedicalKey({ db: t.db.db, storageDir: t.config.storageDir, keyFile });
+    const report = await rotateMedicalKey({ db: t.db.db, files: t.ctx.files, keyFile });
     expect(report.keyId).not.toBe(oldId);
     expect(report.values).toBe(before.answers.length + before.reasons.length);
     expect(report.files).toBe((await medicalPdfFiles()).length);

@@ -135,7 +135,7 @@ describe('checking a PDF', () => {
       .where('consents.performer_id', '=', juno.id)
       .where('consents.production_id', '=', lantern.id)
       .executeTakeFirstOrThrow();
-    const pdf = openBytes(await fs.readFile(path.join(t.config.storageDir, c.storage_path)));
+    const pdf = openBytes(await t.storedBytes(c.storage_path));
     // A head on Saltglass Mile only.
     const outsider = await t.db.db.insertInto('users').values({ email: 'salt.head@plinth.test', display_name: 'Salt Head' }).returning('id').executeTakeFirstOrThrow();
     await t.db.db.insertInto('memberships').values({ user_id: outsider.id, production_id: saltglass, role: 'head' }).execute();

@@ -13,6 +13,8 @@ import { SESSION_COOKIE } from '../../api/http/session.ts';
 import { createMailer } from '../../api/mail/mailer.ts';
 import { startMailCatcher, type MailCatcher } from '../../scripts/mail-catcher.ts';
 import { createDb } from '../../api/db/index.ts';
+import { createFileStore } from '../../api/files/store.ts';
+import { createTestBucket, testS3Endpoint } from './s3.ts';
 import { createTestDb, type TestDb } from './db.ts';
 
 export interface TestApp {
@@ -26,6 +28,8 @@ export interface TestApp {
   /** A session for this user (by e-mail) made directly in the session store; returns the Cookie header. */
   sessionFor(email: string): Promise<string>;
   userId(email: string): Promise<string>;
+  /** The bytes exactly as stored (sealed files still sealed), from the disk or the bucket; throws when the file is missing. */
+  storedBytes(storagePath: string): Promise<Buffer>;
   close(): Promise<void>;
 }
 
@@ -40,7 +44,9 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
   const db: TestDb = opts.database ? { ...createDb(opts.database, { max: 5, log: () => {} }), name: 'given', url: opts.database, async drop() { await this.close(); } } : await createTestDb();
   const storage = await mkdtemp(path.join(os.tmpdir(), 'plinth-storage-'));
   installKeyring(keyringOf(overrides.MEDICAL_DATA_KEY ?? TEST_MEDICAL_KEY));
-  if (opts.seed !== false) await seedDemo(db.db, { storageDir: storage });
+  // Stored files go to a bucket of the test runner's S3 fake, unless a test asks for the local disk.
+  const endpoint = testS3Endpoint();
+  const fileStore = endpoint && overrides.FILE_STORE !== 'local' ? await createTestBucket(endpoint) : {};
   const mail = await startMailCatcher({ port: 0, dir: path.join(storage, 'mail') });
   const config = parseConfig({
     NODE_ENV: 'test',
@@ -51,12 +57,16 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
     STORAGE_DIR: storage,
     DATABASE_URL: db.url,
     MEDICAL_DATA_KEY: TEST_MEDICAL_KEY,
+    ...fileStore,
     ...overrides,
   });
+  const files = createFileStore(config.files);
+  if (opts.seed !== false) await seedDemo(db.db, { files });
   const logged: string[] = [];
   const ctx: AppContext = {
     config,
     db: db.db,
+    files,
     mailer: createMailer(config.smtpUrl, config.mailFrom),
     oidc: createOidcClient(config.oidc, (msg) => logged.push(msg)),
     log: (msg, err) => logged.push(`${msg} ${err instanceof Error ? err.message : ''}`),
@@ -77,6 +87,11 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
     mail,
     logs: logged,
     userId,
+    async storedBytes(storagePath: string) {
+      const bytes = await files.get(storagePath);
+      if (!bytes) throw new Error(`no stored file ${storagePath} in the ${files.driver} store`);
+      return bytes;
+    },
     async sessionFor(email: string) {
       const id = await userId(email);
       const sid = randomBytes(24).toString('base64url');
@@ -91,6 +106,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opts
     },
     async close() {
       ctx.mailer.close();
+      files.close();
       await mail.close();
       await db.drop();
       await rm(storage, { recursive: true, force: true });

@@ -4,6 +4,7 @@ import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { parseConfig } from '../../api/config.ts';
 import { seedDemo } from '../../api/db/seed.ts';
+import { localFileStore } from '../../api/files/drivers.ts';
 import { installKeyring, keyringOf } from '../../api/crypto/medical.ts';
 import { TEST_MEDICAL_KEY } from './app.ts';
 import { startServer } from '../../api/server.ts';
@@ -33,7 +34,7 @@ export default async function setup(project: TestProject) {
   const db = await createTestDb();
   const storage = await mkdtemp(path.join(os.tmpdir(), 'plinth-browser-'));
   installKeyring(keyringOf(TEST_MEDICAL_KEY));
-  await seedDemo(db.db, { storageDir: storage });
+  await seedDemo(db.db, { files: localFileStore(storage) });
   const mail = await startMailCatcher({ port: 0, dir: path.join(storage, 'mail') });
   const appPort = await freePort();
   const origin = `http://127.0.0.1:${appPort}`;

@@ -16,6 +16,28 @@ describe('parseConfig', () => {
     expect(c.appOrigin).toBe('http://127.0.0.1:4100');
     expect(parseConfig({ APP_ORIGIN: 'https://plinth.example.test/' }).oidc.redirectUri).toBe('https://plinth.example.test/api/auth/callback');
   });
+  it('keeps files on the local disk unless an S3-compatible bucket is chosen', () => {
+    const local = parseConfig({ STORAGE_DIR: '/srv/plinth-files' });
+    expect(local.files).toEqual({ driver: 'local', dir: '/srv/plinth-files' });
+    const s3 = parseConfig({ FILE_STORE: 's3', S3_BUCKET: 'studio-files', S3_ENDPOINT: 'https://objects.example.test', S3_ACCESS_KEY_ID: 'id', S3_SECRET_ACCESS_KEY: 'secret', S3_PREFIX: 'plinth/' });
+    expect(s3.files).toEqual({
+      driver: 's3',
+      bucket: 'studio-files',
+      endpoint: 'https://objects.example.test',
+      region: 'us-east-1',
+      credentials: { accessKeyId: 'id', secretAccessKey: 'secret' },
+      forcePathStyle: true,
+      prefix: 'plinth/',
+    });
+    // AWS itself: virtual-hosted buckets and the default credential chain.
+    expect(parseConfig({ FILE_STORE: 's3', S3_BUCKET: 'studio-files', S3_REGION: 'eu-west-2' }).files).toMatchObject({ endpoint: null, credentials: null, forcePathStyle: false, region: 'eu-west-2' });
+  });
+  it('refuses an S3 store without a bucket, or with half a key pair', () => {
+    expect(() => parseConfig({ FILE_STORE: 's3' })).toThrow(/S3_BUCKET must name the bucket/);
+    expect(() => parseConfig({ FILE_STORE: 's3', S3_BUCKET: 'studio-files', S3_ACCESS_KEY_ID: 'id' })).toThrow(/S3_SECRET_ACCESS_KEY must be set together/);
+    expect(() => parseConfig({ FILE_STORE: 's3', S3_BUCKET: 'Studio_Files' })).toThrow(/S3_BUCKET must be a bucket name/);
+    expect(() => parseConfig({ FILE_STORE: 'nfs' })).toThrow(/FILE_STORE/);
+  });
   it('names every bad variable in one error', () => {
     try {
       parseConfig({ PORT: 'abc', OIDC_ISSUER: 'not a url', SESSION_SECRET: 'short' });

@@ -29,9 +29,9 @@ export async function addPhoto(ctx: AppContext, actor: Actor, castId: string, co
   try {
     return await ctx.db.transaction().execute(async (trx) => {
       if (!(await lockCast(trx, castId))) throw notFound('That cast');
-      const big = await storeFile(trx, ctx.config.storageDir, { purpose: 'cast_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: actor.userId });
+      const big = await storeFile(trx, ctx.files, { purpose: 'cast_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: actor.userId });
       written.push(big);
-      const small = await storeFile(trx, ctx.config.storageDir, { purpose: 'cast_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
+      const small = await storeFile(trx, ctx.files, { purpose: 'cast_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
       written.push(small);
       const id = await insertPhoto(trx, { castId, conditionCheckId: conditionCheckId ?? null, fileId: big.id, thumbFileId: small.id, width: photo.width, height: photo.height, createdBy: actor.userId });
       await writeAudit(trx, { actorUserId: actor.userId, action: 'cast.photo_add', entityType: 'cast', entityId: castId, productionId: cast.productionId, req, details: { photoId: id, conditionCheckId: conditionCheckId ?? null } });
@@ -46,7 +46,7 @@ export async function addPhoto(ctx: AppContext, actor: Actor, castId: string, co
       };
     });
   } catch (err) {
-    await discardFiles(ctx.config.storageDir, written);
+    await discardFiles(ctx.files, written);
     throw err;
   }
 }
@@ -60,7 +60,7 @@ export async function removePhoto(ctx: AppContext, actor: Actor, castId: string,
     await writeAudit(trx, { actorUserId: actor.userId, action: 'cast.photo_remove', entityType: 'cast', entityId: castId, productionId: cast.productionId, req, details: { photoId } });
     return rows;
   });
-  await discardFiles(ctx.config.storageDir, removed);
+  await discardFiles(ctx.files, removed);
 }
 
 /** Sends a photo or its thumbnail to staff who may see the cast, and to its performer. */
@@ -72,7 +72,7 @@ export async function sendPhoto(ctx: AppContext, actor: Actor, castId: string, p
   const photo = await findPhoto(ctx.db, castId, photoId);
   if (!photo) throw notFound('That photo');
   const fileId = which === 'photo' ? photo.fileId : photo.thumbFileId;
-  const file = await readStoredFile(ctx.db, ctx.config.storageDir, fileId);
+  const file = await readStoredFile(ctx.db, ctx.files, fileId);
   if (!file) throw notFound('That photo');
   // The URL carries the file id, so a matching ?v= names bytes that never change; private: it is a person's likeness.
   res.set('Cache-Control', v === fileId ? 'private, max-age=86400, immutable' : 'private, no-cache');

@@ -23,24 +23,24 @@ export async function setPhoto(ctx: AppContext, actor: Actor, id: string, req: R
   const file = await receiveFile(req, res, { field: 'photo', maxBytes: CAST_PHOTO_MAX_BYTES });
   if (!file) throw invalid({ photo: ['Choose a photo to upload.'] });
   const { photo, thumbnail } = await processPhoto(file.buffer, 'photo');
-  const storageDir = ctx.config.storageDir;
+  const store = ctx.files;
   const written: StoredFile[] = [];
   let replaced: { storagePath: string }[] = [];
   try {
     await ctx.db.transaction().execute(async (trx) => {
       if (!(await lockBuild(trx, id))) throw notFound('That build');
-      const big = await storeFile(trx, storageDir, { purpose: 'build_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: actor.userId });
+      const big = await storeFile(trx, store, { purpose: 'build_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: actor.userId });
       written.push(big);
-      const small = await storeFile(trx, storageDir, { purpose: 'build_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
+      const small = await storeFile(trx, store, { purpose: 'build_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
       written.push(small);
       replaced = await deleteFileRows(trx, await setBuildPhoto(trx, id, big.id, small.id));
       await writeAudit(trx, { actorUserId: actor.userId, action: 'build.photo_set', performerId: build.performerId, entityType: 'appliance_build', entityId: id, productionId: build.productionId, req, details: { fileId: big.id } });
     });
   } catch (err) {
-    await discardFiles(storageDir, written);
+    await discardFiles(store, written);
     throw err;
   }
-  await discardFiles(storageDir, replaced);
+  await discardFiles(store, replaced);
   return buildDetail(ctx, actor, id);
 }
 
@@ -50,7 +50,7 @@ export async function sendPhoto(ctx: AppContext, actor: Actor, id: string, size:
   if (!build) throw notFound('That build');
   if (!actor.performerIds.includes(build.performerId)) authorize(actor, 'builds.read', { productionId: build.productionId });
   const fileId = size === 'photo' ? build.photoFileId : build.photoThumbFileId;
-  const file = fileId ? await readStoredFile(ctx.db, ctx.config.storageDir, fileId) : null;
+  const file = fileId ? await readStoredFile(ctx.db, ctx.files, fileId) : null;
   if (!fileId || !file) throw notFound('That photo');
   // The URL carries the file id, so a matching ?v= names bytes that never change.
   res.set('Cache-Control', v === fileId ? 'private, max-age=86400, immutable' : 'private, no-cache');

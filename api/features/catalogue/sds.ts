@@ -53,13 +53,13 @@ export async function uploadSafetySheet(ctx: AppContext, actor: Actor, req: Requ
       if (current.version !== fields.data.version) {
         throw conflict('Someone else changed this product since you opened it. Reload to see their change.', { currentVersion: current.version });
       }
-      const stored = await storeFile(trx, ctx.config.storageDir, { purpose: 'safety_sheet', contentType: 'application/pdf', ext: 'pdf', bytes: file.buffer, createdBy: actor.userId });
+      const stored = await storeFile(trx, ctx.files, { purpose: 'safety_sheet', contentType: 'application/pdf', ext: 'pdf', bytes: file.buffer, createdBy: actor.userId });
       written.push(stored);
       await touchProductAtVersion(trx, id, current.version, { sds_file_id: stored.id, sds_file_name: fileName, sds_uploaded_at: new Date(), sds_uploaded_by: actor.userId });
       await writeAudit(trx, { actorUserId: actor.userId, action: 'product.sds_upload', entityType: 'product', entityId: id, req, details: { fileId: stored.id, previousFileId: current.sdsFileId, byteSize: stored.byteSize, sha256: stored.sha256 } });
     });
   } catch (err) {
-    await discardFiles(ctx.config.storageDir, written);
+    await discardFiles(ctx.files, written);
     throw err;
   }
   return productDetail(ctx.db, id);
@@ -70,7 +70,7 @@ export async function sendSafetySheet(ctx: AppContext, id: string, res: Response
   const p = await findProduct(ctx.db, id);
   if (!p) throw notFound('That product');
   if (!p.sdsFileId) throw notFound('A safety data sheet for this product');
-  const file = await readStoredFile(ctx.db, ctx.config.storageDir, p.sdsFileId);
+  const file = await readStoredFile(ctx.db, ctx.files, p.sdsFileId);
   if (!file) throw notFound('A safety data sheet for this product');
   res.set('Cache-Control', 'private, no-cache');
   res.set('ETag', `"${file.sha256}"`);

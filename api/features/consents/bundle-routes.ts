@@ -5,7 +5,7 @@ import { rateLimiter } from '../../http/rate-limit.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { bundleLinkSubmit, bundleLinkView, createSigningBundle, handOverBundle } from './bundle-service.ts';
 
-const publicLimiter = rateLimiter({ windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
+const publicLimiter = rateLimiter({ name: 'signing-bundle-links', windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
 
 export const bundleRoutes: AnyRoute[] = [
   defineRoute({

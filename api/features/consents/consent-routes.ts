@@ -22,7 +22,7 @@ import { receiveFile } from '../../http/upload.ts';
 import { staffCopyPdf } from './staff-copy.ts';
 import { consentDetail, consentPdf, listVisibleConsents, sendWithdrawalLink, verifyPdf, withdrawAsActor, withdrawalLinkView, withdrawByLink } from './consent-service.ts';
 
-const linkLimiter = rateLimiter({ windowMs: 60_000, limit: 10, message: 'Too many attempts. Wait a minute and try again.' });
+const linkLimiter = rateLimiter({ name: 'consent-links', windowMs: 60_000, limit: 10, message: 'Too many attempts. Wait a minute and try again.' });
 const TokenParams = z.object({ token: z.string().regex(TOKEN_PATTERN, 'Not a withdrawal link') });
 
 export const consentRoutes: AnyRoute[] = [

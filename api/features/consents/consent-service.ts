@@ -104,7 +104,7 @@ export async function consentPdf(ctx: AppContext, actor: Actor, id: string, req:
     authorize(actor, 'medical.read', resource);
     await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.summary.performerId, entityType: 'consent_pdf', entityId: id, productionId: row.summary.productionId, req, details: { performerId: row.summary.performerId } });
   }
-  const file = await readStoredFile(ctx.db, ctx.config.storageDir, row.pdfFileId);
+  const file = await readStoredFile(ctx.db, ctx.files, row.pdfFileId);
   if (!file) throw notFound('The PDF');
   return file.bytes;
 }

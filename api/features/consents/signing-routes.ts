@@ -26,7 +26,7 @@ import {
 } from './request-service.ts';
 
 const TokenParamsSchema = z.object({ token: z.string().regex(TOKEN_PATTERN, 'Not a signing link') });
-const publicLimiter = rateLimiter({ windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
+const publicLimiter = rateLimiter({ name: 'signing-links', windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
 
 export const signingRoutes: AnyRoute[] = [
   defineRoute({

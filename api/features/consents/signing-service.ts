@@ -5,7 +5,7 @@ import { fieldErrorsFromIssues } from '#shared/errors.ts';
 import type { SubmitSignatureInput } from '#shared/schemas/consents.ts';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
-import { discardFiles, sha256Hex, storeFile, type StoredFile } from '../../files/store.ts';
+import { discardFiles, type FileStore, sha256Hex, storeFile, type StoredFile } from '../../files/store.ts';
 import { writeAudit } from '../../http/audit.ts';
 import { deliverAll } from '../../mail/deliver.ts';
 import { conflict, invalid, isUniqueViolation } from '../../http/errors.ts';
@@ -38,7 +38,7 @@ export interface SignedConsentParams {
  * Freezes one signing: renders the PDF, stores signature and PDF, and writes the consent and its
  * answers in one transaction. Files written before a failed transaction are removed again.
  */
-export async function writeSignedConsent(db: Db, storageDir: string, p: SignedConsentParams): Promise<{ consentId: string; pdf: Buffer; pdfSha256: string }> {
+export async function writeSignedConsent(db: Db, store: FileStore, p: SignedConsentParams): Promise<{ consentId: string; pdf: Buffer; pdfSha256: string }> {
   const performer = await findPerformerScope(db, p.performerId);
   if (!performer) throw new Error('performer vanished while signing');
   const productionName = p.productionId ? await findProductionName(db, p.productionId) : null;
@@ -90,13 +90,13 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
   try {
     await db.transaction().execute(async (trx) => {
       if (p.requestId && (await lockRequestStatus(trx, p.requestId)) !== 'open') throw new RequestNotOpen();
-      const sig = await storeFile(trx, storageDir, { purpose: 'signature', contentType: 'image/png', ext: 'png', bytes: p.signaturePng, createdBy: p.staffUserId });
+      const sig = await storeFile(trx, store, { purpose: 'signature', contentType: 'image/png', ext: 'png', bytes: p.signaturePng, createdBy: p.staffUserId });
       written.push(sig);
       // A copy that carries health answers is sealed at rest like the answers themselves.
-      const file = await storeFile(trx, storageDir, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId, sealed: answers.some((a) => a.medical) });
+      const file = await storeFile(trx, store, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId, sealed: answers.some((a) => a.medical) });
       written.push(file);
       // The staff-safe copy holds no health answer, so it is stored as it is.
-      const staffFile = await storeFile(trx, storageDir, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: staffPdf, createdBy: p.staffUserId });
+      const staffFile = await storeFile(trx, store, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: staffPdf, createdBy: p.staffUserId });
       written.push(staffFile);
       await insertConsent(
         trx,
@@ -134,7 +134,7 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
       });
     });
   } catch (err) {
-    await discardFiles(storageDir, written);
+    await discardFiles(store, written);
     throw err;
   }
   return { consentId, pdf, pdfSha256: written[1]!.sha256 };
@@ -191,7 +191,7 @@ export async function submitSignature(
   const signedAt = new Date();
   let result: { consentId: string; pdf: Buffer };
   try {
-    result = await writeSignedConsent(ctx.db, ctx.config.storageDir, {
+    result = await writeSignedConsent(ctx.db, ctx.files, {
       performerId: request.performerId,
       productionId: request.productionId,
       requestId: request.id,

@@ -24,11 +24,11 @@ export async function staffCopyPdf(ctx: AppContext, actor: Actor, id: string, re
   if (!row) throw notFound('That consent');
   await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'consent.staff_copy', entityType: 'consent', entityId: id, performerId: summary.performerId, productionId: summary.productionId, req });
   if (row.staff_pdf_file_id) {
-    const file = await readStoredFile(ctx.db, ctx.config.storageDir, row.staff_pdf_file_id);
+    const file = await readStoredFile(ctx.db, ctx.files, row.staff_pdf_file_id);
     if (!file) throw notFound('The staff copy');
     return file.bytes;
   }
-  const signature = await readStoredFile(ctx.db, ctx.config.storageDir, row.signature_file_id);
+  const signature = await readStoredFile(ctx.db, ctx.files, row.signature_file_id);
   if (!signature) throw notFound('The signature');
   const questions = QuestionsSchema.parse(row.questions);
   // Health answers are opened only to be left out; what is rendered carries none of them.
@@ -56,7 +56,7 @@ export async function staffCopyPdf(ctx: AppContext, actor: Actor, id: string, re
     staffCopy: true,
   });
   await ctx.db.transaction().execute(async (trx) => {
-    const file = await storeFile(trx, ctx.config.storageDir, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes, createdBy: actor.userId });
+    const file = await storeFile(trx, ctx.files, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes, createdBy: actor.userId });
     await setStaffCopy(trx, id, file);
   });
   return bytes;

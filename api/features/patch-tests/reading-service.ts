@@ -74,20 +74,20 @@ export async function addReadingPhoto(ctx: AppContext, actor: Actor, id: string,
   const file = await receiveFile(req, res, { field: 'photo', maxBytes: CAST_PHOTO_MAX_BYTES });
   if (!file) throw invalid({ photo: ['Choose a photo to upload.'] });
   const { photo, thumbnail } = await processPhoto(file.buffer, 'photo');
-  const storageDir = ctx.config.storageDir;
+  const store = ctx.files;
   const written: StoredFile[] = [];
   try {
     await ctx.db.transaction().execute(async (trx) => {
       if (!(await lockTest(trx, id))) throw notFound('That patch test');
-      const big = await storeFile(trx, storageDir, { purpose: 'reading_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: actor.userId, sealed: true });
+      const big = await storeFile(trx, store, { purpose: 'reading_photo', contentType: 'image/jpeg', ext: 'jpg', bytes: photo.bytes, width: photo.width, height: photo.height, createdBy: actor.userId, sealed: true });
       written.push(big);
-      const small = await storeFile(trx, storageDir, { purpose: 'reading_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId, sealed: true });
+      const small = await storeFile(trx, store, { purpose: 'reading_photo_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId, sealed: true });
       written.push(small);
       const photoId = await insertPhoto(trx, { readingId, fileId: big.id, thumbFileId: small.id, width: photo.width, height: photo.height, createdBy: actor.userId });
       await writeAudit(trx, { actorUserId: actor.userId, action: 'patch_test.read', performerId: row.performerId, entityType: 'patch_test', entityId: id, productionId: row.productionId, req, details: { photoId } });
     });
   } catch (err) {
-    await discardFiles(storageDir, written);
+    await discardFiles(store, written);
     throw err;
   }
   return detailFor(ctx, actor, id, req);
@@ -102,7 +102,7 @@ export async function sendReadingPhoto(ctx: AppContext, actor: Actor, id: string
   authorize(actor, 'medical.read', resource);
   const photo = await findPhoto(ctx.db, id, photoId);
   if (!photo) throw notFound('That photo');
-  const file = await readStoredFile(ctx.db, ctx.config.storageDir, size === 'photo' ? photo.fileId : photo.thumbFileId);
+  const file = await readStoredFile(ctx.db, ctx.files, size === 'photo' ? photo.fileId : photo.thumbFileId);
   if (!file) throw notFound('That photo');
   await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.performerId, entityType: 'reading_photo', entityId: photoId, productionId: row.productionId, req, details: { performerId: row.performerId } });
   res.set('Cache-Control', 'private, no-store');

@@ -15,7 +15,7 @@ import { acceptInvitation, confirmEmail, inviteToSignIn, resendConfirmation, vie
 
 const TAG = 'identity';
 const TokenParams = z.object({ token: z.string().regex(TOKEN_PATTERN, 'Not a valid link') });
-const linkLimiter = rateLimiter({ windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
+const linkLimiter = rateLimiter({ name: 'identity-links', windowMs: 60_000, limit: 30, message: 'Too many attempts. Wait a minute and try again.' });
 
 /** Managers of one of the performer's productions (or the studio administrator) may send these. */
 async function assertMayInvite(ctx: AppContext, actor: Actor, performerId: string) {

@@ -284,26 +284,26 @@ export async function unlinkAccount(ctx: AppContext, actor: Actor, id: string, v
 /** Stores a portrait (upright JPEG without metadata) and its thumbnail; the old files go once committed. */
 export async function setPortrait(ctx: AppContext, actor: Actor, id: string, bytes: Buffer, req: Request): Promise<PerformerDetail> {
   const { portrait, thumbnail } = await processPortrait(bytes);
-  const storageDir = ctx.config.storageDir;
+  const store = ctx.files;
   const written: StoredFile[] = [];
   let replaced: { storagePath: string }[] = [];
   try {
     await ctx.db.transaction().execute(async (trx) => {
       if (!(await lockPerformer(trx, id))) throw notFound('That performer');
-      const big = await storeFile(trx, storageDir, { purpose: 'portrait', contentType: 'image/jpeg', ext: 'jpg', bytes: portrait.bytes, width: portrait.width, height: portrait.height, createdBy: actor.userId });
+      const big = await storeFile(trx, store, { purpose: 'portrait', contentType: 'image/jpeg', ext: 'jpg', bytes: portrait.bytes, width: portrait.width, height: portrait.height, createdBy: actor.userId });
       written.push(big);
-      const small = await storeFile(trx, storageDir, { purpose: 'portrait_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
+      const small = await storeFile(trx, store, { purpose: 'portrait_thumb', contentType: 'image/jpeg', ext: 'jpg', bytes: thumbnail.bytes, width: thumbnail.width, height: thumbnail.height, createdBy: actor.userId });
       written.push(small);
       const previous = await setPortraitFiles(trx, id, big.id, small.id);
       replaced = await deleteFileRows(trx, previous);
       await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.portrait_set', entityType: 'performer', entityId: id, req, details: { fileId: big.id, width: portrait.width, height: portrait.height } });
     });
   } catch (err) {
-    await discardFiles(storageDir, written);
+    await discardFiles(store, written);
     throw err;
   }
   // The old photo is personal data nobody points at any more: its bytes go once the change is committed.
-  await discardFiles(storageDir, replaced);
+  await discardFiles(store, replaced);
   return freshDetail(ctx.db, actor, id);
 }
 
@@ -315,7 +315,7 @@ export async function removePortrait(ctx: AppContext, actor: Actor, id: string, 
     if (previous.length) await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.portrait_remove', entityType: 'performer', entityId: id, req });
     return rows;
   });
-  await discardFiles(ctx.config.storageDir, removed);
+  await discardFiles(ctx.files, removed);
 }
 
 /** Checks who may change a performer's portrait, before a byte of an upload is read. */
@@ -331,7 +331,7 @@ export async function portraitFile(ctx: AppContext, actor: Actor, id: string, wh
   const fileId = which === 'portrait' ? performer.portraitFileId : performer.portraitThumbFileId;
   const what = which === 'portrait' ? 'A portrait' : 'A thumbnail';
   if (!fileId) throw notFound(what);
-  const file = await readStoredFile(ctx.db, ctx.config.storageDir, fileId);
+  const file = await readStoredFile(ctx.db, ctx.files, fileId);
   if (!file) throw notFound(what);
   return { fileId, file };
 }

@@ -46,7 +46,7 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
     const detail = await findConsentDetailRow(ctx.db, s.id);
     const answers = await listConsentAnswers(ctx.db, s.id);
     consents.push({ ...s, body: detail?.body, answers, withdrawalReason: detail?.withdrawalReason ?? null, withdrawnVia: detail?.withdrawnVia ?? null, contentSha256: detail?.contentSha256, pdfSha256: detail?.pdfSha256 });
-    const file = detail ? await readStoredFile(ctx.db, ctx.config.storageDir, detail.pdfFileId) : null;
+    const file = detail ? await readStoredFile(ctx.db, ctx.files, detail.pdfFileId) : null;
     if (file) pdfs.push({ name: `consents/${s.signedAt.slice(0, 10)}-${s.kind}-${s.id}.pdf`, bytes: file.bytes });
   }
   await recordEvent(ctx.db, {

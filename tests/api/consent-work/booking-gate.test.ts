@@ -28,7 +28,7 @@ describe('the gate on booking', () => {
     const home = await api().get('/api/home').set('Cookie', as.head);
     const waiting = home.body.tasks.find((x: { id: string }) => x.id === 'bookings-missing-consent');
     expect(waiting.title).toBe('Sessions waiting for consent');
-    expect(waiting.detail).toContain('Oz Parfitt');
+    expect(waiting.items.map((i: { label: string }) => i.label)).toContain('Oz Parfitt');
     expect((await api().get('/api/bookings/consent-check').query({ performerId: oz, productionId: lantern, purpose: 'life_cast', startsAt: inDays(4) }).set('Cookie', as.artist)).status).toBe(403);
   });
 

@@ -1,5 +1,3 @@
-import { promises as fs } from 'node:fs';
-import path from 'node:path';
 import { beforeEach, describe, expect, it } from 'vitest';
 import sharp from 'sharp';
 import { ErrorBodySchema } from '#shared/errors.ts';
@@ -13,16 +11,17 @@ usePerformerApp();
 describe('portraits', () => {
   beforeEach(async () => {
     // The database is reset for each test; the stored bytes of earlier tests are cleared here.
-    for (const dir of ['portrait', 'portrait_thumb']) await fs.rm(path.join(t.config.storageDir, dir), { recursive: true, force: true });
+    for (const dir of ['portrait', 'portrait_thumb']) {
+      const keys: string[] = [];
+      for await (const key of t.ctx.files.list(dir)) keys.push(key);
+      await t.ctx.files.remove(keys);
+    }
   });
   const put = (who: Who, id: string, bytes: Buffer, filename = 'photo.jpg', contentType = 'image/jpeg') =>
     api().put(`/api/performers/${id}/portrait`).set('Cookie', as[who]).attach('portrait', bytes, { filename, contentType });
   const storedFiles = async () => {
     const out: string[] = [];
-    for (const dir of ['portrait', 'portrait_thumb']) {
-      const abs = path.join(t.config.storageDir, dir);
-      out.push(...(await fs.readdir(abs).catch(() => [] as string[])).map((f) => `${dir}/${f}`));
-    }
+    for (const dir of ['portrait', 'portrait_thumb']) for await (const key of t.ctx.files.list(dir)) out.push(key);
     return out.sort();
   };
 
