@@ -1,0 +1,94 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { can } from '#shared/policy.ts';
+import { ErrorBodySchema } from '#shared/errors.ts';
+import { allRoutes } from '../../api/routes.ts';
+import type { AnyRoute } from '../../api/http/route.ts';
+import { createTestApp, type TestApp } from '../support/app.ts';
+import { type Restorable, restorable } from '../support/matrix/restore.ts';
+import { loadMedicalTexts, type MedicalText, medicalLeaks, replyText } from '../support/medical-detectors.ts';
+import { MISSING_ENTRY, ROUTE_ENTRIES, entryOf, isWrite, send } from '../support/matrix/index.ts';
+import { keyOf, type RouteEntry } from '../support/matrix/entry.ts';
+import { WHO, type World, buildWorld } from '../support/matrix/world.ts';
+
+/**
+ * Every route × every role (and no session), on the demo's two productions: the policy predicts each
+ * answer from the route's declared permission and the question its handler asks of the record its ids
+ * name; the server answers. Replies carry no health detail the reader may not see, and a write the
+ * policy refuses leaves every table as it was.
+ */
+let t: TestApp;
+let w: World;
+let medical: MedicalText[];
+/** The database as it stands between cells: read once after each change, not before every write. */
+let db: Restorable;
+const CALLERS = [...WHO, 'anonymous'] as const;
+type Caller = (typeof CALLERS)[number];
+let cells = 0;
+let refusedWrites = 0;
+
+beforeAll(async () => {
+  t = await createTestApp();
+  w = await buildWorld(t);
+  medical = await loadMedicalTexts(t);
+  expect(medical.map((m) => m.text)).toContain('Sticking plasters make my skin itch');
+  db = await restorable(t);
+});
+afterAll(async () => {
+  console.info(`permission matrix: ${allRoutes.length} routes × ${CALLERS.length} callers (${WHO.join(', ')}, no session) = ${cells} cells; ${refusedWrites} refused writes left the database unchanged`);
+  await t?.close();
+});
+
+/** What the policy says the server must answer. */
+function expected(route: AnyRoute, entry: RouteEntry, who: Caller): number {
+  if (route.auth === 'public') return entry.public!;
+  if (who === 'anonymous') return 401;
+  const actor = w.actors[who];
+  if (route.requires && !can(actor, route.requires)) return 403;
+  if (entry.may && !entry.may(actor, w)) return entry.refused ?? 403;
+  return entry.ok ?? route.status ?? 200;
+}
+
+describe('the permission matrix', () => {
+  it('has an entry for every route, and no entry for a route that is gone', () => {
+    const keys = new Set(allRoutes.map(keyOf));
+    for (const route of allRoutes) expect(entryOf(route), MISSING_ENTRY(keyOf(route))).toBeDefined();
+    for (const key of Object.keys(ROUTE_ENTRIES)) expect(keys.has(key), `${key} has an entry but no route`).toBe(true);
+    for (const route of allRoutes) if (route.auth === 'public') expect(entryOf(route)!.public, `${keyOf(route)} is public: give its answer`).toBeDefined();
+  });
+
+  for (const route of allRoutes) {
+    const key = keyOf(route);
+    it(`${key}: every role answered as the policy says`, async () => {
+      const entry = entryOf(route);
+      expect(entry, MISSING_ENTRY(key)).toBeDefined();
+      for (const who of CALLERS) {
+        const input = (await entry!.input?.(w, who === 'anonymous' ? 'head' : who)) ?? {};
+        const want = expected(route, entry!, who);
+        const cookie = who === 'anonymous' ? undefined : await w.cookie(who);
+        const reply = await send(t.app, route, input, cookie);
+        cells++;
+        const what = `${who} ${key} → ${reply.status} ${reply.bytes.toString('utf8').slice(0, 300)}`;
+        expect(reply.status, what).toBe(want);
+        // A page for the browser (the sign-in callback) answers in HTML; every other error in the one shape.
+        if (reply.status >= 400 && route.produces !== 'text/html') expect(ErrorBodySchema.safeParse(reply.json).success, `${what}: the error shape`).toBe(true);
+        if (reply.status < 300) {
+          const actor = who === 'anonymous' ? null : w.actors[who];
+          const text = await replyText(reply.res);
+          const leaks = medicalLeaks(text, medical, (performerId) => actor !== null && can(actor, 'medical.read', w.performer(performerId)));
+          expect(leaks, `${who} ${key}: health details in the reply`).toEqual([]);
+        }
+        if (isWrite(route)) {
+          const changed = await db.changedSinceLast();
+          if (want >= 400) {
+            expect(changed, `${who} ${key}: a refused write changed these tables`).toEqual([]);
+            refusedWrites++;
+          } else if (changed.length) {
+            await db.restore();
+          }
+        }
+      }
+      // Reads may write to the audit log (a health read is recorded): the next write compares with that.
+      if (!isWrite(route)) await db.changedSinceLast();
+    });
+  }
+});
