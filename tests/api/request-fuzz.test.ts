@@ -32,7 +32,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   console.info(
-    `request fuzzing: ${routesFuzzed} routes, ${counts.runs} requests (${counts.refused} refused, ${counts.accepted} accepted as valid); per route up to ${RUNS.body} spoiled bodies + ${RUNS.rawBody} raw JSON texts, ${RUNS.query} query strings, ${RUNS.params} path parameters per parameter; seed ${SEED}`,
+    `request fuzzing: ${routesFuzzed} routes, ${counts.runs} requests (${counts.refused} refused, ${counts.accepted} accepted as valid); per route up to ${RUNS.body} spoiled bodies + ${RUNS.rawBody} raw JSON texts, ${RUNS.query} query strings, ${RUNS.params} path-parameter values; seed ${SEED}`,
   );
   await t?.close();
 });
