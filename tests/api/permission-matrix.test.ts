@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { can } from '#shared/policy.ts';
+import { type Action, PRODUCTION_ROLES, can } from '#shared/policy.ts';
 import { ErrorBodySchema } from '#shared/errors.ts';
 import { allRoutes } from '../../api/routes.ts';
 import type { AnyRoute } from '../../api/http/route.ts';
@@ -33,9 +33,9 @@ beforeAll(async () => {
   medical = await loadMedicalTexts(t);
   expect(medical.map((m) => m.text)).toContain('Sticking plasters make my skin itch');
   db = await restorable(t);
-});
+}, 240_000);
 afterAll(async () => {
-  console.info(`permission matrix: ${allRoutes.length} routes × ${CALLERS.length} callers (${WHO.join(', ')}, no session) = ${cells} cells; ${refusedWrites} refused writes left the database unchanged`);
+  console.info(`permission matrix: ${allRoutes.length} routes × ${CALLERS.length} callers (${WHO.join(', ')}, no session) = ${allRoutes.length * CALLERS.length} cells, plus unknown-id probes: ${cells} requests in all; ${refusedWrites} refused writes left the database unchanged`);
   await t?.close();
 });
 
@@ -99,6 +99,44 @@ describe('the permission matrix', () => {
       }
       // Reads may write to the audit log (a health read is recorded): the next write compares with that.
       if (!isWrite(route)) await db.changedSinceLast();
+    });
+  }
+});
+
+/** Does the policy answer this action the same whatever record it is asked about? (Asked of one person in each role.) */
+function resourceFree(action: Action): boolean {
+  const roles = [...PRODUCTION_ROLES, 'lead'] as const;
+  return roles.every((role) => {
+    const actor = { userId: 'u', isAdmin: false, memberships: role === 'lead' ? [] : [{ productionId: 'p', role }], leadOf: role === 'lead' ? ['p'] : [], performerIds: [] };
+    return can(actor, action, { productionId: 'p' }) === can(actor, action, { productionId: 'q' });
+  });
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const UNKNOWN_ID = '0badc0de-0000-4000-8000-00000000f00d';
+
+describe('404 before 403: a record that does not exist', () => {
+  // A studio-wide permission is asked before anything is looked up; a record's own question only once
+  // it is found. So an unknown id is 403 to whoever lacks the former, and 404 to everyone else.
+  for (const route of allRoutes.filter((r) => r.auth === 'session' && r.path.includes('/:'))) {
+    const key = keyOf(route);
+    it(`${key}: an unknown id answers as the policy says`, async () => {
+      const entry = entryOf(route);
+      expect(entry, MISSING_ENTRY(key)).toBeDefined();
+      const studioWide = (entry!.may?.actions ?? []).length > 0 && entry!.may!.actions!.every(resourceFree);
+      for (const who of WHO) {
+        const input = (await entry!.input?.(w, who)) ?? {};
+        const params = Object.fromEntries(Object.entries(input.params ?? {}).map(([k, v]) => [k, UUID.test(v) ? UNKNOWN_ID : v]));
+        if (!Object.values(params).includes(UNKNOWN_ID)) return;
+        const actor = w.actors[who];
+        const want = route.requires && !can(actor, route.requires) ? 403 : studioWide && !entry!.may!(actor, w) ? (entry!.refused ?? 403) : 404;
+        const reply = await send(t.app, route, { ...input, params }, await w.cookie(who));
+        await afterResponseSettled();
+        cells++;
+        expect(reply.status, `${who} ${key} → ${reply.status} ${reply.bytes.toString('utf8').slice(0, 200)}`).toBe(want);
+        expect(ErrorBodySchema.safeParse(reply.json).success).toBe(true);
+      }
+      expect(await db.changedSinceLast(), `${key}: a request about no record changed these tables`).toEqual([]);
     });
   }
 });

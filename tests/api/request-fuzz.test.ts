@@ -17,7 +17,7 @@ import { type World, buildWorld } from '../support/matrix/world.ts';
  * Fixed seed and run counts, so a failure replays.
  */
 const SEED = 20_261_202;
-const RUNS = { body: 20, rawBody: 6, query: 12, params: 8 };
+const RUNS = { body: 14, rawBody: 5, query: 10, params: 8 };
 
 let t: TestApp;
 let w: World;
@@ -29,7 +29,7 @@ beforeAll(async () => {
   t = await createTestApp();
   w = await buildWorld(t);
   db = await restorable(t);
-});
+}, 240_000);
 afterAll(async () => {
   console.info(
     `request fuzzing: ${routesFuzzed} routes, ${counts.runs} requests (${counts.refused} refused, ${counts.accepted} accepted as valid); per route up to ${RUNS.body} spoiled bodies + ${RUNS.rawBody} raw JSON texts, ${RUNS.query} query strings, ${RUNS.params} path-parameter values; seed ${SEED}`,

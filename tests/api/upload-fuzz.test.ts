@@ -17,6 +17,14 @@ import { pngBombHeader } from '../fixtures/images.ts';
  * 4xx in the error shape and nothing is written.
  */
 const SEED = 20_261_203;
+
+/**
+ * Where a file cut short is not an attack but a question the route answers: the checker says whether
+ * Plinth issued a PDF, so a PDF cut short is answered "no match" (and the check is recorded); a CSV cut
+ * at a line is still a CSV, so the import is not cut at random.
+ */
+const CUT_IS_ANSWERED = new Set(['POST /api/consents/verify']);
+const CUT_IS_NO_ATTACK = new Set(['POST /api/performers/import']);
 const RUNS = { randomBytes: 8, truncated: 8 };
 
 let t: TestApp;
@@ -29,11 +37,18 @@ beforeAll(async () => {
   t = await createTestApp();
   w = await buildWorld(t);
   db = await restorable(t);
-});
+}, 240_000);
 afterAll(async () => {
   console.info(`upload fuzzing: ${routesFuzzed} upload routes, ${counts.runs} requests (${counts.refused} refused); per route 9 fixed hostile uploads + ${RUNS.randomBytes} random files + ${RUNS.truncated} cut short; seed ${SEED}`);
   await t?.close();
 });
+
+/** A PDF cut short, to the checker: answered, and no match (the check itself is recorded, then put back). */
+async function answeredNoMatch(a: Attempt, input: Input, label: string): Promise<void> {
+  const reply = await attempt(a, input, {}, true, label);
+  expect(reply.status, label).toBe(200);
+  expect((reply.json as { match: boolean }).match, label).toBe(false);
+}
 
 describe('hostile uploads', () => {
   const uploads = allRoutes.filter((r) => r.multipart);
@@ -64,7 +79,11 @@ describe('hostile uploads', () => {
         ['the wrong field', withFile({ field: 'attachment' })],
         ['a hostile file name', withFile({ bytes: Buffer.alloc(0), filename: '../../../etc/passwd\u0000.jpg' })],
       ];
-      for (const [label, input] of fixed) await attempt(a, input, {}, false, label);
+      for (const [label, input] of fixed) {
+        if (label === 'half of a good file' && CUT_IS_NO_ATTACK.has(key)) continue;
+        if (label === 'half of a good file' && CUT_IS_ANSWERED.has(key)) await answeredNoMatch(a, input, label);
+        else await attempt(a, input, {}, false, label);
+      }
       // No multipart at all: a JSON body, and a multipart body cut off before its end.
       await attempt(a, { ...base, query, upload: undefined }, { rawBody: '{"file":"data:image/jpeg;base64,/9j/"}' }, false, 'JSON instead of a form');
       await attempt(a, { ...base, query, upload: undefined }, { rawBody: '--xyz\r\nContent-Disposition: form-data; name="file"; filename="a.jpg"\r\n\r\n\xff\xd8', contentType: 'multipart/form-data; boundary=xyz' }, false, 'a form cut off');
@@ -75,13 +94,17 @@ describe('hostile uploads', () => {
         }),
         { seed: SEED, numRuns: RUNS.randomBytes, endOnFailure: true },
       );
-      await fc.assert(
-        fc.asyncProperty(fc.double({ min: 0.05, max: 0.95, noNaN: true }), async (share) => {
-          const cut = good.bytes.subarray(0, Math.max(1, Math.floor(good.bytes.length * share)));
-          await attempt(a, withFile({ bytes: cut }), {}, false, `cut at ${cut.length} of ${good.bytes.length} bytes`);
-        }),
-        { seed: SEED, numRuns: RUNS.truncated, endOnFailure: true },
-      );
+      if (!CUT_IS_NO_ATTACK.has(key)) {
+        await fc.assert(
+          fc.asyncProperty(fc.double({ min: 0.05, max: 0.95, noNaN: true }), async (share) => {
+            const cut = good.bytes.subarray(0, Math.max(6, Math.floor(good.bytes.length * share)));
+            const label = `cut at ${cut.length} of ${good.bytes.length} bytes`;
+            if (CUT_IS_ANSWERED.has(key)) await answeredNoMatch(a, withFile({ bytes: cut }), label);
+            else await attempt(a, withFile({ bytes: cut }), {}, false, label);
+          }),
+          { seed: SEED, numRuns: RUNS.truncated, endOnFailure: true },
+        );
+      }
       expect(await db.changedSinceLast(), `${key}: a hostile upload changed the database`).toEqual([]);
     });
   }

@@ -26,7 +26,7 @@ export interface RouteEntry {
    * The question the handler asks of the policy once the record is loaded (a declared `requires`
    * is read from the route itself and asked first). Left out: any signed-in person may.
    */
-  may?: (actor: Actor, w: World) => boolean;
+  may?: Check;
   /** A request every rule but the permission accepts; the same ids for every role. */
   input?: (w: World, who: Who) => Input | Promise<Input>;
   /** The success status when it is not the route's declared one. */
@@ -43,21 +43,17 @@ export type Entries = Record<string, RouteEntry>;
 
 export const keyOf = (r: Pick<AnyRoute, 'method' | 'path'>) => `${r.method.toUpperCase()} ${r.path}`;
 
+/** A policy question, with the actions it asks about (so a test can tell a studio-wide question from a record's). */
+export type Check = ((actor: Actor, w: World) => boolean) & { actions?: readonly Action[] };
+
+const tagged = (fn: (actor: Actor, w: World) => boolean, actions: readonly Action[]): Check => Object.assign(fn, { actions });
+
 /** The handler's question: this action on the record (as the policy sees it) the ids name. */
-export const policy =
-  (action: Action, resource: (w: World) => Resource = () => ({})) =>
-  (actor: Actor, w: World) =>
-    can(actor, action, resource(w));
+export const policy = (action: Action, resource: (w: World) => Resource = () => ({})): Check => tagged((actor, w) => can(actor, action, resource(w)), [action]);
 
 /** Either question answered yes (a performer's own record, or staff who read it). */
-export const either =
-  (...checks: ((actor: Actor, w: World) => boolean)[]) =>
-  (actor: Actor, w: World) =>
-    checks.some((c) => c(actor, w));
-export const both =
-  (...checks: ((actor: Actor, w: World) => boolean)[]) =>
-  (actor: Actor, w: World) =>
-    checks.every((c) => c(actor, w));
+export const either = (...checks: Check[]): Check => tagged((actor, w) => checks.some((c) => c(actor, w)), checks.flatMap((c) => c.actions ?? []));
+export const both = (...checks: Check[]): Check => tagged((actor, w) => checks.every((c) => c(actor, w)), checks.flatMap((c) => c.actions ?? []));
 
 /** A production's record. */
 export const onProduction = (name: 'lantern' | 'saltglass') => (w: World) => ({ productionId: w.id[name] });
