@@ -13,7 +13,7 @@ import { pngBombHeader } from '../fixtures/images.ts';
 /**
  * Hostile files to every upload route, from someone the policy lets upload there: zero bytes, the
  * wrong kind of file under the right name, files cut short, random bytes, a decompression bomb's
- * header, more than the limit, the wrong field, a hostile file name, and no multipart at all. Every answer is a
+ * header, more than the limit, the wrong field, two files, a hostile file name, and no multipart at all. Every answer is a
  * 4xx in the error shape and nothing is written.
  */
 const SEED = 20_261_203;
@@ -39,7 +39,7 @@ beforeAll(async () => {
   db = await restorable(t);
 }, 240_000);
 afterAll(async () => {
-  console.info(`upload fuzzing: ${routesFuzzed} upload routes, ${counts.runs} requests (${counts.refused} refused); per route 9 fixed hostile uploads + ${RUNS.randomBytes} random files + ${RUNS.truncated} cut short; seed ${SEED}`);
+  console.info(`upload fuzzing: ${routesFuzzed} upload routes, ${counts.runs} requests (${counts.refused} refused); per route 11 fixed hostile uploads + ${RUNS.randomBytes} random files + ${RUNS.truncated} cut short; seed ${SEED}`);
   await t?.close();
 });
 
@@ -77,6 +77,8 @@ describe('hostile uploads', () => {
         ['a decompression bomb header', withFile({ bytes: pngBombHeader(), filename: 'bomb.png' })],
         ['over the limit', withFile({ bytes: Buffer.concat([good.bytes, Buffer.alloc(VERIFY_MAX_BYTES + 1 - good.bytes.length, 0x41)]) })],
         ['the wrong field', withFile({ field: 'attachment' })],
+        ['two files', withFile({ second: { field: good.field, bytes: good.bytes, filename: `again-${good.filename}` } })],
+        ['a file beside the wrong field', withFile({ second: { field: 'extra', bytes: good.bytes, filename: good.filename } })],
         ['a hostile file name', withFile({ bytes: Buffer.alloc(0), filename: '../../../etc/passwd\u0000.jpg' })],
       ];
       for (const [label, input] of fixed) {

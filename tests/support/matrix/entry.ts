@@ -12,6 +12,8 @@ export interface Upload {
   filename: string;
   /** Text fields sent beside the file. */
   fields?: Record<string, string>;
+  /** A second file in the same form (always refused: every upload route takes one). */
+  second?: { field: string; bytes: Buffer; filename: string };
 }
 
 export interface Input {

@@ -38,6 +38,7 @@ export async function send(app: Express, route: AnyRoute, input: Input, cookie?:
   if (input.upload) {
     for (const [k, v] of Object.entries(input.upload.fields ?? {})) req = req.field(k, v);
     req = req.attach(input.upload.field, input.upload.bytes, input.upload.filename);
+    if (input.upload.second) req = req.attach(input.upload.second.field, input.upload.second.bytes, input.upload.second.filename);
   } else if (opts.rawBody !== undefined) {
     req = req.set('Content-Type', opts.contentType ?? 'application/json').send(opts.rawBody);
   } else if (input.body !== undefined) {
