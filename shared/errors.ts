@@ -44,10 +44,11 @@ export type ErrorBody = z.infer<typeof ErrorBodySchema>;
 
 /** Turns zod issues into field messages, so client and server show the same words. */
 export function fieldErrorsFromIssues(issues: readonly z.core.$ZodIssue[]): FieldErrors {
-  const out: FieldErrors = {};
+  // A Map, not an object: a field named "constructor" or "__proto__" must not meet Object.prototype.
+  const out = new Map<string, string[]>();
   for (const issue of issues) {
     const key = issue.path.map(String).join('.');
-    (out[key] ??= []).push(issue.message);
+    out.set(key, [...(out.get(key) ?? []), issue.message]);
   }
-  return out;
+  return Object.fromEntries(out);
 }

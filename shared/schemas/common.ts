@@ -47,22 +47,23 @@ export function hasControlChars(s: string): boolean {
  * its dotted path: the same field messages as a schema failure.
  */
 export function controlCharFields(value: unknown, prefix = ''): Record<string, string[]> {
-  const out: Record<string, string[]> = {};
+  // A Map, not an object: a key named "__proto__" must be named, not set the result's prototype.
+  const out = new Map<string, string[]>();
   const visit = (v: unknown, path: string, depth: number) => {
     if (depth > 20) return;
     if (typeof v === 'string') {
-      if (hasControlChars(v)) out[path] = ['Remove the control characters (such as NUL) from this text.'];
+      if (hasControlChars(v)) out.set(path, ['Remove the control characters (such as NUL) from this text.']);
     } else if (Array.isArray(v)) {
       v.forEach((item, i) => visit(item, path ? `${path}.${i}` : String(i), depth + 1));
     } else if (v && typeof v === 'object') {
       for (const [k, item] of Object.entries(v)) {
-        if (hasControlChars(k)) out[path || k] = ['Remove the control characters (such as NUL) from this text.'];
+        if (hasControlChars(k)) out.set(path || k, ['Remove the control characters (such as NUL) from this text.']);
         else visit(item, path ? `${path}.${k}` : k, depth + 1);
       }
     }
   };
   visit(value, prefix, 0);
-  return out;
+  return Object.fromEntries(out);
 }
 
 /** A calendar date (YYYY-MM-DD) within years PostgreSQL and people both mean. */

@@ -13,6 +13,14 @@ describe('error mapping', () => {
     const fields = fieldErrorsFromIssues(r.error!.issues);
     expect(Object.keys(fields).sort()).toEqual(['a', 'b.c']);
   });
+  it('names fields called "constructor" or "toString" like any other', () => {
+    const r = z.object({}).catchall(z.string()).safeParse(JSON.parse('{"constructor":["a"],"__proto__":[1],"toString":2}'));
+    expect(r.success).toBe(false);
+    const fields = fieldErrorsFromIssues(r.error!.issues);
+    expect(Object.keys(fields).sort()).toEqual(['constructor', 'toString']);
+    expect(Object.getPrototypeOf(fields)).toBe(Object.prototype);
+    expect(JSON.parse(JSON.stringify(fields)).constructor).toHaveLength(1);
+  });
   it('maps a refused connection to 503 and a duplicate key to 409', () => {
     expect(toApiError(Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:1'), { code: 'ECONNREFUSED' })).status).toBe(503);
     expect(toApiError(Object.assign(new Error('dup'), { code: '23505' })).status).toBe(409);

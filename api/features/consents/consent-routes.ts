@@ -105,6 +105,8 @@ export const consentRoutes: AnyRoute[] = [
       // Read only once the permission check has passed.
       const file = await receiveFile(req, res, { field: 'file', maxBytes: VERIFY_MAX_BYTES });
       if (!file) throw invalid({ file: ['Choose a PDF to check'] });
+      // An empty file or one that is no PDF at all is refused before anything is recorded; an altered PDF is answered.
+      if (!file.buffer.subarray(0, 5).toString('latin1').startsWith('%PDF-')) throw invalid({ file: ['This file is not a PDF. Choose the PDF copy of the consent.'] });
       return verifyPdf(ctx, actor, file.buffer, req);
     },
   }),
