@@ -11,7 +11,7 @@ import { deliverAll } from '../../mail/deliver.ts';
 import { conflict, invalid, isUniqueViolation } from '../../http/errors.ts';
 import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
-import { findConsentByIdempotencyKey, insertConsent, setStaffCopy } from './consent-repo.ts';
+import { findConsentByIdempotencyKey, insertConsent } from './consent-repo.ts';
 import { lockRequestStatus, markRequestSigned } from './request-repo.ts';
 import { findTemplateVersion, isTemplateSendable, type TemplateVersionRow } from './template-repo.ts';
 import { acceptSignature } from './signature.ts';
@@ -84,7 +84,8 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
     signaturePng: p.signaturePng,
     contentSha256: hash,
   };
-  const [pdf, staffPdf] = await Promise.all([renderConsentPdf(rendering), renderConsentPdf({ ...rendering, staffCopy: true })]);
+  // The staff copy is rendered when first asked for (staff-copy.ts), so signing and seeding render one PDF.
+  const pdf = await renderConsentPdf(rendering);
 
   const written: StoredFile[] = [];
   try {
@@ -95,9 +96,6 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
       // A copy that carries health answers is sealed at rest like the answers themselves.
       const file = await storeFile(trx, storageDir, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId, sealed: answers.some((a) => a.medical) });
       written.push(file);
-      // The staff-safe copy holds no health answer, so it is stored as it is.
-      const staffFile = await storeFile(trx, storageDir, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: staffPdf, createdBy: p.staffUserId });
-      written.push(staffFile);
       await insertConsent(
         trx,
         {
@@ -122,7 +120,6 @@ export async function writeSignedConsent(db: Db, storageDir: string, p: SignedCo
         },
         answers,
       );
-      await setStaffCopy(trx, consentId, staffFile);
       if (p.requestId) await markRequestSigned(trx, p.requestId, p.signedAt);
       await writeAudit(trx, {
         actorUserId: p.staffUserId,
