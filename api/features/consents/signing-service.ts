@@ -17,6 +17,8 @@ import { findTemplateVersion, isTemplateSendable, type TemplateVersionRow } from
 import { acceptSignature } from './signature.ts';
 import { findConfirmedEmail, findPerformerScope } from '../performers/index.ts';
 import { findProductionName } from '../productions/index.ts';
+import { dateInWords } from '#shared/domain/words.ts';
+import { departmentInWords, findDepartment, signOff } from './department.ts';
 
 export interface SignedConsentParams {
   performerId: string;
@@ -212,27 +214,29 @@ export async function submitSignature(
     }
     throw err;
   }
-  const emailedTo = await sendConsentCopy(ctx, request.performerId, template, result.pdf, result.consentId);
+  const emailedTo = await sendConsentCopy(ctx, request.performerId, template, result.pdf, result.consentId, request.productionId);
   return { consentId: result.consentId, signedAt: signedAt.toISOString(), emailedTo, duplicate: false };
 }
 
 /** E-mails the performer their signed copy; a failed send is logged and does not undo the signing. */
-export async function sendConsentCopy(ctx: AppContext, performerId: string, template: Pick<TemplateVersionRow, 'title' | 'kind'>, pdf: Buffer, consentId: string): Promise<string | null> {
+export async function sendConsentCopy(ctx: AppContext, performerId: string, template: Pick<TemplateVersionRow, 'title' | 'kind'>, pdf: Buffer, consentId: string, productionId: string | null = null): Promise<string | null> {
   // The copy carries the answers: it goes only to an address the performer confirmed as theirs.
   const performer = await findConfirmedEmail(ctx.db, performerId);
   if (!performer) return null;
+  const dep = await findDepartment(ctx.db, productionId);
   const { failed } = await deliverAll(ctx, [
     {
       to: performer.email,
-      subject: `Your signed consent: ${template.title}`,
+      subject: `Your signed consent: ${template.title}${dep.productionName ? ` (${dep.productionName})` : ''}`,
       text: [
         `Hello ${performer.name},`,
         '',
-        `Attached is your copy of the ${CONSENT_KIND_LABELS[template.kind].toLowerCase()} consent you signed with the make-up department.`,
+        `Attached is your copy of the ${CONSENT_KIND_LABELS[template.kind].toLowerCase()} consent you signed with ${departmentInWords(dep)} on ${dateInWords(new Date(), ctx.config.timeZone)}.`,
         'You can withdraw it at any time, as easily as you gave it: ask the department, or sign in to Plinth, or request a withdrawal link at',
         `${ctx.config.appOrigin}/withdraw`,
         '',
         'Keep this e-mail: the PDF carries a fingerprint (SHA-256) that the department can check against its records.',
+        ...signOff(dep),
       ].join('\n'),
       attachments: [{ filename: `consent-${consentId}.pdf`, content: pdf, contentType: 'application/pdf' }],
     },
