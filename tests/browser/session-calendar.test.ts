@@ -31,7 +31,7 @@ describe('sessions as a calendar', () => {
       const monday = calendar.getByTestId('calendar-day').first();
       const dayName = (await monday.getByRole('heading', { level: 4 }).textContent())!;
       expect(dayName).toMatch(/^Monday /);
-      await monday.getByRole('button', { name: /Book a session on Monday/ }).click();
+      await monday.getByRole('button', { name: /Book on this day.*Monday/ }).click();
 
       const dialog = page.getByRole('dialog', { name: /Book a session on Monday/ });
       await dialog.getByLabel('Performer').selectOption({ label: 'Bea Nwachukwu' });
@@ -65,8 +65,8 @@ describe('sessions as a calendar', () => {
       const gate = await card.getByTestId('consent-missing').boundingBox();
       expect(gate!.x + gate!.width).toBeLessThanOrEqual(768);
 
-      await calendar.getByRole('button', { name: 'Day' }).click();
-      expect(await calendar.getByTestId('calendar-day').count()).toBe(1);
+      await calendar.getByRole('button', { name: 'Day', exact: true }).click();
+      await expect.poll(() => calendar.getByTestId('calendar-day').count(), { timeout: 10_000 }).toBe(1);
       await expectAccessible(page, 'sessions calendar, day');
     } finally {
       await context.close();

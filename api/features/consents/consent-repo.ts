@@ -92,6 +92,12 @@ export async function findConsentByAnyPdfHash(db: Db, sha256: string): Promise<{
   return r ? { summary: toConsentSummary(r), copy: r.is_staff ? 'staff' : 'full' } : undefined;
 }
 
+/** Locks the consent row; true when it still has no staff copy to keep. */
+export async function lockStaffCopySlot(db: Db, consentId: string): Promise<boolean> {
+  const r = await db.selectFrom('consents').select('staff_pdf_file_id').where('id', '=', consentId).forUpdate().executeTakeFirst();
+  return Boolean(r && r.staff_pdf_file_id === null);
+}
+
 export async function setStaffCopy(db: Db, consentId: string, file: { id: string; sha256: string }): Promise<void> {
   await db.updateTable('consents').set({ staff_pdf_file_id: file.id, staff_pdf_sha256: file.sha256 }).where('id', '=', consentId).execute();
 }

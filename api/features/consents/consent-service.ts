@@ -25,6 +25,7 @@ import {
   markConsentWithdrawn,
 } from './consent-repo.ts';
 import { sendWithdrawalNotices } from './notice-service.ts';
+import { departmentInWords, findDepartment, signOff } from './department.ts';
 import { countRecentWithdrawalLinks, findWithdrawalLinkByHash, insertWithdrawalLink, markWithdrawalLinkUsed } from './request-repo.ts';
 
 const WITHDRAWAL_LINK_HOURS = 24;
@@ -124,14 +125,23 @@ async function withdraw(ctx: AppContext, req: Request, consentId: string, opts: 
   });
 }
 
-async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, kind: ConsentKind): Promise<void> {
+async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, kind: ConsentKind, productionId: string | null): Promise<void> {
   const p = await findConfirmedEmail(ctx.db, performerId);
   if (!p) return;
+  const dep = await findDepartment(ctx.db, productionId);
   await deliverAll(ctx, [
     {
       to: p.email,
-      subject: `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent has been withdrawn`,
-      text: [`Hello ${p.name},`, '', `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent is withdrawn as of ${mailDateTime(new Date(), ctx.config.timeZone)}.`, ...withdrawalConsequences(kind), '', 'If you did not ask for this, contact the make-up department.'].join('\n'),
+      subject: `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent has been withdrawn${dep.productionName ? ` (${dep.productionName})` : ''}`,
+      text: [
+        `Hello ${p.name},`,
+        '',
+        `Your ${CONSENT_KIND_LABELS[kind].toLowerCase()} consent${dep.productionName ? ` for ${dep.productionName}` : ''} is withdrawn as of ${mailDateTime(new Date(), ctx.config.timeZone)}.`,
+        ...withdrawalConsequences(kind),
+        '',
+        `If you did not ask for this, contact ${departmentInWords(dep)}.`,
+        ...signOff(dep),
+      ].join('\n'),
     },
   ]);
 }
@@ -144,7 +154,7 @@ export async function withdrawAsActor(ctx: AppContext, actor: Actor, consentId: 
   authorize(actor, 'consents.withdraw', resource);
   const via = can(actor, 'performer.self', resource) ? 'performer' : 'lead';
   const c = await withdraw(ctx, req, consentId, { reason: input.reason, version: input.version, by: actor.userId, via });
-  await sendWithdrawalConfirmation(ctx, c.performerId, c.kind);
+  await sendWithdrawalConfirmation(ctx, c.performerId, c.kind, c.productionId);
   await sendWithdrawalNotices(ctx, consentId);
   const after = (await findConsentSummary(ctx.db, consentId))!;
   return { id: after.id, state: after.state, withdrawnAt: after.withdrawnAt, version: after.version };
@@ -214,6 +224,6 @@ export async function withdrawByLink(ctx: AppContext, token: string, input: { co
   const owner = await findPerformerScope(ctx.db, link.performerId);
   const done = await withdraw(ctx, req, input.consentId, { reason: input.reason, by: owner?.userId ?? null, byPerformer: link.performerId, via: 'link' });
   await ctx.db.transaction().execute((trx) => markWithdrawalLinkUsed(trx, link.id));
-  await sendWithdrawalConfirmation(ctx, done.performerId, done.kind);
+  await sendWithdrawalConfirmation(ctx, done.performerId, done.kind, done.productionId);
   await sendWithdrawalNotices(ctx, input.consentId);
 }

@@ -11,12 +11,14 @@ import { deliverAll } from '../../mail/deliver.ts';
 import { conflict, invalid, isUniqueViolation } from '../../http/errors.ts';
 import { renderConsentPdf } from './pdf.ts';
 import { contentSha256, type SignedContent } from './record.ts';
-import { findConsentByIdempotencyKey, insertConsent, setStaffCopy } from './consent-repo.ts';
+import { findConsentByIdempotencyKey, insertConsent } from './consent-repo.ts';
 import { lockRequestStatus, markRequestSigned } from './request-repo.ts';
 import { findTemplateVersion, isTemplateSendable, type TemplateVersionRow } from './template-repo.ts';
 import { acceptSignature } from './signature.ts';
 import { findConfirmedEmail, findPerformerScope } from '../performers/index.ts';
 import { findProductionName } from '../productions/index.ts';
+import { dateInWords } from '#shared/domain/words.ts';
+import { departmentInWords, findDepartment, signOff } from './department.ts';
 
 export interface SignedConsentParams {
   performerId: string;
@@ -84,7 +86,8 @@ export async function writeSignedConsent(db: Db, store: FileStore, p: SignedCons
     signaturePng: p.signaturePng,
     contentSha256: hash,
   };
-  const [pdf, staffPdf] = await Promise.all([renderConsentPdf(rendering), renderConsentPdf({ ...rendering, staffCopy: true })]);
+  // The staff copy is rendered when first asked for (staff-copy.ts), so signing and seeding render one PDF.
+  const pdf = await renderConsentPdf(rendering);
 
   const written: StoredFile[] = [];
   try {
@@ -95,9 +98,6 @@ export async function writeSignedConsent(db: Db, store: FileStore, p: SignedCons
       // A copy that carries health answers is sealed at rest like the answers themselves.
       const file = await storeFile(trx, store, { purpose: 'consent_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: pdf, createdBy: p.staffUserId, sealed: answers.some((a) => a.medical) });
       written.push(file);
-      // The staff-safe copy holds no health answer, so it is stored as it is.
-      const staffFile = await storeFile(trx, store, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes: staffPdf, createdBy: p.staffUserId });
-      written.push(staffFile);
       await insertConsent(
         trx,
         {
@@ -122,7 +122,6 @@ export async function writeSignedConsent(db: Db, store: FileStore, p: SignedCons
         },
         answers,
       );
-      await setStaffCopy(trx, consentId, staffFile);
       if (p.requestId) await markRequestSigned(trx, p.requestId, p.signedAt);
       await writeAudit(trx, {
         actorUserId: p.staffUserId,
@@ -215,27 +214,29 @@ export async function submitSignature(
     }
     throw err;
   }
-  const emailedTo = await sendConsentCopy(ctx, request.performerId, template, result.pdf, result.consentId);
+  const emailedTo = await sendConsentCopy(ctx, request.performerId, template, result.pdf, result.consentId, request.productionId);
   return { consentId: result.consentId, signedAt: signedAt.toISOString(), emailedTo, duplicate: false };
 }
 
 /** E-mails the performer their signed copy; a failed send is logged and does not undo the signing. */
-export async function sendConsentCopy(ctx: AppContext, performerId: string, template: Pick<TemplateVersionRow, 'title' | 'kind'>, pdf: Buffer, consentId: string): Promise<string | null> {
+export async function sendConsentCopy(ctx: AppContext, performerId: string, template: Pick<TemplateVersionRow, 'title' | 'kind'>, pdf: Buffer, consentId: string, productionId: string | null = null): Promise<string | null> {
   // The copy carries the answers: it goes only to an address the performer confirmed as theirs.
   const performer = await findConfirmedEmail(ctx.db, performerId);
   if (!performer) return null;
+  const dep = await findDepartment(ctx.db, productionId);
   const { failed } = await deliverAll(ctx, [
     {
       to: performer.email,
-      subject: `Your signed consent: ${template.title}`,
+      subject: `Your signed consent: ${template.title}${dep.productionName ? ` (${dep.productionName})` : ''}`,
       text: [
         `Hello ${performer.name},`,
         '',
-        `Attached is your copy of the ${CONSENT_KIND_LABELS[template.kind].toLowerCase()} consent you signed with the make-up department.`,
+        `Attached is your copy of the ${CONSENT_KIND_LABELS[template.kind].toLowerCase()} consent you signed with ${departmentInWords(dep)} on ${dateInWords(new Date(), ctx.config.timeZone)}.`,
         'You can withdraw it at any time, as easily as you gave it: ask the department, or sign in to Plinth, or request a withdrawal link at',
         `${ctx.config.appOrigin}/withdraw`,
         '',
         'Keep this e-mail: the PDF carries a fingerprint (SHA-256) that the department can check against its records.',
+        ...signOff(dep),
       ].join('\n'),
       attachments: [{ filename: `consent-${consentId}.pdf`, content: pdf, contentType: 'application/pdf' }],
     },

@@ -6,14 +6,14 @@ import { readStoredFile, storeFile } from '../../files/store.ts';
 import { recordEvent } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { notFound } from '../../http/errors.ts';
-import { findConsentForRendering, findConsentSummary, listConsentAnswers, setStaffCopy } from './consent-repo.ts';
+import { findConsentForRendering, findConsentSummary, listConsentAnswers, lockStaffCopySlot, setStaffCopy } from './consent-repo.ts';
 import { consentResource } from './consent-service.ts';
 import { renderConsentPdf } from './pdf.ts';
 
 /**
  * The staff-safe copy of a consent: the same text, signer, time, signature and content hash as the
- * signed PDF, every health answer withheld. Anyone who may see the consent may have it; a consent
- * signed before staff copies existed gets its copy rendered and kept on first request.
+ * signed PDF, every health answer withheld. Anyone who may see the consent may have it. It is
+ * rendered on first request and kept, so its fingerprint is on record before anyone holds the file.
  */
 export async function staffCopyPdf(ctx: AppContext, actor: Actor, id: string, req: Request): Promise<Buffer> {
   const summary = await findConsentSummary(ctx.db, id);
@@ -55,9 +55,16 @@ export async function staffCopyPdf(ctx: AppContext, actor: Actor, id: string, re
     contentSha256: row.content_sha256,
     staffCopy: true,
   });
-  await ctx.db.transaction().execute(async (trx) => {
+  // The copy holds no health answer, so it is stored as it is. Two first requests racing: the first kept wins.
+  const kept = await ctx.db.transaction().execute(async (trx) => {
+    if (!(await lockStaffCopySlot(trx, id))) return null;
     const file = await storeFile(trx, ctx.files, { purpose: 'consent_staff_pdf', contentType: 'application/pdf', ext: 'pdf', bytes, createdBy: actor.userId });
     await setStaffCopy(trx, id, file);
+    return bytes;
   });
-  return bytes;
+  if (kept) return kept;
+  const again = await findConsentForRendering(ctx.db, id);
+  const file = again?.staff_pdf_file_id ? await readStoredFile(ctx.db, ctx.files, again.staff_pdf_file_id) : null;
+  if (!file) throw notFound('The staff copy');
+  return file.bytes;
 }

@@ -114,7 +114,13 @@ describe('a bundle sent as one link', () => {
     const other = await api().post(`/api/signing-bundles/link/${token}/requests/${randomUUID()}`).send(submission(view.items[1]!.form!, randomUUID(), 'Halvard Imre Solberg'));
     expect(other.status).toBe(404);
     // Each signed form is mailed as its own copy.
-    expect((await mailsTo('h.solberg@example.test')).filter((m) => m.subject?.startsWith('Your signed consent'))).toHaveLength(2);
+    const copies = (await mailsTo('h.solberg@example.test')).filter((m) => m.subject?.startsWith('Your signed consent'));
+    expect(copies).toHaveLength(2);
+    for (const c of copies) {
+      expect(c.subject).toContain('The Lantern Keeper');
+      expect(c.text).toContain('department head: Marta Oyelaran');
+      expect(c.attachments).toHaveLength(1);
+    }
   });
 
   it('a form archived after sending shows as unavailable and refuses a signing, saving nothing', async () => {

@@ -42,6 +42,11 @@ describe('a withdrawal reaches the staff', () => {
     expect(lead!.text).toMatch(/reason.*on your home/);
     // Mail is less safe than the audited screen: the reason is not in the lead's mail either.
     expect(lead!.text).not.toContain(REASON);
+    // The performer's own confirmation says who and where, with the date in words.
+    const [own] = await mailsTo('oz.parfitt@example.test');
+    expect(own!.subject).toContain('The Lantern Keeper');
+    expect(own!.text).toContain('Marta Oyelaran');
+    expect(own!.text).toMatch(/withdrawn as of (Monday|Tuesday|Wednesday|Thursday|Friday|Saturday|Sunday) \d{1,2} [A-Z][a-z]+ \d{4} at \d{2}:\d{2}/);
   });
 
   it('flags the session that lost its consent, on the Sessions list and on the performer page', async () => {

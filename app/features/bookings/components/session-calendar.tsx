@@ -50,14 +50,16 @@ export function SessionCalendar({ productionId, canBook }: { productionId: strin
           ))}
         </fieldset>
         <div className="flex flex-wrap items-center gap-2">
-          <Button variant="secondary" onClick={() => setAnchor(addDays(anchor, -step))} aria-label={view === 'day' ? 'Previous day' : 'Previous week'}>
-            ‹ Earlier
+          <Button variant="secondary" onClick={() => setAnchor(addDays(anchor, -step))}>
+            <span aria-hidden="true">‹ </span>
+            {view === 'day' ? 'Previous day' : 'Previous week'}
           </Button>
           <Button variant="secondary" onClick={() => setAnchor(startOfDay(new Date()))}>
             Today
           </Button>
-          <Button variant="secondary" onClick={() => setAnchor(addDays(anchor, step))} aria-label={view === 'day' ? 'Next day' : 'Next week'}>
-            Later ›
+          <Button variant="secondary" onClick={() => setAnchor(addDays(anchor, step))}>
+            {view === 'day' ? 'Next day' : 'Next week'}
+            <span aria-hidden="true"> ›</span>
           </Button>
         </div>
       </div>
@@ -75,8 +77,8 @@ export function SessionCalendar({ productionId, canBook }: { productionId: strin
                   <div className="flex flex-wrap items-center justify-between gap-2">
                     <h4 className="text-lg font-bold text-ink-900">{dayTitle.format(day)}</h4>
                     {canBook && !past ? (
-                      <Button variant="secondary" onClick={() => setBookingOn(day)} aria-label={`Book a session on ${dayTitle.format(day)}`}>
-                        Book on this day
+                      <Button variant="secondary" onClick={() => setBookingOn(day)}>
+                        Book on this day<span className="sr-only">, {dayTitle.format(day)}</span>
                       </Button>
                     ) : null}
                   </div>

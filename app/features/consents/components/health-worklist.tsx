@@ -36,9 +36,8 @@ export function HealthWorklist({ productionId }: { productionId: string }) {
                       pending={confirm.isPending && confirm.variables?.performerId === p.performerId}
                       pendingLabel="Saving…"
                       onClick={() => confirm.mutate({ performerId: p.performerId, productionId, reviewedAt: data.readAt })}
-                      aria-label={`I have looked at the health answers of ${p.performerName}`}
                     >
-                      I have looked at these
+                      I have looked at these<span className="sr-only"> health answers of {p.performerName}</span>
                     </Button>
                   </div>
                   <p className="text-sm text-ink-700">{p.reviewedAt ? `Last confirmed ${formatDate(p.reviewedAt)}.` : 'Not yet confirmed on this production.'}</p>
