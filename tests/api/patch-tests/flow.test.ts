@@ -264,3 +264,27 @@ describe('a test waiting for a consent', () => {
     expect(apply.body.error.message).toContain('no patch-testing consent in force');
   });
 });
+
+describe('the printable result summary', () => {
+  it('gives the lead and the performer a PDF with the grades and notes, audited, and refuses everyone else', async () => {
+    const { pdfText } = await import('../../support/pdf.ts');
+    const url = `/api/performers/${w.juno}/patch-tests/summary.pdf`;
+    const before = (await w.t.db.db.selectFrom('audit_log').select('id').where('action', '=', 'medical.read').where('subject_performer_id', '=', w.juno).execute()).length;
+    const lead = await w.api().get(url).set('Cookie', w.as.lead).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(lead.status).toBe(200);
+    expect(lead.headers['content-type']).toContain('application/pdf');
+    const text = (await pdfText(lead.body as Buffer)).text.replace(/\s+/g, ' ');
+    expect(text).toContain('Patch-test results: Juno');
+    expect(text).toContain('Screening, not diagnosis');
+    expect(text).toContain('Quayside acrylic emulsion adhesive: Do not use');
+    expect(text).toContain('Raised redness at the edge');
+    const after = (await w.t.db.db.selectFrom('audit_log').select('id').where('action', '=', 'medical.read').where('subject_performer_id', '=', w.juno).execute()).length;
+    expect(after).toBeGreaterThan(before);
+    expect((await w.api().get(url).set('Cookie', w.as.performer)).status).toBe(200);
+    for (const who of ['head', 'artist', 'archivist', 'admin'] as const) expect((await w.api().get(url).set('Cookie', w.as[who])).status, who).toBe(403);
+  });
+});
