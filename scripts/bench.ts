@@ -18,6 +18,7 @@ import { parseConfig } from '../api/config.ts';
 import { createDb } from '../api/db/index.ts';
 import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
+import { loadBenchPatchTests } from './bench-patch-tests.ts';
 import { installKeyring, keyringOf } from '../api/crypto/medical.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
 import { BODY_REGIONS, CAST_KINDS } from '../shared/domain/archive-casts.ts';
@@ -137,6 +138,12 @@ try {
   }
   await handle.pool.query('analyze casts; analyze performers; analyze engagements; analyze productions');
   console.log(`Loaded ${CASTS} casts in ${((performance.now() - t2) / 1000).toFixed(2)} s`);
+  // Patch tests: 200 past tests of one performer for the clearance table, 60 under reading for the lead's home.
+  const t3 = performance.now();
+  const cory = await handle.db.selectFrom('performers').select('id').where('legal_name', '=', 'Corentin Malik Ashdown').executeTakeFirstOrThrow();
+  await loadBenchPatchTests(handle.db, { productionId: lantern.id, performerId: cory.id, otherPerformerIds: performerIds.slice(10, 70), past: 200, underReading: 60 });
+  await handle.pool.query('analyze patch_tests; analyze patch_test_products; analyze patch_test_readings; analyze bookings');
+  console.log(`Loaded 200 past patch tests of one performer and 60 under reading in ${((performance.now() - t3) / 1000).toFixed(2)} s`);
   const someLabel = labelCodeFromNumber('cast', (4_242 * 7_919 + 104_729) % LABEL_CODE_SPACE);
 
   const secret = 'bench-session-secret-0123456789abcdef-xyz';
@@ -197,6 +204,9 @@ try {
   rows.push(await measure('GET /api/casts label code (archivist)', `${p}/api/casts?q=${someLabel}`, archivist));
   rows.push(await measure('GET /api/casts code path GH/NORTH/R1 (archivist)', `${p}/api/casts?q=GH%2FNORTH%2FR1&pageSize=25`, archivist));
   rows.push(await measure('GET /api/casts region=face&kind=mold, page 40 (archivist)', `${p}/api/casts?region=face&kind=mold&page=40`, archivist));
+  rows.push(await measure('GET /api/performers/:id/patch-tests, 200 past tests (head)', `${p}/api/performers/${cory.id}/patch-tests`, head));
+  rows.push(await measure('GET /api/performers/:id/patch-tests, 200 past tests (lead, audited)', `${p}/api/performers/${cory.id}/patch-tests`, lead));
+  rows.push(await measure('GET /api/home (lead, 60 tests under reading)', `${p}/api/home`, lead));
   // Measured again last: the ratio is to the mean of both, so a machine that slows down part-way shows up as two different baselines.
   const after = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, last)', bareUrl))!;
   rows.push(after);
