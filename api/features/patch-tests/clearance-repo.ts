@@ -1,3 +1,4 @@
+import { sql } from 'kysely';
 import type { IcdrgCode } from '#shared/domain/icdrg.ts';
 import type { OverrideState } from '#shared/domain/clearance.ts';
 import type { TestStatus } from '#shared/domain/reading-schedule.ts';
@@ -23,8 +24,23 @@ export async function listTestedProducts(db: Db, performerId: string): Promise<T
   const rows = await db
     .selectFrom('patch_test_products as tp')
     .innerJoin('patch_tests as t', 't.booking_id', 'tp.test_id')
+    .innerJoin('bookings as b', 'b.id', 't.booking_id')
     .leftJoin('patch_test_readings as r', 'r.test_product_id', 'tp.id')
-    .select(['tp.id', 'tp.test_id', 'tp.product_id', 'tp.formulation_id', 'tp.lot_id', 'tp.site', 't.status', 't.applied_at', 't.protocol_version_id', 'r.point_id', 'r.read_at', 'r.code'])
+    .select([
+      'tp.id',
+      'tp.test_id',
+      'tp.product_id',
+      'tp.formulation_id',
+      'tp.lot_id',
+      'tp.site',
+      // A booked test whose session was cancelled from the sessions list is cancelled too.
+      sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`.as('status'),
+      't.applied_at',
+      't.protocol_version_id',
+      'r.point_id',
+      'r.read_at',
+      'r.code',
+    ])
     .where('t.performer_id', '=', performerId)
     .orderBy('t.created_at')
     .orderBy('tp.test_id')

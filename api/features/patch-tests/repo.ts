@@ -4,6 +4,9 @@ import type { TestStatus } from '#shared/domain/reading-schedule.ts';
 import { openJson, sealJson } from '../../crypto/medical.ts';
 import type { Db } from '../../db/index.ts';
 
+/** A booked test whose session was cancelled (from the sessions list) is cancelled too. */
+const STATUS = sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`;
+
 /** A test with its session's time and place (a patch test is a booking of that purpose). */
 export interface TestRow {
   id: string;
@@ -45,7 +48,7 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
       sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
       't.production_id',
       't.protocol_version_id',
-      't.status',
+      STATUS.as('status'),
       'b.starts_at',
       'b.location',
       't.applied_at',
@@ -63,7 +66,7 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
     q = q.where('t.production_id', 'in', [...where.productionIds]);
   }
   if (where.performerId) q = q.where('t.performer_id', '=', where.performerId);
-  if (where.statuses) q = q.where('t.status', 'in', [...where.statuses]);
+  if (where.statuses) q = q.where(STATUS, 'in', [...where.statuses]);
   if (where.startsFrom) q = q.where('b.starts_at', '>=', where.startsFrom);
   if (where.startsBefore) q = q.where('b.starts_at', '<', where.startsBefore);
   const rows = await q.orderBy('b.starts_at').orderBy('t.booking_id').limit(500).execute();
@@ -121,7 +124,13 @@ export async function findTestRow(db: Db, id: string): Promise<TestRow | undefin
 
 /** Locks a test for a change; its version decides a stale edit. */
 export async function lockTest(db: Db, id: string): Promise<{ status: TestStatus; version: number; appliedAt: Date | null; removedAt: Date | null } | undefined> {
-  const r = await db.selectFrom('patch_tests').select(['status', 'version', 'applied_at', 'removed_at']).where('booking_id', '=', id).forUpdate().executeTakeFirst();
+  const r = await db
+    .selectFrom('patch_tests as t')
+    .innerJoin('bookings as b', 'b.id', 't.booking_id')
+    .select([STATUS.as('status'), 't.version', 't.applied_at', 't.removed_at'])
+    .where('t.booking_id', '=', id)
+    .forUpdate()
+    .executeTakeFirst();
   return r ? { status: r.status, version: r.version, appliedAt: r.applied_at ? new Date(r.applied_at) : null, removedAt: r.removed_at ? new Date(r.removed_at) : null } : undefined;
 }
 
