@@ -12,6 +12,7 @@ import { ARCHIVE_DEMO_PERFORMERS, ARCHIVE_DEMO_PRODUCTIONS, ARCHIVE_DEMO_STORAGE
 import { SEED_TEMPLATES } from './seed-templates.ts';
 import { seedCatalogue } from './seed-catalogue.ts';
 import { seedBuilds } from './seed-builds.ts';
+import { seedDemoPatchTests } from './seed-patch-tests.ts';
 
 // The demo scenario: everything here is invented (production, people, characters).
 export const DEMO_PRODUCTION = 'The Lantern Keeper';
@@ -212,8 +213,10 @@ async function seedDemoConsents(db: Db, files: FileStore): Promise<void> {
         .execute();
     }
   }
+  // Patch tests are sessions with rows of their own: seeded at every stage by seedDemoPatchTests.
+  const lead = await db.selectFrom('users').select('id').where('email', '=', 'lead@plinth.test').executeTakeFirstOrThrow();
+  await seedDemoPatchTests(db, { productionId: production.id, headId: head.id, leadId: lead.id, performers, now });
   const bookings: { performer: string; purpose: 'patch_test' | 'life_cast' | 'application'; inDays: number; location: string }[] = [
-    { performer: 'Halvard Imre Solberg', purpose: 'patch_test', inDays: 3, location: 'Make-up room 2' },
     { performer: 'Oswin Parfitt-Reyes', purpose: 'life_cast', inDays: 5, location: 'Casting workshop' },
     { performer: 'Juno Castellane', purpose: 'application', inDays: 1, location: 'Make-up room 1' },
   ];

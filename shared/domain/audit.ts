@@ -57,6 +57,7 @@ export const AUDIT_ACTION_LABELS = {
   'patch_test.read': 'Recorded patch-test readings',
   'patch_test.close': 'Closed a patch test',
   'clearance.override': 'Overrode a clearance',
+  'patch_test.reminder': 'Reminded the lead of a patch-test reading',
   'ingredient.create': 'Added an ingredient',
   'ingredient.update': 'Changed an ingredient',
   'product.create': 'Added a product',

@@ -87,6 +87,33 @@ describe('booking a patch test (head, landscape tablet)', () => {
   });
 });
 
+describe('a performer’s patch tests and clearances (head, portrait tablet)', () => {
+  it('shows the clearance per product with its reason, by icon and word, and no grade', async () => {
+    const context = await tabletContext(browser, TABLET_PORTRAIT);
+    const page = await context.newPage();
+    try {
+      await signInThroughIdp(page, appUrl, 'head@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor();
+      await page.goto(`${appUrl}/performers?q=Oswin`);
+      await page.getByRole('link', { name: /Oswin Parfitt-Reyes/ }).first().click();
+      const section = page.getByTestId('patch-tests-section');
+      await section.waitFor();
+      const table = section.getByRole('table', { name: 'Clearance per product' });
+      await table.waitFor();
+      const quayside = table.getByRole('row', { name: /Quayside acrylic emulsion adhesive/ });
+      // The demo's allergic result (+ then ++) reads as Do not use, "reacted in testing" (product brief §1 and §3).
+      expect(await quayside.textContent()).toContain('Do not use');
+      expect(await quayside.textContent()).toContain('reacted in testing');
+      expect(await table.getByRole('row', { name: /Breakwater acrylic sealer/ }).textContent()).toContain('shares an ingredient with a product that reacted');
+      expect(await section.textContent()).not.toMatch(/\+\+|Strong positive/);
+      await expectAccessible(page, 'a performer’s patch tests');
+      await noSidewaysScroll(page, 'performer page');
+    } finally {
+      await context.close();
+    }
+  });
+});
+
 describe('the lead reads the test by touch (portrait tablet)', () => {
   it('records the application, then a grid of codes with a note, and sees the codes the head never sees', async () => {
     expect(testUrl).not.toBe('');

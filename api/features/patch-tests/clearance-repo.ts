@@ -19,17 +19,13 @@ export interface TestedProductRow {
   readings: { pointId: string; readAt: Date; code: IcdrgCode }[];
 }
 
-interface ReadingJson {
-  point_id: string;
-  read_at: string;
-  code: string;
-}
-
-/** Every product ever put on this performer's skin in a test, any status, with every reading: one query. */
+/** Every product ever put on this performer's skin in a test, any status, with every reading: one flat query, grouped here. */
 export async function listTestedProducts(db: Db, performerId: string): Promise<TestedProductRow[]> {
   const rows = await db
     .selectFrom('patch_test_products as tp')
     .innerJoin('patch_tests as t', 't.booking_id', 'tp.test_id')
+    .innerJoin('bookings as b', 'b.id', 't.booking_id')
+    .leftJoin('patch_test_readings as r', 'r.test_product_id', 'tp.id')
     .select([
       'tp.id',
       'tp.test_id',
@@ -37,28 +33,41 @@ export async function listTestedProducts(db: Db, performerId: string): Promise<T
       'tp.formulation_id',
       'tp.lot_id',
       'tp.site',
-      't.status',
+      // A booked test whose session was cancelled from the sessions list is cancelled too.
+      sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`.as('status'),
       't.applied_at',
       't.protocol_version_id',
-      sql<ReadingJson[]>`coalesce((select json_agg(json_build_object('point_id', r.point_id, 'read_at', r.read_at, 'code', r.code) order by r.read_at)
-        from patch_test_readings r where r.test_product_id = tp.id), '[]'::json)`.as('readings'),
+      'r.point_id',
+      'r.read_at',
+      'r.code',
     ])
     .where('t.performer_id', '=', performerId)
     .orderBy('t.created_at')
+    .orderBy('tp.test_id')
     .orderBy('tp.position')
+    .orderBy('r.read_at')
     .execute();
-  return rows.map((r) => ({
-    testId: r.test_id,
-    testProductId: r.id,
-    productId: r.product_id,
-    formulationId: r.formulation_id,
-    lotId: r.lot_id,
-    site: r.site,
-    status: r.status,
-    appliedAt: r.applied_at ? new Date(r.applied_at) : null,
-    protocolVersionId: r.protocol_version_id,
-    readings: r.readings.map((x) => ({ pointId: x.point_id, readAt: new Date(x.read_at), code: openJson<IcdrgCode>(x.code) })),
-  }));
+  const out = new Map<string, TestedProductRow>();
+  for (const r of rows) {
+    let row = out.get(r.id);
+    if (!row) {
+      row = {
+        testId: r.test_id,
+        testProductId: r.id,
+        productId: r.product_id,
+        formulationId: r.formulation_id,
+        lotId: r.lot_id,
+        site: r.site,
+        status: r.status,
+        appliedAt: r.applied_at ? new Date(r.applied_at) : null,
+        protocolVersionId: r.protocol_version_id,
+        readings: [],
+      };
+      out.set(r.id, row);
+    }
+    if (r.point_id !== null && r.read_at !== null && r.code !== null) row.readings.push({ pointId: r.point_id, readAt: new Date(r.read_at), code: openJson<IcdrgCode>(r.code) });
+  }
+  return [...out.values()];
 }
 
 /** One override of the lead, without its note (the note stays sealed: clearance never reads it). */

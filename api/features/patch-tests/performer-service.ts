@@ -8,8 +8,9 @@ import { authorize } from '../../http/authorize.ts';
 import { invalid, notFound } from '../../http/errors.ts';
 import { findPerformerScope } from '../performers/index.ts';
 import { loadClearanceFacts } from './clearance-loader.ts';
-import { insertOverride, listOverrideNotes } from './repo.ts';
-import { listTestSummaries } from './view.ts';
+import { insertOverride, listOverrideNotes, listTestRows } from './repo.ts';
+import { renderSummaryPdf } from './summary-pdf.ts';
+import { listTestSummaries, testDetail } from './view.ts';
 
 async function scopeFor(ctx: AppContext, actor: Actor, performerId: string) {
   const scope = await findPerformerScope(ctx.db, performerId);
@@ -88,4 +89,16 @@ export async function overrideClearance(ctx: AppContext, actor: Actor, performer
     await writeAudit(trx, { actorUserId: actor.userId, action: 'clearance.override', performerId, entityType: 'clearance_override', entityId: id, productionId, req, details: { formulationId: input.formulationId, state: input.state } });
   });
   return performerPatchTests(ctx, actor, performerId, req);
+}
+
+/** The printable summary of a performer's results: health details, so only for the lead and the performer, and audited. */
+export async function performerSummaryPdf(ctx: AppContext, actor: Actor, performerId: string, req: Request): Promise<Buffer> {
+  const { scope, resource } = await scopeFor(ctx, actor, performerId);
+  authorize(actor, 'medical.read', resource);
+  const data = await performerPatchTests(ctx, actor, performerId, req);
+  const rows = await listTestRows(ctx.db, { ids: data.tests.filter((t) => t.status !== 'cancelled').map((t) => t.id) });
+  // One detail per test: a print, read once, not a list screen.
+  const tests = [];
+  for (const row of rows.toReversed()) tests.push(await testDetail(ctx.db, row, { medical: true, now: new Date(), timeZone: ctx.config.timeZone }));
+  return renderSummaryPdf({ performerName: scope.name, printedAt: new Date(), timeZone: ctx.config.timeZone, clearances: data.clearances, tests });
 }

@@ -4,6 +4,9 @@ import type { TestStatus } from '#shared/domain/reading-schedule.ts';
 import { openJson, sealJson } from '../../crypto/medical.ts';
 import type { Db } from '../../db/index.ts';
 
+/** A booked test whose session was cancelled (from the sessions list) is cancelled too. */
+const STATUS = sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`;
+
 /** A test with its session's time and place (a patch test is a booking of that purpose). */
 export interface TestRow {
   id: string;
@@ -45,17 +48,13 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
       sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
       't.production_id',
       't.protocol_version_id',
-      't.status',
+      STATUS.as('status'),
       'b.starts_at',
       'b.location',
       't.applied_at',
       't.removed_at',
       't.closed_at',
       't.version',
-      sql<string[]>`coalesce((select array_agg(tp.site order by tp.position) from patch_test_products tp where tp.test_id = t.booking_id), '{}')`.as('sites'),
-      // A point counts as taken once every site on the test has its reading there.
-      sql<string[]>`coalesce((select array_agg(x.point_id) from (select r.point_id from patch_test_readings r join patch_test_products tp on tp.id = r.test_product_id
-        where tp.test_id = t.booking_id group by r.point_id having count(*) >= (select count(*) from patch_test_products tp2 where tp2.test_id = t.booking_id)) x), '{}')`.as('taken'),
     ]);
   if (where.ids) {
     if (where.ids.length === 0) return [];
@@ -67,10 +66,14 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
     q = q.where('t.production_id', 'in', [...where.productionIds]);
   }
   if (where.performerId) q = q.where('t.performer_id', '=', where.performerId);
-  if (where.statuses) q = q.where('t.status', 'in', [...where.statuses]);
+  if (where.statuses) q = q.where(STATUS, 'in', [...where.statuses]);
   if (where.startsFrom) q = q.where('b.starts_at', '>=', where.startsFrom);
   if (where.startsBefore) q = q.where('b.starts_at', '<', where.startsBefore);
   const rows = await q.orderBy('b.starts_at').orderBy('t.booking_id').limit(500).execute();
+  const { sites, taken } = await sitesAndTaken(
+    db,
+    rows.map((r) => r.booking_id),
+  );
   return rows.map((r) => ({
     id: r.booking_id,
     performerId: r.performer_id,
@@ -83,11 +86,36 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
     appliedAt: r.applied_at ? new Date(r.applied_at) : null,
     removedAt: r.removed_at ? new Date(r.removed_at) : null,
     closedAt: r.closed_at ? new Date(r.closed_at) : null,
-    productCount: r.sites.length,
-    sites: r.sites,
-    takenPointIds: r.taken,
+    productCount: sites.get(r.booking_id)?.length ?? 0,
+    sites: sites.get(r.booking_id) ?? [],
+    takenPointIds: taken.get(r.booking_id) ?? [],
     version: r.version,
   }));
+}
+
+/**
+ * The sites of each test, and the points read at every one of its sites ("taken"): two flat queries for
+ * any number of tests.
+ */
+async function sitesAndTaken(db: Db, testIds: readonly string[]): Promise<{ sites: Map<string, string[]>; taken: Map<string, string[]> }> {
+  const sites = new Map<string, string[]>();
+  const taken = new Map<string, string[]>();
+  if (testIds.length === 0) return { sites, taken };
+  const [products, counts] = await Promise.all([
+    db.selectFrom('patch_test_products').select(['test_id', 'site']).where('test_id', 'in', [...testIds]).orderBy('test_id').orderBy('position').execute(),
+    db
+      .selectFrom('patch_test_readings as r')
+      .innerJoin('patch_test_products as tp', 'tp.id', 'r.test_product_id')
+      .select(['tp.test_id', 'r.point_id', (e) => e.fn.countAll<string>().as('n')])
+      .where('tp.test_id', 'in', [...testIds])
+      .groupBy(['tp.test_id', 'r.point_id'])
+      .execute(),
+  ]);
+  for (const p of products) (sites.get(p.test_id) ?? sites.set(p.test_id, []).get(p.test_id)!).push(p.site);
+  for (const c of counts) {
+    if (Number(c.n) >= (sites.get(c.test_id)?.length ?? Infinity)) (taken.get(c.test_id) ?? taken.set(c.test_id, []).get(c.test_id)!).push(c.point_id);
+  }
+  return { sites, taken };
 }
 
 export async function findTestRow(db: Db, id: string): Promise<TestRow | undefined> {
@@ -96,7 +124,13 @@ export async function findTestRow(db: Db, id: string): Promise<TestRow | undefin
 
 /** Locks a test for a change; its version decides a stale edit. */
 export async function lockTest(db: Db, id: string): Promise<{ status: TestStatus; version: number; appliedAt: Date | null; removedAt: Date | null } | undefined> {
-  const r = await db.selectFrom('patch_tests').select(['status', 'version', 'applied_at', 'removed_at']).where('booking_id', '=', id).forUpdate().executeTakeFirst();
+  const r = await db
+    .selectFrom('patch_tests as t')
+    .innerJoin('bookings as b', 'b.id', 't.booking_id')
+    .select([STATUS.as('status'), 't.version', 't.applied_at', 't.removed_at'])
+    .where('t.booking_id', '=', id)
+    .forUpdate()
+    .executeTakeFirst();
   return r ? { status: r.status, version: r.version, appliedAt: r.applied_at ? new Date(r.applied_at) : null, removedAt: r.removed_at ? new Date(r.removed_at) : null } : undefined;
 }
 

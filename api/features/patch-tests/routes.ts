@@ -17,7 +17,7 @@ import {
 } from '#shared/schemas/patch-test-log.ts';
 import { authorize } from '../../http/authorize.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
-import { overrideClearance, performerPatchTests } from './performer-service.ts';
+import { overrideClearance, performerPatchTests, performerSummaryPdf } from './performer-service.ts';
 import { addReadingPhoto, recordReadings, sendReadingPhoto } from './reading-service.ts';
 import { applyTest, bookTest, cancelTest, closeTest, detailFor, recordRemoval, rescheduleTest } from './service.ts';
 import { listTestSummaries } from './view.ts';
@@ -170,6 +170,22 @@ export const patchTestRoutes: AnyRoute[] = [
     response: PerformerPatchTestsSchema,
     errors: [403, 404],
     handler: ({ ctx, actor, params, req }) => performerPatchTests(ctx, actor, params.id, req),
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/performers/:id/patch-tests/summary.pdf',
+    summary: "A printable summary of a performer's patch-test results and clearances, only for the lead and the performer (audited)",
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    produces: 'application/pdf',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, req, res }) {
+      const pdf = await performerSummaryPdf(ctx, actor, params.id, req);
+      res.set('Cache-Control', 'private, no-store');
+      res.set('Content-Disposition', 'inline; filename="patch-test-results.pdf"');
+      res.type('application/pdf').send(pdf);
+    },
   }),
   defineRoute({
     method: 'post',

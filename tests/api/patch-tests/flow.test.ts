@@ -86,6 +86,17 @@ describe('booking (head)', () => {
     expect(reading.body.error.message).toBe('This test was cancelled; no more readings can be recorded.');
   });
 
+  it('is cancelled with its session when the session is cancelled from the sessions list', async () => {
+    const booked = await w.book({ startsAt: new Date(Date.now() + 30 * DAY).toISOString(), products: [{ productId: pier.productId, lotId: pier.id, site: 'Upper back, left 5' }] });
+    expect(booked.status).toBe(201);
+    const viaSessions = await w.api().post(`/api/bookings/${booked.body.id}/cancel`).set('Cookie', w.as.head).send({});
+    expect(viaSessions.status).toBe(200);
+    const test = await w.api().get(`/api/patch-tests/${booked.body.id}`).set('Cookie', w.as.lead);
+    expect(test.body.status).toBe('cancelled');
+    const apply = await w.api().post(`/api/patch-tests/${booked.body.id}/apply`).set('Cookie', w.as.lead).send({ appliedAt: new Date().toISOString(), version: test.body.version });
+    expect(apply.status).toBe(409);
+  });
+
   it('lets only the head and the lead book', async () => {
     for (const who of ['artist', 'archivist', 'performer', 'admin'] as const) {
       const res = await w.book({ products: [{ productId: pier.productId, lotId: pier.id, site: 'Behind the left ear' }] }, who);
@@ -207,7 +218,7 @@ describe('application, removal and readings (lead)', () => {
     expect(breakwater.state).toBe('caution');
     expect(breakwater.reasons[0]!.text).toBe('shares an ingredient with a product that reacted');
     expect(head.text).not.toContain('"++"');
-    expect(head.body.tests[0]).toMatchObject({ id: testId, status: 'applied' });
+    expect(head.body.tests.find((x: { id: string }) => x.id === testId)).toMatchObject({ status: 'applied' });
     const lead = await w.api().get(`/api/performers/${w.juno}/patch-tests`).set('Cookie', w.as.lead);
     const leadRow = lead.body.clearances.find((c: { productName: string }) => c.productName === 'Quayside acrylic emulsion adhesive');
     // + then ++: strongest ++, final ++, rising (crescendo, MSD Manual via check-values.md §1.4).
@@ -262,5 +273,29 @@ describe('a test waiting for a consent', () => {
     const apply = await w.api().post(`/api/patch-tests/${booked.body.id}/apply`).set('Cookie', w.as.lead).send({ appliedAt: new Date().toISOString(), version: booked.body.version });
     expect(apply.status).toBe(409);
     expect(apply.body.error.message).toContain('no patch-testing consent in force');
+  });
+});
+
+describe('the printable result summary', () => {
+  it('gives the lead and the performer a PDF with the grades and notes, audited, and refuses everyone else', async () => {
+    const { pdfText } = await import('../../support/pdf.ts');
+    const url = `/api/performers/${w.juno}/patch-tests/summary.pdf`;
+    const before = (await w.t.db.db.selectFrom('audit_log').select('id').where('action', '=', 'medical.read').where('subject_performer_id', '=', w.juno).execute()).length;
+    const lead = await w.api().get(url).set('Cookie', w.as.lead).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(lead.status).toBe(200);
+    expect(lead.headers['content-type']).toContain('application/pdf');
+    const text = (await pdfText(lead.body as Buffer)).text.replace(/\s+/g, ' ');
+    expect(text).toContain('Patch-test results: Juno');
+    expect(text).toContain('Screening, not diagnosis');
+    expect(text).toContain('Quayside acrylic emulsion adhesive: Do not use');
+    expect(text).toContain('Raised redness at the edge');
+    const after = (await w.t.db.db.selectFrom('audit_log').select('id').where('action', '=', 'medical.read').where('subject_performer_id', '=', w.juno).execute()).length;
+    expect(after).toBeGreaterThan(before);
+    expect((await w.api().get(url).set('Cookie', w.as.performer)).status).toBe(200);
+    for (const who of ['head', 'artist', 'archivist', 'admin'] as const) expect((await w.api().get(url).set('Cookie', w.as[who])).status, who).toBe(403);
   });
 });

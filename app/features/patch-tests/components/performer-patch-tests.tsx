@@ -33,6 +33,11 @@ export function PerformerPatchTests({ performerId, isSelf }: { performerId: stri
           }
         >
           <ScreeningLabel />
+          {data.medical && data.tests.length > 0 ? (
+            <a href={`/api/performers/${encodeURIComponent(performerId)}/patch-tests/summary.pdf`} className="inline-flex min-h-11 w-fit items-center font-semibold">
+              Printable result summary (PDF)
+            </a>
+          ) : null}
           {data.tests.length === 0 ? (
             <EmptyState title={isSelf ? 'You have not been patch tested yet.' : 'No patch test booked yet.'}>Tests and what they clear appear here.</EmptyState>
           ) : (
