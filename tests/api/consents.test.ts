@@ -152,7 +152,7 @@ describe('signing through a one-time link', () => {
 
     // The copy e-mailed to the performer carries the same PDF.
     const mail = await lastMailTo(email);
-    expect(mail.subject).toBe('Your signed consent: Consent to skin patch testing');
+    expect(mail.subject).toBe('Your signed consent: Consent to skin patch testing (The Lantern Keeper)');
     const att = mail.attachments.find((a) => a.contentType === 'application/pdf')!;
     expect(att.filename).toBe(`consent-${consent.id}.pdf`);
     expect(createHash('sha256').update(att.content).digest('hex')).toBe(consent.pdf_sha256);

@@ -117,7 +117,7 @@ describe('no staff role but the designated lead reads health answers through any
           for (const m of medicalTexts) expect(text, `${email} ${url}`).not.toContain(m);
           expect(text, `${email} ${url}`).not.toMatch(MEDICAL_ANSWER_PATTERN);
           // No reading code, outcome or note of a patch test (clearance reasons carry word codes only); the API description names the fields, never values.
-          if (!url.endsWith('/openapi.json')) expect(text, `${email} ${url}`).not.toMatch(/"code":"(\?\+|\+{1,3}|-|IR|NT)"|"strongest":|"final":|"readAt":/);
+          if (!url.endsWith('/openapi.json')) expect(text, `${email} ${url}`).not.toMatch(/"code":"(\?\+|\+{1,3}|-|IR|NT)"|"strongest":|"final":|"pointId":"[^"]*","readAt":/);
           if (res.status === 200 && (res.headers['content-type'] ?? '').includes('application/pdf')) {
             // Only a consent with no health questions may reach them as a PDF, and it must hold no health answer.
             const consentId = /\/api\/consents\/([0-9a-f-]{36})\/pdf/.exec(url)?.[1];
