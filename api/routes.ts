@@ -10,6 +10,7 @@ import { recordsExportRoutes } from './features/records-export/routes.ts';
 import { performerRoutes } from './features/performers/routes.ts';
 import { bookingRoutes } from './features/bookings/routes.ts';
 import { buildRoutes } from './features/builds/routes.ts';
+import { kitRoutes } from './features/kits/routes.ts';
 import { consentRoutes } from './features/consents/consent-routes.ts';
 import { signingRoutes } from './features/consents/signing-routes.ts';
 import { templateRoutes } from './features/consents/template-routes.ts';
@@ -42,6 +43,7 @@ const featureRoutes: AnyRoute[] = [
   ...archiveRoutes,
   ...castRoutes,
   ...buildRoutes,
+  ...kitRoutes,
   ...auditRoutes,
 ];
 
