@@ -47,7 +47,10 @@ export const ACTIONS = [
   'catalogue.manage',
   'protocols.manage',
   'patchtests.book',
+  'patchtests.read',
+  'patchtests.record',
   'clearance.check',
+  'clearance.override',
   'applications.log',
   'reactions.report',
   'casts.read',
@@ -94,6 +97,7 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'catalogue.manage',
   'protocols.manage',
   'patchtests.book',
+  'patchtests.read',
   'clearance.check',
   'casts.read',
   'sessions.view',
@@ -118,6 +122,9 @@ const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'medical.read',
   'medical.write',
   'consents.withdraw',
+  // Applying, reading and closing a test, and overriding a clearance, are the lead's alone.
+  'patchtests.record',
+  'clearance.override',
 ]);
 const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'production.view',
@@ -126,6 +133,7 @@ const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'consents.view',
   'sessions.view',
   'catalogue.read',
+  'patchtests.read',
   'clearance.check',
   'applications.log',
   'reactions.report',
@@ -135,10 +143,10 @@ const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'kits.manage',
   'applications.read',
 ]);
-const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'casts.read', 'casts.manage', 'builds.read']);
+const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'patchtests.read', 'casts.read', 'casts.manage', 'builds.read']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
 /** What the performer may do with their own record, whatever production it is viewed through. */
-const SELF_ACTIONS: ReadonlySet<Action> = new Set<Action>(['performer.self', 'performer.view', 'medical.read', 'consents.view', 'consents.withdraw']);
+const SELF_ACTIONS: ReadonlySet<Action> = new Set<Action>(['performer.self', 'performer.view', 'medical.read', 'consents.view', 'consents.withdraw', 'patchtests.read']);
 
 const ADMIN_ONLY: ReadonlySet<Action> = new Set<Action>([
   'users.manage',

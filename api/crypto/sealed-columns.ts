@@ -5,4 +5,7 @@
 export const SEALED_COLUMNS: readonly { table: string; key: string; column: string; jsonb: boolean }[] = [
   { table: 'consent_answers', key: 'id', column: 'answer', jsonb: true },
   { table: 'consents', key: 'id', column: 'withdrawal_reason', jsonb: false },
+  { table: 'patch_test_readings', key: 'id', column: 'code', jsonb: false },
+  { table: 'patch_test_readings', key: 'id', column: 'note', jsonb: false },
+  { table: 'clearance_overrides', key: 'id', column: 'note', jsonb: false },
 ];

@@ -1,5 +1,6 @@
 // Database types, kept by hand in step with migrations/ (one interface per table).
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+import type { ClearanceOverridesTable, PatchTestPhotosTable, PatchTestProductsTable, PatchTestReadingsTable, PatchTestsTable } from './schema-patch-tests.ts';
 
 type Timestamp = ColumnType<Date, Date | string | undefined, Date | string>;
 type DateCol = ColumnType<string, string | null | undefined, string | null>;
@@ -664,6 +665,11 @@ export interface Database {
   application_products: ApplicationProductsTable;
   skin_checks: SkinChecksTable;
   incidents: IncidentsTable;
+  patch_tests: PatchTestsTable;
+  patch_test_products: PatchTestProductsTable;
+  patch_test_readings: PatchTestReadingsTable;
+  patch_test_photos: PatchTestPhotosTable;
+  clearance_overrides: ClearanceOverridesTable;
 }
 
 export type UserRow = Selectable<UsersTable>;

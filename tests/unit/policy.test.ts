@@ -31,6 +31,10 @@ const TABLE: [Action, boolean[]][] = [
   ['medical.read', [false, false, true, false, false, false, false]],
   ['medical.write', [false, false, true, false, false, false, false]],
   ['clearance.check', [false, true, true, true, false, false, false]],
+  // Staff on the production see a performer's tests (health details still need medical.read); only the lead records or overrides.
+  ['patchtests.read', [false, true, true, true, true, false, false]],
+  ['patchtests.record', [false, false, true, false, false, false, false]],
+  ['clearance.override', [false, false, true, false, false, false, false]],
   ['applications.log', [false, false, true, true, false, false, false]],
   ['reactions.report', [false, false, true, true, false, false, false]],
   ['casts.manage', [false, false, false, false, true, false, false]],
@@ -190,6 +194,10 @@ describe('every action, for every role, on one performer record of production P1
     'protocols.manage': [N, Y, Y, N, N, N, N, Y],
     'patchtests.book': [N, Y, Y, N, N, N, N, N],
     'clearance.check': [N, Y, Y, Y, N, N, N, N],
+    // The performer reads their own tests; the lead alone records readings and overrides a clearance.
+    'patchtests.read': [N, Y, Y, Y, Y, Y, N, N],
+    'patchtests.record': [N, N, Y, N, N, N, N, N],
+    'clearance.override': [N, N, Y, N, N, N, N, N],
     'applications.log': [N, N, N, Y, N, N, N, N],
     'reactions.report': [N, N, N, Y, N, N, N, N],
     'casts.read': [N, Y, Y, Y, Y, N, N, N],

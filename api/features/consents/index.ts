@@ -4,3 +4,5 @@ export { countOpenLinkRequests } from './request-repo.ts';
 export { writeSignedConsent } from './signing-service.ts';
 export { findCurrentTemplateVersion } from './template-repo.ts';
 export { findConsentDetailRow, listConsentAnswers } from './consent-repo.ts';
+// The clearance loader reads declared allergies from the performer's own answers.
+export { listDeclaredAllergyAnswers } from './allergy-repo.ts';

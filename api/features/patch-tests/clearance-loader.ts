@@ -1,0 +1,76 @@
+import { performerClearance, type ClearanceResult, type FormulationFacts, type TestedProduct } from '#shared/domain/clearance.ts';
+import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.ts';
+import { buildVocabulary } from '#shared/domain/ingredients.ts';
+import { requiredPointIds } from '#shared/domain/protocols.ts';
+import type { Db } from '../../db/index.ts';
+import { currentFormulationIds, listVocabulary, loadFormulationsWithIngredients } from '../catalogue/index.ts';
+import { listDeclaredAllergyAnswers } from '../consents/index.ts';
+import { findProtocolVersions } from '../protocols/index.ts';
+import { listOverrides, listTestedProducts, type TestedProductRow } from './clearance-repo.ts';
+
+export interface PerformerClearancesQuery {
+  performerId: string;
+  /** The products to answer for (each at its current formulation); every product in the catalogue when left out. */
+  productIds?: readonly string[];
+  now: Date;
+}
+
+/** What the loader read, for a caller that also shows the tests (the lead's view) without reading them again. */
+export interface ClearanceFacts {
+  results: ClearanceResult[];
+  tested: TestedProductRow[];
+  formulations: Map<string, FormulationFacts>;
+}
+
+/**
+ * A performer's clearance for each product asked for, from a fixed number of queries whatever the number
+ * of products or tests: the tested products with their readings, the overrides, the declared allergies
+ * (and the vocabulary only when some were written), the protocol versions the tests were booked on, the
+ * current formulations asked for, and the ingredients of those and of every tested formulation.
+ * The answer holds states and reasons only; no code, note or photo.
+ */
+export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): Promise<ClearanceFacts> {
+  const [tested, overrides, answers, current] = await Promise.all([
+    listTestedProducts(db, q.performerId),
+    listOverrides(db, q.performerId),
+    listDeclaredAllergyAnswers(db, q.performerId),
+    currentFormulationIds(db, q.productIds),
+  ]);
+  const [vocabulary, protocols, facts] = await Promise.all([
+    answers.length > 0 ? listVocabulary(db) : Promise.resolve([]),
+    findProtocolVersions(
+      db,
+      tested.map((t) => t.protocolVersionId),
+    ),
+    loadFormulationsWithIngredients(db, [...current.map((c) => c.formulationId), ...tested.map((t) => t.formulationId)]),
+  ]);
+  const formulations = new Map(facts.map((f) => [f.formulationId, f]));
+  const tests: TestedProduct[] = tested.map((t) => {
+    const protocol = protocols.get(t.protocolVersionId)?.protocol;
+    return {
+      testId: t.testId,
+      productId: t.productId,
+      formulationId: t.formulationId,
+      lotId: t.lotId,
+      status: t.status,
+      appliedAt: t.appliedAt,
+      requiredPointIds: protocol ? requiredPointIds(protocol) : [],
+      readings: t.readings,
+    };
+  });
+  const testedIds = new Set(tested.map((t) => t.formulationId));
+  const results = performerClearance({
+    formulations: current.flatMap((c) => (formulations.has(c.formulationId) ? [formulations.get(c.formulationId)!] : [])),
+    testedFormulations: [...testedIds].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
+    tests,
+    declaredAllergies: answers.length > 0 ? declaredAllergiesFromAnswers(answers, buildVocabulary(vocabulary)) : [],
+    overrides: overrides.map((o) => ({ formulationId: o.formulationId, state: o.state, by: o.by, at: o.at, expiresAt: o.expiresAt, note: '' })),
+    now: q.now,
+  });
+  return { results, tested, formulations };
+}
+
+/** A performer's clearance for each product asked for (all products when none are named), from a fixed number of queries. */
+export async function performerClearances(db: Db, q: PerformerClearancesQuery): Promise<ClearanceResult[]> {
+  return (await loadClearanceFacts(db, q)).results;
+}
