@@ -11,6 +11,8 @@ import { performerRoutes } from './features/performers/routes.ts';
 import { bookingRoutes } from './features/bookings/routes.ts';
 import { buildRoutes } from './features/builds/routes.ts';
 import { kitRoutes } from './features/kits/routes.ts';
+import { checkRoutes } from './features/checks/routes.ts';
+import { applicationRoutes } from './features/applications/routes.ts';
 import { consentRoutes } from './features/consents/consent-routes.ts';
 import { signingRoutes } from './features/consents/signing-routes.ts';
 import { templateRoutes } from './features/consents/template-routes.ts';
@@ -44,6 +46,8 @@ const featureRoutes: AnyRoute[] = [
   ...castRoutes,
   ...buildRoutes,
   ...kitRoutes,
+  ...checkRoutes,
+  ...applicationRoutes,
   ...auditRoutes,
 ];
 
