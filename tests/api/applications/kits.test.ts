@@ -9,7 +9,7 @@ describe('kits', () => {
     const made = await api()
       .post('/api/kits')
       .set('Cookie', as.artist)
-      .send({ productionId: ids.lantern, name: 'Day 12 — scar appliance', productIds: [ids.products[HARBOUR]!.id, ids.products[PIER]!.id] });
+      .send({ productionId: ids.lantern, name: 'Day 14 — brow piece', productIds: [ids.products[HARBOUR]!.id, ids.products[PIER]!.id] });
     expect(made.status).toBe(201);
     const kit = KitSchema.parse(made.body);
     expect(kit.products.map((p) => p.name)).toEqual([HARBOUR, PIER]);
@@ -18,7 +18,7 @@ describe('kits', () => {
     const renamed = await api()
       .put(`/api/kits/${kit.id}`)
       .set('Cookie', as.head)
-      .send({ name: 'Day 12 — scar and powder', productIds: [ids.products[HARBOUR]!.id, ids.products[PIER]!.id, ids.products[MISTRAL]!.id], version: 1 });
+      .send({ name: 'Day 14 — brow and powder', productIds: [ids.products[HARBOUR]!.id, ids.products[PIER]!.id, ids.products[MISTRAL]!.id], version: 1 });
     expect(renamed.status).toBe(200);
     expect(renamed.body.version).toBe(2);
     expect(renamed.body.products).toHaveLength(3);
@@ -27,7 +27,7 @@ describe('kits', () => {
     expect(stale.status).toBe(409);
     expect(stale.body.error.code).toBe('conflict');
     const list = KitListSchema.parse((await api().get('/api/kits').query({ productionId: ids.lantern }).set('Cookie', as.artist)).body);
-    expect(list.items.map((k) => [k.name, k.products.length])).toEqual([['Day 12 — scar and powder', 3]]);
+    expect(list.items.filter((k) => k.id === kit.id).map((k) => [k.name, k.products.length])).toEqual([['Day 14 — brow and powder', 3]]);
   });
 
   it('refuses an empty kit, an unknown product and a second kit of the same name, saving nothing', async () => {
