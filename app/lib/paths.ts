@@ -81,6 +81,14 @@ export const paths = {
   moldBoxCalculator: { pattern: '/calculators/mold-box', href: () => '/calculators/mold-box' },
   protocol: { pattern: '/protocols/:id', href: (id: string) => `/protocols/${encodeURIComponent(id)}` },
 
+  /** The artist's check before an application, kits, the application log, requests to the lead, incidents and lot trace. */
+  check: { pattern: '/check', href: (search: { performerId?: string; checkId?: string } = {}) => withSearch('/check', search) },
+  kits: { pattern: '/kits', href: () => '/kits' },
+  application: { pattern: '/applications/:id', href: (id: string) => `/applications/${encodeURIComponent(id)}` },
+  leadRequest: { pattern: '/requests/:id', href: (id: string) => `/requests/${encodeURIComponent(id)}` },
+  incident: { pattern: '/incidents/:id', href: (id: string) => `/incidents/${encodeURIComponent(id)}` },
+  lotTrace: { pattern: '/lots/:id/trace', href: (id: string) => `/lots/${encodeURIComponent(id)}/trace` },
+
   // Public pages, outside the signed-in shell.
   /** The department's tablet while it is lent to a performer. */
   tablet: { pattern: '/tablet', href: () => '/tablet' },
@@ -106,6 +114,8 @@ export const serverPaths = {
   /** The filtered registry as CSV, downloaded by the browser. */
   performersCsv: (query: Record<string, string | undefined>) => withSearch('/api/performers/export.csv', query),
   consentPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/pdf`,
+  /** The performer's printable card with the QR code the check scans. */
+  performerCard: (id: string, format: 'pdf' | 'png') => `/api/performers/${encodeURIComponent(id)}/card.${format}`,
   /** A catalogue product's safety data sheet, downloaded by the browser. */
   safetySheet: (productId: string) => `/api/products/${encodeURIComponent(productId)}/safety-data-sheet`,
   /** A printable sheet of QR labels for these casts and places. */

@@ -77,6 +77,8 @@ export const CheckSchema = z.object({
   canLog: z.boolean(),
   /** The application logged from this check, if any. */
   applicationId: z.string().nullable(),
+  /** Lots in date and in use of each checked formulation, for logging the application. */
+  lots: z.array(z.object({ formulationId: z.string(), id: z.string(), code: z.string(), expiresOn: z.string() })),
 });
 export type Check = z.infer<typeof CheckSchema>;
 

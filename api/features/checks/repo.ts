@@ -249,3 +249,18 @@ export async function countWaitingRequests(db: Db, productionIds: readonly strin
   const r = await db.selectFrom('lead_requests').select((eb) => eb.fn.countAll<string>().as('n')).where('production_id', 'in', [...productionIds]).where('status', '=', 'waiting').executeTakeFirstOrThrow();
   return Number(r.n);
 }
+
+/** Lots of these formulations still in use and within their last day: what an application may log. */
+export async function usableLots(db: Db, formulationIds: readonly string[], on: Date): Promise<{ formulationId: string; id: string; code: string; expiresOn: string }[]> {
+  if (formulationIds.length === 0) return [];
+  const rows = await db
+    .selectFrom('product_lots')
+    .select(['id', 'code', 'formulation_id', sql<string>`expires_on::text`.as('expires_on')])
+    .where('formulation_id', 'in', [...new Set(formulationIds)])
+    .where('retired_at', 'is', null)
+    .where('expires_on', '>=', on.toISOString().slice(0, 10))
+    .orderBy('expires_on')
+    .orderBy('code')
+    .execute();
+  return rows.map((r) => ({ formulationId: r.formulation_id, id: r.id, code: r.code, expiresOn: r.expires_on }));
+}

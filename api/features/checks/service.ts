@@ -11,7 +11,7 @@ import { invalid, notFound } from '../../http/errors.ts';
 import { findApplianceMaterials } from '../builds/index.ts';
 import { existingProductIds } from '../kits/index.ts';
 import { clearancesFor } from './clearance-source.ts';
-import { approvedFormulations, findCheck, findKitProducts, findPerformerForCheck, insertCheck, listRequestsOfCheck, type CheckRow, type RequestBriefRow } from './repo.ts';
+import { approvedFormulations, findCheck, findKitProducts, findPerformerForCheck, insertCheck, listRequestsOfCheck, usableLots, type CheckRow, type RequestBriefRow } from './repo.ts';
 
 /** A clearance answer as the check keeps it: states and plain-word reasons, never a grade or note. */
 function itemOf(r: ClearanceResult, fromPieceIds: string[]): CheckItem {
@@ -52,7 +52,7 @@ export function judge(items: readonly CheckItem[], approved: ReadonlySet<string>
   };
 }
 
-function view(actor: Actor, c: CheckRow, approved: ReadonlySet<string>, requests: readonly RequestBriefRow[]): Check {
+function view(actor: Actor, c: CheckRow, approved: ReadonlySet<string>, requests: readonly RequestBriefRow[], lots: Check['lots']): Check {
   const judged = judge(c.items, approved, requests);
   const resource = { productionId: c.productionId };
   return {
@@ -70,6 +70,7 @@ function view(actor: Actor, c: CheckRow, approved: ReadonlySet<string>, requests
     canAskLead: can(actor, 'clearance.check', resource),
     canLog: can(actor, 'applications.log', resource),
     applicationId: c.applicationId,
+    lots,
   };
 }
 
@@ -151,12 +152,8 @@ export async function runCheck(ctx: AppContext, actor: Actor, raw: RunCheckInput
   const planned = await plannedProducts(ctx.db, input);
   const now = new Date();
   const items = await answersFor(ctx.db, input.performerId, planned, now);
-  const approved = await approvedFormulations(
-    ctx.db,
-    input.productionId,
-    input.performerId,
-    items.map((i) => i.formulationId),
-  );
+  const formulationIds = items.map((i) => i.formulationId);
+  const [approved, lots] = await Promise.all([approvedFormulations(ctx.db, input.productionId, input.performerId, formulationIds), usableLots(ctx.db, formulationIds, now)]);
   const id = await ctx.db.transaction().execute(async (trx) => {
     const checkId = await insertCheck(trx, { productionId: input.productionId, performerId: input.performerId, kitId: input.kitId ?? null, userId: actor.userId, items, pieceIds: input.pieceIds, runAt: now });
     const states = Object.fromEntries(items.map((i) => [i.formulationId, i.state]));
@@ -164,7 +161,7 @@ export async function runCheck(ctx: AppContext, actor: Actor, raw: RunCheckInput
     return checkId;
   });
   const row: CheckRow = { id, productionId: input.productionId, performerId: input.performerId, performerName: performer.name, kitId: input.kitId ?? null, runAt: now, runByName: null, items, pieceIds: input.pieceIds, applicationId: null };
-  return view(actor, row, approved, []);
+  return view(actor, row, approved, [], lots);
 }
 
 /** A check as it stands: its kept answers, with the lead's answers to its requests as they come. */
@@ -172,14 +169,7 @@ export async function checkById(ctx: AppContext, actor: Actor, id: string): Prom
   const c = await findCheck(ctx.db, id);
   if (!c) throw notFound('That check');
   authorize(actor, 'clearance.check', { productionId: c.productionId });
-  const [approved, requests] = await Promise.all([
-    approvedFormulations(
-      ctx.db,
-      c.productionId,
-      c.performerId,
-      c.items.map((i) => i.formulationId),
-    ),
-    listRequestsOfCheck(ctx.db, id),
-  ]);
-  return view(actor, c, approved, requests);
+  const formulationIds = c.items.map((i) => i.formulationId);
+  const [approved, requests, lots] = await Promise.all([approvedFormulations(ctx.db, c.productionId, c.performerId, formulationIds), listRequestsOfCheck(ctx.db, id), usableLots(ctx.db, formulationIds, new Date())]);
+  return view(actor, c, approved, requests, lots);
 }
