@@ -36,7 +36,8 @@ export function FinishForm({ application }: { application: Application }) {
   const check = useQuery({ queryKey: ['checks', application.check.id], queryFn: ({ signal }) => api.get(`/api/checks/${encodeURIComponent(application.check.id)}`, CheckSchema, signal) });
   const items = application.check.items.filter((i) => i.fromPieceIds.length === 0);
   const lotsOf = (formulationId: string) => check.data?.lots.filter((l) => l.formulationId === formulationId) ?? [];
-  const form = useForm<FinishValues>({ resolver: zodResolver(FinishSchema), defaultValues: { endedAt: localInputValue(new Date()), removal: items.map(() => ({ used: false, lotId: '' })) } });
+  const [openedAt] = useState(() => new Date());
+  const form = useForm<FinishValues>({ resolver: zodResolver(FinishSchema), defaultValues: { endedAt: localInputValue(openedAt), removal: items.map(() => ({ used: false, lotId: '' })) } });
   const application$ = useQuery(applicationQueryOptions(application.id));
   const edit = useVersionedEdit({ refetch: async () => (await application$.refetch()).data!, onFresh: () => undefined });
   const { errors } = form.formState;

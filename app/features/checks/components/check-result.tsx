@@ -72,14 +72,13 @@ export function CheckResult({ checkId }: { checkId: string }) {
       {(c) => (
         <>
           <Section title={`Check for ${c.performerName}`} testId="check-result">
-            <div
-              role="status"
+            <output
               className={`flex items-center gap-3 rounded-xl p-4 text-xl font-bold ${c.verdict === 'go' ? 'bg-sage-100 text-sage-800' : 'bg-brick-50 text-brick-800'}`}
               data-testid="verdict"
             >
               <Icon name={c.verdict === 'go' ? 'check' : 'blocked'} className="size-7" />
               {c.message}
-            </div>
+            </output>
             <ul className="flex flex-col">
               {c.items.map((item) => (
                 <ItemRow key={item.formulationId} check={c} item={item} />

@@ -37,7 +37,7 @@ export function LogApplicationForm({ check }: { check: Check }) {
   // Appliance materials went into the pieces; the products put on by hand are listed with their lots.
   const direct = check.items.filter((i) => i.fromPieceIds.length === 0);
   const lotsOf = (formulationId: string) => check.lots.filter((l) => l.formulationId === formulationId);
-  const now = new Date();
+  const [now] = useState(() => new Date());
   const form = useForm<FormValues>({
     resolver: zodResolver(FormSchema),
     defaultValues: { appliedOn: localDate(now), startedAt: localInputValue(now), description: '', notes: '', products: direct.map((i) => ({ used: true, lotId: lotsOf(i.formulationId)[0]?.id ?? '' })) },

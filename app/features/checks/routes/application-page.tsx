@@ -72,7 +72,7 @@ export function ApplicationPage() {
           </Section>
           <Section title="Skin check after removal" testId="application-skin-check">
             {a.skinCheck ? (
-              <div className="flex flex-col gap-2" role="status">
+              <output className="flex flex-col gap-2">
                 <p className="flex items-center gap-2 font-semibold">
                   <Icon name={a.skinCheck.reportSent ? 'info' : 'check'} />
                   {a.skinCheck.reportSent ? 'Report sent to the designated lead.' : 'Recorded.'} {a.skinCheck.checkedByName ? `By ${a.skinCheck.checkedByName}, ` : ''}
@@ -86,7 +86,7 @@ export function ApplicationPage() {
                 ) : a.skinCheck.reportSent ? (
                   <p className="text-ink-700">What the report says is kept with the designated lead.</p>
                 ) : null}
-              </div>
+              </output>
             ) : a.canSkinCheck ? (
               <>
                 <ApplicationCautions />

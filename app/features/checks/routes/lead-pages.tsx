@@ -60,10 +60,10 @@ export function LeadRequestPage() {
                 </div>
               </form>
             ) : (
-              <p role="status" className="font-semibold">
+              <output className="block font-semibold">
                 {r.status === 'approved' ? 'Approved' : 'Refused'} by {r.decidedByName} at {formatDateTime(r.decidedAt)}
                 {r.note ? `: ${r.note}` : '.'}
-              </p>
+              </output>
             )}
           </Section>
         </>
@@ -115,10 +115,10 @@ export function IncidentPage() {
                 </div>
               </form>
             ) : (
-              <p role="status">
+              <output className="block">
                 Closed at {formatDateTime(i.closedAt)}
                 {i.closingNote ? `: ${i.closingNote}` : '.'}
-              </p>
+              </output>
             )}
           </Section>
         </>
