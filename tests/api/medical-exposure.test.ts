@@ -127,7 +127,7 @@ describe('no staff role but the designated lead reads health answers through any
               const medical = await t.db.db.selectFrom('consent_answers').select('id').where('consent_id', '=', consentId).where('medical', '=', true).execute();
               expect(medical, `${email} got the PDF of a consent with health questions`).toEqual([]);
             } else {
-              expect(url, 'the only other PDFs staff may fetch are a safety data sheet and the archive’s label sheet').toMatch(/^\/api\/(products\/[0-9a-f-]{36}\/safety-data-sheet$|archive\/labels\.pdf)/);
+              expect(url, 'the only other PDFs staff may fetch are a safety data sheet, the archive’s label sheet and a performer’s card').toMatch(/^\/api\/(products\/[0-9a-f-]{36}\/safety-data-sheet$|archive\/labels\.pdf|performers\/[0-9a-f-]{36}\/card\.pdf$)/);
             }
             const pdf = await pdfText(res.body as Buffer);
             for (const m of medicalTexts) expect(pdf.text).not.toContain(m);

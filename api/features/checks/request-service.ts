@@ -75,6 +75,13 @@ export async function requestsFor(ctx: AppContext, actor: Actor, productionId: s
   return rows.map((r) => view(r, false));
 }
 
+/** Checks on a production with a question waiting on the lead, for the artists' home: states and plain-word reasons only. */
+export async function waitingChecks(ctx: AppContext, actor: Actor, productionId: string): Promise<LeadRequest[]> {
+  authorize(actor, 'clearance.check', { productionId });
+  const rows = await listRequests(ctx.db, { productionIds: [productionId], status: 'waiting' });
+  return rows.map((r) => view(r, false));
+}
+
 /** One request; the lead's note (a health detail) only for those who may read the performer's health data, and that read is logged. */
 export async function requestById(ctx: AppContext, actor: Actor, id: string, req: Request): Promise<LeadRequest> {
   const r = await findRequest(ctx.db, id);

@@ -1,12 +1,24 @@
 import { IdParamsSchema } from '#shared/schemas/common.ts';
 import { AskLeadInputSchema, CheckSchema, LeadDecisionInputSchema, LeadRequestListQuerySchema, LeadRequestListSchema, LeadRequestSchema, RunCheckInputSchema } from '#shared/schemas/checks.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
-import { askLead, decide, requestById, requestsFor } from './request-service.ts';
+import { performerCardPdf, performerCardPng } from './card.ts';
+import { askLead, decide, requestById, requestsFor, waitingChecks } from './request-service.ts';
 import { checkById, runCheck } from './service.ts';
 
 const TAG = 'checks';
 
 export const checkRoutes: AnyRoute[] = [
+  defineRoute({
+    method: 'get',
+    path: '/api/checks/waiting',
+    summary: 'Checks on a production with a question waiting on the designated lead (for the artists’ home)',
+    tag: TAG,
+    auth: 'session',
+    query: LeadRequestListQuerySchema.pick({ productionId: true }),
+    response: LeadRequestListSchema,
+    errors: [403],
+    handler: async ({ ctx, actor, query }) => ({ items: await waitingChecks(ctx, actor, query.productionId) }),
+  }),
   defineRoute({
     method: 'post',
     path: '/api/checks',
@@ -77,5 +89,37 @@ export const checkRoutes: AnyRoute[] = [
     response: LeadRequestSchema,
     errors: [403, 404, 409],
     handler: ({ ctx, actor, params, body, req }) => decide(ctx, actor, params.id, body, req),
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/performers/:id/card.pdf',
+    summary: "The performer's printable card (85.6 × 54 mm on A4): their name and a QR code that opens the check with them chosen; nothing medical",
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    produces: 'application/pdf',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, res }) {
+      const pdf = await performerCardPdf(ctx, actor, params.id);
+      res.set('Content-Type', 'application/pdf');
+      res.set('Content-Disposition', 'inline; filename="plinth-performer-card.pdf"');
+      res.send(pdf);
+    },
+  }),
+  defineRoute({
+    method: 'get',
+    path: '/api/performers/:id/card.png',
+    summary: "The QR code of the performer's card as a PNG",
+    tag: TAG,
+    auth: 'session',
+    params: IdParamsSchema,
+    produces: 'image/png',
+    errors: [403, 404],
+    async handler({ ctx, actor, params, res }) {
+      const png = await performerCardPng(ctx, actor, params.id);
+      res.set('Content-Type', 'image/png');
+      res.set('Content-Disposition', 'inline; filename="plinth-performer-card.png"');
+      res.send(png);
+    },
   }),
 ];

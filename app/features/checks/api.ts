@@ -48,6 +48,10 @@ export function leadRequestsQueryOptions(productionId: string, status?: 'waiting
   return queryOptions({ queryKey: [...leadRequestsKey, 'list', productionId, status] as const, queryFn: ({ signal }) => api.get(withQuery('/api/lead-requests', { productionId, status }), LeadRequestListSchema, signal) });
 }
 
+export function waitingChecksQueryOptions(productionId: string) {
+  return queryOptions({ queryKey: [...leadRequestsKey, 'waiting-checks', productionId] as const, queryFn: ({ signal }) => api.get(withQuery('/api/checks/waiting', { productionId }), LeadRequestListSchema, signal), refetchInterval: 15_000 });
+}
+
 export function leadRequestQueryOptions(id: string) {
   return queryOptions({ queryKey: [...leadRequestsKey, id] as const, queryFn: ({ signal }) => api.get(`/api/lead-requests/${enc(id)}`, LeadRequestSchema, signal) });
 }

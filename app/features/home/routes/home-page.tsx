@@ -7,6 +7,7 @@ import { prefetchFor } from '../../../lib/prefetch.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { homeQueryOptions } from '../api.ts';
 import { TaskCard } from '../components/task-card.tsx';
+import { ArtistHome, LeadHome } from '../../checks/index.ts';
 
 /** One line on what this seat is for, so a person switching seats knows which hat they wear. */
 const ROLE_INTROS: Record<ActingRole, string> = {
@@ -48,6 +49,8 @@ export function HomePage() {
           )
         }
       </QueryView>
+      {session.current?.productionId && role === 'artist' ? <ArtistHome productionId={session.current.productionId} /> : null}
+      {session.current?.productionId && role === 'lead' ? <LeadHome productionId={session.current.productionId} /> : null}
     </>
   );
 }

@@ -16,6 +16,7 @@ import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { PerformerCasts } from '../../archive/index.ts';
 import { PerformerBuilds } from '../../builds/index.ts';
+import { PerformerCard } from '../../checks/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
@@ -172,6 +173,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
 
       <PerformerCasts performerId={p.id} name={name} isSelf={isSelf} />
       <PerformerBuilds performerId={p.id} isSelf={isSelf} />
+      {isSelf ? null : <PerformerCard performerId={p.id} />}
 
       {p.canSeeMedical ? <HealthReads performerId={p.id} isSelf={isSelf} /> : null}
     </div>
