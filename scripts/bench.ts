@@ -22,6 +22,7 @@ import { installKeyring, keyringOf } from '../api/crypto/medical.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
 import { BODY_REGIONS, CAST_KINDS } from '../shared/domain/archive-casts.ts';
 import { LABEL_CODE_SPACE, labelCodeFromNumber } from '../shared/domain/label-codes.ts';
+import { loadCheckData } from './bench-check.ts';
 import { createThrowawayCluster, ensureDatabase } from './pg.ts';
 
 const USERS = Number(process.env.BENCH_USERS ?? 5000);
@@ -42,11 +43,13 @@ interface Row {
 }
 
 /** autocannon in a worker thread, so the load generator does not share the server's event loop. */
-async function measure(label: string, url: string, cookie?: string): Promise<Row | null> {
+async function measure(label: string, url: string, cookie?: string, post?: unknown): Promise<Row | null> {
   if (ONLY.length && !label.includes('baseline') && !ONLY.some((w) => label.toLowerCase().includes(w))) return null;
-  const headers = cookie ? { cookie } : {};
-  await autocannon({ url, connections: CONNECTIONS, duration: 1, headers, workers: 1 });
-  const r = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers, workers: 1 });
+  const headers: Record<string, string> = cookie ? { cookie } : {};
+  const write = post === undefined ? {} : { method: 'POST' as const, body: JSON.stringify(post) };
+  if (post !== undefined) headers['content-type'] = 'application/json';
+  await autocannon({ url, connections: CONNECTIONS, duration: 1, headers, workers: 1, ...write });
+  const r = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers, workers: 1, ...write });
   return { label, rps: r.requests.average, p50: r.latency.p50, p975: r.latency.p97_5, p99: r.latency.p99, failed: r.non2xx + r.errors + r.timeouts };
 }
 
@@ -197,6 +200,11 @@ try {
   rows.push(await measure('GET /api/casts label code (archivist)', `${p}/api/casts?q=${someLabel}`, archivist));
   rows.push(await measure('GET /api/casts code path GH/NORTH/R1 (archivist)', `${p}/api/casts?q=GH%2FNORTH%2FR1&pageSize=25`, archivist));
   rows.push(await measure('GET /api/casts region=face&kind=mold, page 40 (archivist)', `${p}/api/casts?region=face&kind=mold&page=40`, archivist));
+  // The artist's check: 200 past tests of one performer, a 30-product kit, one POST per check.
+  const check = await loadCheckData(handle.db, { tests: 200, kitSize: 30 });
+  await handle.pool.query('analyze');
+  const artist = await cookieFor('artist@plinth.test');
+  rows.push(await measure('POST /api/checks, 200 past tests, 30-product kit (artist)', `${p}/api/checks`, artist, { productionId: check.productionId, performerId: check.performerId, kitId: check.kitId }));
   // Measured again last: the ratio is to the mean of both, so a machine that slows down part-way shows up as two different baselines.
   const after = (await measure('bare Express 5 + pg, GET /performers/:id (baseline, last)', bareUrl))!;
   rows.push(after);
