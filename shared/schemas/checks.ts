@@ -114,3 +114,6 @@ export const LeadRequestSchema = z.object({
 export type LeadRequest = z.infer<typeof LeadRequestSchema>;
 export const LeadRequestListSchema = z.object({ items: z.array(LeadRequestSchema) });
 export const LeadRequestListQuerySchema = z.object({ productionId: IdSchema, status: LeadRequestStatusSchema.optional() });
+
+export const PieceChoiceQuerySchema = z.object({ productionId: IdSchema, performerId: IdSchema });
+export const PieceChoiceListSchema = z.object({ items: z.array(z.object({ id: z.string(), number: z.number().int(), buildId: z.string(), madeOn: z.string(), moldLabel: z.string() })) });

@@ -140,7 +140,7 @@ describe('no staff role but the designated lead reads health answers through any
       if (email !== 'admin@plinth.test') expect(buildsAnswered, 'the appliance build routes answered production staff').toBeGreaterThan(5);
       // …and the replies were really read (a performer's name appears somewhere).
       expect(sawPerformer).toBe(true);
-    });
+    }, 120_000);
   }
 
   it('the same sweep finds the answers for the lead (so the check can fail)', async () => {

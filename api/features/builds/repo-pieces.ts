@@ -209,3 +209,20 @@ export async function listPiecesWornFor(db: Db, applicationIds: readonly string[
   }
   return out;
 }
+
+/** Pieces on the shelf made from a performer's molds for a production, for the artist's check to add. */
+export async function listPiecesOnHandFor(db: Db, productionId: string, performerId: string): Promise<{ id: string; number: number; buildId: string; madeOn: string; moldLabel: string }[]> {
+  const rows = await db
+    .selectFrom('appliance_pieces as ap')
+    .innerJoin('appliance_builds as b', 'b.id', 'ap.build_id')
+    .innerJoin('casts as c', 'c.id', 'b.mold_id')
+    .select(['ap.id', 'ap.number', 'b.id as build_id', sql<string>`b.made_on::text`.as('made_on'), 'c.label_code', 'c.region'])
+    .where('b.production_id', '=', productionId)
+    .where('b.performer_id', '=', performerId)
+    .where('ap.status', '=', 'on_hand')
+    .orderBy('b.made_on', 'desc')
+    .orderBy('ap.number')
+    .limit(100)
+    .execute();
+  return rows.map((r) => ({ id: r.id, number: r.number, buildId: r.build_id, madeOn: r.made_on, moldLabel: `${r.region} mold ${r.label_code}` }));
+}

@@ -1,6 +1,8 @@
 import { IdParamsSchema } from '#shared/schemas/common.ts';
-import { AskLeadInputSchema, CheckSchema, LeadDecisionInputSchema, LeadRequestListQuerySchema, LeadRequestListSchema, LeadRequestSchema, RunCheckInputSchema } from '#shared/schemas/checks.ts';
+import { PieceChoiceListSchema, PieceChoiceQuerySchema, AskLeadInputSchema, CheckSchema, LeadDecisionInputSchema, LeadRequestListQuerySchema, LeadRequestListSchema, LeadRequestSchema, RunCheckInputSchema } from '#shared/schemas/checks.ts';
+import { authorize } from '../../http/authorize.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
+import { listPiecesOnHandFor } from '../builds/index.ts';
 import { performerCardPdf, performerCardPng } from './card.ts';
 import { askLead, decide, requestById, requestsFor, waitingChecks } from './request-service.ts';
 import { checkById, runCheck } from './service.ts';
@@ -8,6 +10,20 @@ import { checkById, runCheck } from './service.ts';
 const TAG = 'checks';
 
 export const checkRoutes: AnyRoute[] = [
+  defineRoute({
+    method: 'get',
+    path: '/api/checks/pieces',
+    summary: "Appliance pieces on the shelf made for this performer on this production, to add to a check (their materials are cleared with it)",
+    tag: TAG,
+    auth: 'session',
+    query: PieceChoiceQuerySchema,
+    response: PieceChoiceListSchema,
+    errors: [403],
+    async handler({ ctx, actor, query }) {
+      authorize(actor, 'clearance.check', { productionId: query.productionId });
+      return { items: await listPiecesOnHandFor(ctx.db, query.productionId, query.performerId) };
+    },
+  }),
   defineRoute({
     method: 'get',
     path: '/api/checks/waiting',

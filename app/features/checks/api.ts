@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { ApplicationListSchema, ApplicationSchema, IncidentListSchema, IncidentSchema, LotTraceSchema, type FinishApplicationInput, type LogApplicationInput, type SkinCheckInput } from '#shared/schemas/applications.ts';
-import { CheckSchema, LeadRequestListSchema, LeadRequestSchema, type Check, type LeadDecisionInput, type RunCheckInput } from '#shared/schemas/checks.ts';
+import { CheckSchema, PieceChoiceListSchema, LeadRequestListSchema, LeadRequestSchema, type Check, type LeadDecisionInput, type RunCheckInput } from '#shared/schemas/checks.ts';
 import { KitListSchema, KitSchema, type CreateKitInput, type UpdateKitInput } from '#shared/schemas/kits.ts';
 import { ProductPageSchema } from '#shared/schemas/catalogue.ts';
 import { PerformerPageSchema } from '#shared/schemas/performers.ts';
@@ -46,6 +46,10 @@ export function applicationsQueryOptions(productionId: string, day: string) {
 
 export function leadRequestsQueryOptions(productionId: string, status?: 'waiting') {
   return queryOptions({ queryKey: [...leadRequestsKey, 'list', productionId, status] as const, queryFn: ({ signal }) => api.get(withQuery('/api/lead-requests', { productionId, status }), LeadRequestListSchema, signal) });
+}
+
+export function pieceChoicesQueryOptions(productionId: string, performerId: string) {
+  return queryOptions({ queryKey: [...checksKey, 'pieces', productionId, performerId] as const, queryFn: ({ signal }) => api.get(withQuery('/api/checks/pieces', { productionId, performerId }), PieceChoiceListSchema, signal) });
 }
 
 export function waitingChecksQueryOptions(productionId: string) {

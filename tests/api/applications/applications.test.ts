@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { ApplicationSchema, IncidentListSchema, IncidentSchema, LotTraceSchema } from '#shared/schemas/applications.ts';
 import { CheckSchema } from '#shared/schemas/checks.ts';
+import { sealJson } from '../../../api/crypto/medical.ts';
 import { api, applicationBody, as, caughtMail, HARBOUR, ids, logCounts, PIER, QUAYSIDE, runCheck, setClearance, t, useApplicationApp } from './setup.ts';
 
 useApplicationApp();
@@ -91,6 +92,34 @@ describe('logging an application', () => {
     expect((await api().get(`/api/applications/${a.id}`).set('Cookie', as.archivist)).status).toBe(403);
     const today = await api().get('/api/applications').query({ productionId: ids.lantern, day: a.appliedOn }).set('Cookie', as.artist);
     expect(today.body.items.map((i: { id: string }) => i.id)).toEqual([a.id]);
+  });
+});
+
+describe('appliance pieces', () => {
+  it('lists the performer’s pieces on the shelf, clears their materials in the check, and marks them worn for the application', async () => {
+    const list = await api().get('/api/checks/pieces').query({ productionId: ids.lantern, performerId: ids.juno }).set('Cookie', as.artist);
+    expect(list.status).toBe(200);
+    const piece = list.body.items[0] as { id: string };
+    expect(piece).toBeDefined();
+    expect((await api().get('/api/checks/pieces').query({ productionId: ids.lantern, performerId: ids.juno }).set('Cookie', as.archivist)).status).toBe(403);
+    // A first check names the materials' formulations; the lead clears them, then the check is run again.
+    const first = CheckSchema.parse((await runCheck({ pieceIds: [piece.id] })).body);
+    expect(first.items.length).toBeGreaterThan(1);
+    expect(first.items.every((i) => i.fromPieceIds.includes(piece.id))).toBe(true);
+    for (const item of first.items) {
+      await t.db.db
+        .insertInto('clearance_overrides')
+        .values({ performer_id: ids.juno, production_id: ids.lantern, formulation_id: item.formulationId, state: 'cleared', note: sealJson('Reviewed'), set_by: await t.userId('lead@plinth.test'), set_at: new Date(Date.now() - 120_000) })
+        .execute();
+    }
+    await setClearance(ids.juno, HARBOUR, 'cleared');
+    const again = CheckSchema.parse((await runCheck({ pieceIds: [piece.id], productIds: [ids.products[HARBOUR]!.id] })).body);
+    expect(again.verdict).toBe('go');
+    const res = await api().post('/api/applications').set('Cookie', as.artist).send(applicationBody(again.id, { pieceIds: [piece.id] }));
+    expect(res.status).toBe(201);
+    const row = await t.db.db.selectFrom('appliance_pieces').select(['status', 'application_id']).where('id', '=', piece.id).executeTakeFirstOrThrow();
+    expect(row).toEqual({ status: 'used', application_id: res.body.id });
+    expect(res.body.pieces.map((p: { id: string }) => p.id)).toEqual([piece.id]);
   });
 });
 

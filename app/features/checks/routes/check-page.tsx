@@ -9,7 +9,8 @@ import { Section } from '../../../components/ui/section.tsx';
 import { api, errorMessage, ApiError } from '../../../lib/api-client.ts';
 import { seatProduction } from '../../../lib/session/seat-production.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
-import { kitsQueryOptions, useRunCheck } from '../api.ts';
+import { kitsQueryOptions, pieceChoicesQueryOptions, useRunCheck } from '../api.ts';
+import { CheckboxField } from '../../../components/ui/checkbox-field.tsx';
 import { ApplicationCautions } from '../components/application-cautions.tsx';
 import { CheckResult } from '../components/check-result.tsx';
 import { PerformerPicker, type PickedPerformer } from '../components/performer-picker.tsx';
@@ -50,6 +51,7 @@ function CheckForm({ productionId, performerId, onPerformer, onChecked }: { prod
   const [picked, setPicked] = useState<PickedPerformer | null>(null);
   const [kitId, setKitId] = useState<string>('');
   const [productIds, setProductIds] = useState<string[]>([]);
+  const [pieceIds, setPieceIds] = useState<string[]>([]);
   const [formError, setFormError] = useState<string[] | null>(null);
   const kits = useQuery(kitsQueryOptions(productionId));
   const run = useRunCheck();
@@ -66,7 +68,7 @@ function CheckForm({ productionId, performerId, onPerformer, onChecked }: { prod
     setFormError(null);
     if (!performer) return setFormError(['Choose the performer first.']);
     try {
-      const c = await run.mutateAsync({ productionId, performerId: performer.id, kitId: kitId || null, productIds });
+      const c = await run.mutateAsync({ productionId, performerId: performer.id, kitId: kitId || null, productIds, pieceIds });
       onChecked(c.id);
     } catch (err) {
       setFormError(err instanceof ApiError && Object.keys(err.fields).length ? Object.values(err.fields).flat() : [errorMessage(err)]);
@@ -117,6 +119,7 @@ function CheckForm({ productionId, performerId, onPerformer, onChecked }: { prod
           {kit ? <p className="text-ink-700">In the kit: {kit.products.map((p) => p.name).join(', ')}.</p> : null}
         </fieldset>
         <ProductPicker chosen={productIds} onChange={setProductIds} label="And one by one" />
+        {performer ? <PiecePicker productionId={productionId} performerId={performer.id} chosen={pieceIds} onChange={setPieceIds} /> : null}
         <FormError messages={formError} />
         <div>
           <Button pending={run.isPending} pendingLabel="Checking…" onClick={() => void submit()} disabled={!performer}>
@@ -125,5 +128,26 @@ function CheckForm({ productionId, performerId, onPerformer, onChecked }: { prod
         </div>
       </Section>
     </>
+  );
+}
+
+/** The performer's appliance pieces on the shelf: a piece chosen adds the materials it was made with to the check. */
+function PiecePicker({ productionId, performerId, chosen, onChange }: { productionId: string; performerId: string; chosen: string[]; onChange: (ids: string[]) => void }) {
+  const pieces = useQuery(pieceChoicesQueryOptions(productionId, performerId));
+  if (!pieces.data?.items.length) return null;
+  return (
+    <fieldset className="flex flex-col gap-1">
+      <legend className="text-base font-semibold text-ink-900">Appliance pieces to wear</legend>
+      <div className="grid gap-1 md:grid-cols-2">
+        {pieces.data.items.map((p) => (
+          <CheckboxField
+            key={p.id}
+            label={`Piece no. ${p.number} from the ${p.moldLabel}, made ${p.madeOn}`}
+            checked={chosen.includes(p.id)}
+            onChange={(e) => onChange(e.target.checked ? [...chosen, p.id] : chosen.filter((id) => id !== p.id))}
+          />
+        ))}
+      </div>
+    </fieldset>
   );
 }
