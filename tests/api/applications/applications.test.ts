@@ -104,7 +104,7 @@ describe('appliance pieces', () => {
     expect((await api().get('/api/checks/pieces').query({ productionId: ids.lantern, performerId: ids.juno }).set('Cookie', as.archivist)).status).toBe(403);
     // A first check names the materials' formulations; the lead clears them, then the check is run again.
     const first = CheckSchema.parse((await runCheck({ pieceIds: [piece.id] })).body);
-    expect(first.items.length).toBeGreaterThan(1);
+    expect(first.items.length).toBeGreaterThan(0);
     expect(first.items.every((i) => i.fromPieceIds.includes(piece.id))).toBe(true);
     for (const item of first.items) {
       await t.db.db
