@@ -34,7 +34,7 @@ export function ArtistHome({ productionId }: { productionId: string }) {
               <ul className="flex flex-col gap-2">
                 {data.items.map((a) => (
                   <li key={a.id}>
-                    <Link to={paths.application.href(a.id)}>
+                    <Link className="font-semibold underline" to={paths.application.href(a.id)}>
                       {a.performerName}
                       {a.description ? `: ${a.description}` : ''}
                     </Link>{' '}
@@ -57,7 +57,7 @@ export function ArtistHome({ productionId }: { productionId: string }) {
               <ul className="flex flex-col gap-2">
                 {data.items.map((r) => (
                   <li key={r.id}>
-                    <Link to={paths.check.href({ checkId: r.checkId })}>
+                    <Link className="font-semibold underline" to={paths.check.href({ checkId: r.checkId })}>
                       {r.performerName}: {r.productName} ({CLEARANCE_STATE_LABELS[r.stateAtRequest]})
                     </Link>{' '}
                     <span className="text-ink-700">asked {formatDateTime(r.requestedAt)}</span>
@@ -87,7 +87,7 @@ export function LeadHome({ productionId }: { productionId: string }) {
               <ul className="flex flex-col gap-2">
                 {data.items.map((i) => (
                   <li key={i.id}>
-                    <Link to={paths.incident.href(i.id)}>
+                    <Link className="font-semibold underline" to={paths.incident.href(i.id)}>
                       {i.performerName}: {SKIN_CHECK_OUTCOME_LABELS[i.outcome]}
                     </Link>{' '}
                     <span className="text-ink-700">reported {formatDateTime(i.reportedAt)}</span>
@@ -107,7 +107,7 @@ export function LeadHome({ productionId }: { productionId: string }) {
               <ul className="flex flex-col gap-2">
                 {data.items.map((r) => (
                   <li key={r.id}>
-                    <Link to={paths.leadRequest.href(r.id)}>
+                    <Link className="font-semibold underline" to={paths.leadRequest.href(r.id)}>
                       {r.performerName}: {r.productName} ({CLEARANCE_STATE_LABELS[r.stateAtRequest]})
                     </Link>{' '}
                     <span className="text-ink-700">from {r.requestedByName ?? 'an artist'}, {formatDateTime(r.requestedAt)}</span>

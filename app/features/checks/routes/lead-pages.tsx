@@ -90,14 +90,14 @@ export function IncidentPage() {
             <p className="text-lg font-semibold">{SKIN_CHECK_OUTCOME_LABELS[i.outcome]}</p>
             {i.observation ? <p>{i.observation}</p> : null}
             <p>
-              <Link to={paths.application.href(i.applicationId)}>Open the application</Link>
+              <Link className="font-semibold underline" to={paths.application.href(i.applicationId)}>Open the application</Link>
             </p>
           </Section>
           <Section title="Products and lots on the performer" testId="incident-products">
             <ul className="flex flex-col gap-1">
               {[...i.products, ...i.removalProducts.map((p) => ({ ...p, removal: true }))].map((p) => (
                 <li key={`${p.lotId}-${'removal' in p ? 'r' : 'a'}`}>
-                  {p.productName}, lot <Link to={paths.lotTrace.href(p.lotId)}>{p.lotCode}</Link>
+                  {p.productName}, lot <Link className="font-semibold underline" to={paths.lotTrace.href(p.lotId)}>{p.lotCode}</Link>
                   {'removal' in p ? ' (removal)' : ''}
                 </li>
               ))}

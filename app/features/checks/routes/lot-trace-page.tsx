@@ -28,7 +28,7 @@ export function LotTracePage() {
               <ul className="flex flex-col gap-1">
                 {t.performers.map((p) => (
                   <li key={p.id}>
-                    <Link to={paths.performer.href(p.id)}>{p.name}</Link>: {p.applications === 1 ? 'one application' : `${p.applications} applications`}
+                    <Link className="font-semibold underline" to={paths.performer.href(p.id)}>{p.name}</Link>: {p.applications === 1 ? 'one application' : `${p.applications} applications`}
                   </li>
                 ))}
               </ul>
@@ -50,7 +50,7 @@ export function LotTracePage() {
                   {t.applications.map((a) => (
                     <tr key={`${a.applicationId}-${a.use}`}>
                       <Td>
-                        <Link to={paths.application.href(a.applicationId)}>{formatDate(a.appliedOn)}</Link>
+                        <Link className="font-semibold underline" to={paths.application.href(a.applicationId)}>{formatDate(a.appliedOn)}</Link>
                       </Td>
                       <Td>{a.performerName}</Td>
                       <Td>{a.use === 'applied' ? 'Application' : 'Removal'}</Td>
