@@ -11,6 +11,9 @@ import { performerRoutes } from './features/performers/routes.ts';
 import { bookingRoutes } from './features/bookings/routes.ts';
 import { patchTestRoutes } from './features/patch-tests/routes.ts';
 import { buildRoutes } from './features/builds/routes.ts';
+import { kitRoutes } from './features/kits/routes.ts';
+import { checkRoutes } from './features/checks/routes.ts';
+import { applicationRoutes } from './features/applications/routes.ts';
 import { consentRoutes } from './features/consents/consent-routes.ts';
 import { signingRoutes } from './features/consents/signing-routes.ts';
 import { bundleRoutes } from './features/consents/bundle-routes.ts';
@@ -48,6 +51,9 @@ const featureRoutes: AnyRoute[] = [
   ...archiveRoutes,
   ...castRoutes,
   ...buildRoutes,
+  ...kitRoutes,
+  ...checkRoutes,
+  ...applicationRoutes,
   ...auditRoutes,
 ];
 

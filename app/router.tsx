@@ -178,6 +178,12 @@ const routes: RouteObject[] = [
                         const m = await import('./features/patch-tests/routes/patch-test-page.tsx');
                         return { Component: m.PatchTestPage, loader: m.patchTestLoader };
                       }),
+                      guarded(paths.check.pattern, 'clearance.check', async () => ({ Component: (await import('./features/checks/routes/check-page.tsx')).CheckPage })),
+                      guarded(paths.kits.pattern, 'clearance.check', async () => ({ Component: (await import('./features/checks/routes/kits-page.tsx')).KitsPage })),
+                      guarded(paths.application.pattern, 'applications.read', async () => ({ Component: (await import('./features/checks/routes/application-page.tsx')).ApplicationPage })),
+                      guarded(paths.leadRequest.pattern, 'medical.write', async () => ({ Component: (await import('./features/checks/routes/lead-pages.tsx')).LeadRequestPage })),
+                      guarded(paths.incident.pattern, 'medical.read', async () => ({ Component: (await import('./features/checks/routes/lead-pages.tsx')).IncidentPage })),
+                      guarded(paths.lotTrace.pattern, 'lots.trace', async () => ({ Component: (await import('./features/checks/routes/lot-trace-page.tsx')).LotTracePage })),
                       guarded(paths.builds.pattern, 'builds.read', async () => {
                         const m = await import('./features/builds/routes/builds-page.tsx');
                         return { Component: m.BuildsPage, loader: m.buildsLoader };

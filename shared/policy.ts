@@ -71,6 +71,9 @@ export const ACTIONS = [
   'builds.read',
   'builds.manage',
   'builds.plan',
+  'kits.manage',
+  'applications.read',
+  'lots.trace',
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
@@ -104,12 +107,15 @@ const HEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'builds.read',
   'builds.manage',
   'builds.plan',
+  'kits.manage',
+  'applications.read',
+  'lots.trace',
 ]);
 /**
  * The head's workshop decisions that the lead appointment does not carry: the lead reads appliance
  * builds, and makes or plans them only through a head or artist role of their own.
  */
-const HEAD_WORKSHOP_ACTIONS: ReadonlySet<Action> = new Set<Action>(['builds.manage', 'builds.plan']);
+const HEAD_WORKSHOP_ACTIONS: ReadonlySet<Action> = new Set<Action>(['builds.manage', 'builds.plan', 'kits.manage']);
 // The lead alone among staff may withdraw a consent on the performer's behalf (and read what it holds).
 const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   ...[...HEAD_ACTIONS].filter((a) => !HEAD_WORKSHOP_ACTIONS.has(a)),
@@ -134,6 +140,8 @@ const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'casts.read',
   'builds.read',
   'builds.manage',
+  'kits.manage',
+  'applications.read',
 ]);
 const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view', 'performers.view', 'performer.view', 'consents.view', 'sessions.view', 'catalogue.read', 'patchtests.read', 'casts.read', 'casts.manage', 'builds.read']);
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);

@@ -8,4 +8,7 @@ export const SEALED_COLUMNS: readonly { table: string; key: string; column: stri
   { table: 'patch_test_readings', key: 'id', column: 'code', jsonb: false },
   { table: 'patch_test_readings', key: 'id', column: 'note', jsonb: false },
   { table: 'clearance_overrides', key: 'id', column: 'note', jsonb: false },
+  { table: 'lead_requests', key: 'id', column: 'decision_note', jsonb: false },
+  { table: 'skin_checks', key: 'application_id', column: 'observation', jsonb: false },
+  { table: 'incidents', key: 'id', column: 'closing_note', jsonb: false },
 ];

@@ -1,5 +1,6 @@
 // Database types, kept by hand in step with migrations/ (one interface per table).
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+import type { ApplicationProductsTable, ApplicationsTable, ClearanceChecksTable, IncidentsTable, KitProductsTable, KitsTable, LeadRequestsTable, SkinChecksTable } from './schema-applications.ts';
 import type { ClearanceOverridesTable, PatchTestPhotosTable, PatchTestProductsTable, PatchTestReadingsTable, PatchTestsTable } from './schema-patch-tests.ts';
 
 type Timestamp = ColumnType<Date, Date | string | undefined, Date | string>;
@@ -542,7 +543,7 @@ export interface AppliancePiecesTable {
   build_id: string;
   number: number;
   status: ColumnType<PieceStatusCol, PieceStatusCol | undefined, PieceStatusCol>;
-  /** The logged application the piece was worn for (no foreign key until applications are logged). */
+  /** The logged application the piece was worn for. */
   application_id: string | null;
   status_at: Date | null;
   status_by: string | null;
@@ -563,6 +564,7 @@ export interface AppliancePlansTable {
   updated_at: Timestamp;
   version: Generated<number>;
 }
+
 
 export interface Database {
   files: FilesTable;
@@ -606,6 +608,14 @@ export interface Database {
   appliance_build_materials: ApplianceBuildMaterialsTable;
   appliance_pieces: AppliancePiecesTable;
   appliance_plans: AppliancePlansTable;
+  kits: KitsTable;
+  kit_products: KitProductsTable;
+  clearance_checks: ClearanceChecksTable;
+  lead_requests: LeadRequestsTable;
+  applications: ApplicationsTable;
+  application_products: ApplicationProductsTable;
+  skin_checks: SkinChecksTable;
+  incidents: IncidentsTable;
   patch_tests: PatchTestsTable;
   patch_test_products: PatchTestProductsTable;
   patch_test_readings: PatchTestReadingsTable;

@@ -13,6 +13,7 @@ import { SEED_TEMPLATES } from './seed-templates.ts';
 import { seedCatalogue } from './seed-catalogue.ts';
 import { seedBuilds } from './seed-builds.ts';
 import { seedDemoPatchTests } from './seed-patch-tests.ts';
+import { seedApplications } from './seed-applications.ts';
 
 // The demo scenario: everything here is invented (production, people, characters).
 export const DEMO_PRODUCTION = 'The Lantern Keeper';
@@ -126,6 +127,7 @@ export async function seedDemo(db: Db, opts: { files?: FileStore } = {}): Promis
       now,
     });
     await seedBuilds(trx, { productionId: lantern.id, users: demoUsers, now });
+    await seedApplications(trx, { productionId: lantern.id, users: demoUsers, now });
     await trx
       .insertInto('audit_log')
       .values({ actor_user_id: null, action: 'demo.seed', entity_type: 'system', details: JSON.stringify({ production: DEMO_PRODUCTION }) })

@@ -43,6 +43,9 @@ const ACTION_WORDS: Record<Action, string> = {
   'builds.read': 'see appliance builds',
   'builds.manage': 'record appliance builds and their pieces',
   'builds.plan': 'plan shoot days for appliances',
+  'kits.manage': 'make and change kits',
+  'applications.read': 'see logged applications',
+  'lots.trace': 'trace a lot to the performers it touched',
 };
 
 /** Permission checked here: the only server wrapper around the policy. */

@@ -86,6 +86,13 @@ export const paths = {
   /** Patch tests: booking one for a performer, and one test with its schedule and reading grid. */
   bookPatchTest: { pattern: '/patch-tests/new', href: (performerId?: string) => withSearch('/patch-tests/new', { performerId }) },
   patchTest: { pattern: '/patch-tests/:id', href: (id: string) => `/patch-tests/${encodeURIComponent(id)}` },
+  /** The artist's check before an application, kits, the application log, requests to the lead, incidents and lot trace. */
+  check: { pattern: '/check', href: (search: { performerId?: string; checkId?: string } = {}) => withSearch('/check', search) },
+  kits: { pattern: '/kits', href: () => '/kits' },
+  application: { pattern: '/applications/:id', href: (id: string) => `/applications/${encodeURIComponent(id)}` },
+  leadRequest: { pattern: '/requests/:id', href: (id: string) => `/requests/${encodeURIComponent(id)}` },
+  incident: { pattern: '/incidents/:id', href: (id: string) => `/incidents/${encodeURIComponent(id)}` },
+  lotTrace: { pattern: '/lots/:id/trace', href: (id: string) => `/lots/${encodeURIComponent(id)}/trace` },
 
   // Public pages, outside the signed-in shell.
   /** The department's tablet while it is lent to a performer. */
@@ -115,6 +122,8 @@ export const serverPaths = {
   performersCsv: (query: Record<string, string | undefined>) => withSearch('/api/performers/export.csv', query),
   consentPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/pdf`,
   consentStaffPdf: (id: string) => `/api/consents/${encodeURIComponent(id)}/staff-pdf`,
+  /** The performer's printable card with the QR code the check scans. */
+  performerCard: (id: string, format: 'pdf' | 'png') => `/api/performers/${encodeURIComponent(id)}/card.${format}`,
   /** A catalogue product's safety data sheet, downloaded by the browser. */
   safetySheet: (productId: string) => `/api/products/${encodeURIComponent(productId)}/safety-data-sheet`,
   /** A printable sheet of QR labels for these casts and places. */

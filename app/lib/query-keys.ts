@@ -18,6 +18,11 @@ export const productsKey = ['products'] as const;
 export const ingredientsKey = ['ingredients'] as const;
 export const protocolsKey = ['protocols'] as const;
 export const buildsKey = ['appliance-builds'] as const;
+export const kitsKey = ['kits'] as const;
+export const checksKey = ['checks'] as const;
+export const applicationsKey = ['applications'] as const;
+export const leadRequestsKey = ['lead-requests'] as const;
+export const incidentsKey = ['incidents'] as const;
 /** Public signing and withdrawal screens: never mixed with a signed-in person's data. */
 export const tabletKey = ['tablet'] as const;
 export const signingLinkKey = ['signing-link'] as const;

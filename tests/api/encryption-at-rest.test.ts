@@ -4,6 +4,7 @@ import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sealedWith } from '../../api/crypto/medical.ts';
+import { SEALED_COLUMNS } from '../../api/crypto/sealed-columns.ts';
 import { rotateMedicalKey } from '../../scripts/rotate-key-lib.ts';
 import { createTestApp, TEST_MEDICAL_KEY, type TestApp } from '../support/app.ts';
 
@@ -79,6 +80,22 @@ describe('health details at rest', () => {
     }
   });
 
+  it('skin-check observations, the lead’s answers to requests and incident notes are sealed in their rows', async () => {
+    const lead = await t.sessionFor('lead@plinth.test');
+    const waiting = await t.db.db.selectFrom('lead_requests').select(['id', 'version']).where('status', '=', 'waiting').executeTakeFirstOrThrow();
+    await request(t.app).post(`/api/lead-requests/${waiting.id}/decision`).set('Cookie', lead).send({ decision: 'refused', note: 'Blistered under occlusion last season', version: waiting.version }).expect(200);
+    const incident = await t.db.db.selectFrom('incidents').select(['id', 'version']).executeTakeFirstOrThrow();
+    await request(t.app).post(`/api/incidents/${incident.id}/close`).set('Cookie', lead).send({ note: 'Settled with a cool compress', version: incident.version }).expect(200);
+    const observations = await t.db.db.selectFrom('skin_checks').select('observation').where('observation', 'is not', null).execute();
+    const notes = await t.db.db.selectFrom('lead_requests').select('decision_note').where('decision_note', 'is not', null).execute();
+    const closing = await t.db.db.selectFrom('incidents').select('closing_note').where('closing_note', 'is not', null).execute();
+    const raw = [...observations.map((o) => o.observation!), ...notes.map((n) => n.decision_note!), ...closing.map((c) => c.closing_note!)];
+    expect(raw.length).toBe(observations.length + 2);
+    expect(observations.length).toBeGreaterThan(0);
+    for (const r of raw) expect(r.startsWith('sealed:v1:')).toBe(true);
+    expect(raw.join('\n')).not.toMatch(/Pink patch|Blistered|compress/);
+  });
+
   it('the lead still reads them through the app', async () => {
     const juno = (await t.db.db.selectFrom('performers').select('id').where('legal_name', '=', 'Juno Castellane').executeTakeFirstOrThrow()).id;
     const c = (await t.db.db.selectFrom('consents').select('id').where('performer_id', '=', juno).where('kind', '=', 'patch_testing').executeTakeFirstOrThrow()).id;
@@ -93,7 +110,14 @@ describe('health details at rest', () => {
     const oldId = sealedWith(JSON.parse(before.answers[0]!) as string);
     const report = await rotateMedicalKey({ db: t.db.db, files: t.ctx.files, keyFile });
     expect(report.keyId).not.toBe(oldId);
-    expect(report.values).toBe(before.answers.length + before.reasons.length);
+    // Every sealed column's values: answers and reasons, and the health details of the other features (lead's notes, observations).
+    let sealedValues = before.answers.length;
+    for (const c of SEALED_COLUMNS.filter((x) => x.table !== 'consent_answers')) {
+      const { rows } = await t.db.pool.query<{ n: string }>(`select count(*) as n from "${c.table}" where "${c.column}" is not null`);
+      sealedValues += Number(rows[0]!.n);
+    }
+    expect(sealedValues).toBeGreaterThan(before.answers.length + before.reasons.length);
+    expect(report.values).toBe(sealedValues);
     expect(report.files).toBe((await medicalPdfFiles()).length);
     const after = await rawMedical();
     for (const a of after.answers) expect(sealedWith(JSON.parse(a) as string)).toBe(report.keyId);

@@ -79,8 +79,30 @@ beforeAll(async () => {
   medicalTexts.push('Blistering behind the ear noted at the check', 'Confirmed by the production dermatologist');
   ids.id.push(booked.body.id);
   photoOf.set(booked.body.id, shot.body.products[0].readings[0].photos[0].id);
+  // The application log: the demo's skin check with redness (its observation), the lead's note on an
+  // answered request, and every record's id: checks, requests, applications, incidents, kits and lots.
+  const leadCookie2 = await t.sessionFor('lead@plinth.test');
+  const waiting = await db.selectFrom('lead_requests').select(['id', 'version']).where('status', '=', 'waiting').executeTakeFirstOrThrow();
+  const decided = await request(t.app).post(`/api/lead-requests/${waiting.id}/decision`).set('Cookie', leadCookie2).send({ decision: 'refused', note: 'Weeping rash under the patch last season', version: waiting.version });
+  expect(decided.status).toBe(200);
+  medicalTexts.push('Weeping rash under the patch last season', 'Pink patch about 2 cm along the jaw line');
+  const applications = await db.selectFrom('applications').select('id').execute();
+  const incidents = await db.selectFrom('incidents').select('id').execute();
+  const checks = await db.selectFrom('clearance_checks').select('id').execute();
+  const requests = await db.selectFrom('lead_requests').select('id').execute();
+  const kits = await db.selectFrom('kits').select('id').execute();
+  const usedLots = await db.selectFrom('application_products').select('lot_id').distinct().execute();
+  expect(applications.length * incidents.length * requests.length).toBeGreaterThan(0);
+  // Filled only into their own routes, so the sweep stays the size it was for every other route.
+  ownIds.set('/api/applications/', applications.map((r) => r.id));
+  ownIds.set('/api/incidents/', incidents.map((r) => r.id));
+  ownIds.set('/api/checks/', checks.map((r) => r.id));
+  ownIds.set('/api/lead-requests/', requests.map((r) => r.id));
+  ownIds.set('/api/kits/', kits.map((r) => r.id));
+  ownIds.set('/api/lots/', usedLots.map((l) => l.lot_id));
 });
 let photoOf = new Map<string, string>();
+const ownIds = new Map<string, string[]>();
 afterAll(async () => {
   await t?.close();
 });
@@ -99,7 +121,8 @@ describe('no staff role but the designated lead reads health answers through any
       let staffCopies = 0;
       let sawPerformer = false;
       for (const route of reads) {
-        const fills = route.path.includes(':id') ? ids.id! : route.path.includes(':code') ? ids.code! : [''];
+        const own = [...ownIds].find(([prefix]) => route.path.startsWith(prefix))?.[1];
+        const fills = route.path.includes(':id') ? (own ?? ids.id!) : route.path.includes(':code') ? ids.code! : [''];
         for (const fill of fills) {
           const url = concretePath(route, { id: fill, code: fill, photoId: photoOf.get(fill) ?? '' });
           const res = await request(t.app)
@@ -128,7 +151,7 @@ describe('no staff role but the designated lead reads health answers through any
               const medical = await t.db.db.selectFrom('consent_answers').select('id').where('consent_id', '=', consentId).where('medical', '=', true).execute();
               expect(medical, `${email} got the PDF of a consent with health questions`).toEqual([]);
             } else {
-              expect(url, 'the only other PDFs staff may fetch are a safety data sheet and the archive’s label sheet').toMatch(/^\/api\/(products\/[0-9a-f-]{36}\/safety-data-sheet$|archive\/labels\.pdf)/);
+              expect(url, 'the only other PDFs staff may fetch are a safety data sheet, the archive’s label sheet and a performer’s card').toMatch(/^\/api\/(products\/[0-9a-f-]{36}\/safety-data-sheet$|archive\/labels\.pdf|performers\/[0-9a-f-]{36}\/card\.pdf$)/);
             }
             const pdf = await pdfText(res.body as Buffer);
             for (const m of medicalTexts) expect(pdf.text).not.toContain(m);

@@ -48,6 +48,10 @@ const TABLE: [Action, boolean[]][] = [
   ['builds.read', [false, true, true, true, true, false, false]],
   ['builds.manage', [false, true, true, true, false, false, false]],
   ['builds.plan', [false, true, false, false, false, false, false]],
+  // Kits are edited by heads and artists; logged applications are read by production staff who apply or answer for them.
+  ['kits.manage', [false, true, true, true, false, false, false]],
+  ['applications.read', [false, true, true, true, false, false, false]],
+  ['lots.trace', [false, true, true, false, false, false, false]],
 ];
 
 describe('can() on one production', () => {
@@ -218,6 +222,11 @@ describe('every action, for every role, on one performer record of production P1
     'builds.read': [N, Y, Y, Y, Y, N, N, N],
     'builds.manage': [N, Y, N, Y, N, N, N, N],
     'builds.plan': [N, Y, N, N, N, N, N, N],
+    // Kits: heads and artists keep them; the lead appointment alone does not. Applications are read by head, lead and artists;
+    // a lot's trace by the head (without health details) and the lead.
+    'kits.manage': [N, Y, N, Y, N, N, N, N],
+    'applications.read': [N, Y, Y, Y, N, N, N, N],
+    'lots.trace': [N, Y, Y, N, N, N, N, N],
   };
   const resource = { productionId: P1, performerId: PERF, performerProductionIds: [P1] };
 

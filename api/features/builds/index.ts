@@ -4,6 +4,8 @@ import { findMaterialUses } from './repo.ts';
 
 // What other features may use of appliance builds.
 export { piecesShortTask } from './piece-service.ts';
+// Pieces worn for a logged application.
+export { listPiecesOnHandFor, listPiecesWornFor, markPiecesWornFor } from './repo-pieces.ts';
 
 /** One build's materials as the artist's check clears them: catalogue ids only, formulation first. */
 export interface ApplianceMaterials {

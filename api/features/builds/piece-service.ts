@@ -7,7 +7,7 @@ import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
 import { writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
-import { conflict, notFound } from '../../http/errors.ts';
+import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { findCastsByIds } from '../archive/index.ts';
 import { findBuild, lockBuild } from './repo.ts';
 import { findPiece, insertPlan, listPlans, lockPlan, setPieceStatusAtVersion, tallyByMold, updatePlanAtVersion } from './repo-pieces.ts';
@@ -24,25 +24,33 @@ export async function markPiece(ctx: AppContext, actor: Actor, pieceId: string, 
   const build = await findBuild(ctx.db, piece.buildId);
   if (!build) throw notFound('That piece');
   authorize(actor, 'builds.manage', { productionId: build.productionId });
-  await ctx.db.transaction().execute(async (trx) => {
-    // The build's lock queues a mark behind a change to the count of pieces made.
-    if (!(await lockBuild(trx, build.id))) throw notFound('That piece');
-    const ok = await setPieceStatusAtVersion(trx, pieceId, { status: input.status, applicationId: input.applicationId, note: input.note, by: actor.userId }, input.version);
-    if (!ok) {
-      if (!(await findPiece(trx, pieceId))) throw notFound('That piece');
-      throw conflict('Someone else marked this piece since you opened the build. Reload to see it.');
-    }
-    await writeAudit(trx, {
-      actorUserId: actor.userId,
-      action: 'piece.mark',
-      performerId: build.performerId,
-      entityType: 'appliance_piece',
-      entityId: pieceId,
-      productionId: build.productionId,
-      req,
-      details: { buildId: build.id, number: piece.number, from: piece.status, to: input.status, applicationId: input.applicationId },
+  await ctx.db
+    .transaction()
+    .execute(async (trx) => {
+      // The build's lock queues a mark behind a change to the count of pieces made.
+      if (!(await lockBuild(trx, build.id))) throw notFound('That piece');
+      const ok = await setPieceStatusAtVersion(trx, pieceId, { status: input.status, applicationId: input.applicationId, note: input.note, by: actor.userId }, input.version);
+      if (!ok) {
+        if (!(await findPiece(trx, pieceId))) throw notFound('That piece');
+        throw conflict('Someone else marked this piece since you opened the build. Reload to see it.');
+      }
+      await writeAudit(trx, {
+        actorUserId: actor.userId,
+        action: 'piece.mark',
+        performerId: build.performerId,
+        entityType: 'appliance_piece',
+        entityId: pieceId,
+        productionId: build.productionId,
+        req,
+        details: { buildId: build.id, number: piece.number, from: piece.status, to: input.status, applicationId: input.applicationId },
+      });
+    })
+    .catch((err: unknown) => {
+      // The application a used piece names must be a logged one.
+      const e = err as { code?: string; constraint?: string } | null;
+      if (e?.code === '23503' && e.constraint === 'appliance_pieces_application_fkey') throw invalid({ applicationId: ['No such logged application.'] });
+      throw err;
     });
-  });
   return buildDetail(ctx, actor, build.id);
 }
 

@@ -180,3 +180,49 @@ export async function updatePlanAtVersion(db: Db, id: string, v: PlanValues, ver
     .executeTakeFirst();
   return Number(res.numUpdatedRows) === 1;
 }
+
+/**
+ * Marks pieces worn for a logged application: a piece on the shelf, or used with no application named
+ * yet, becomes used for it. Answers the ids it could not take (spoiled, or worn for another application).
+ */
+export async function markPiecesWornFor(db: Db, pieceIds: readonly string[], applicationId: string, by: string): Promise<string[]> {
+  if (pieceIds.length === 0) return [];
+  const done = await db
+    .updateTable('appliance_pieces')
+    .set({ status: 'used', application_id: applicationId, status_by: by, status_at: sql`now()`, version: sql`version + 1` })
+    .where('id', 'in', [...pieceIds])
+    .where((eb) => eb.or([eb('status', '=', 'on_hand'), eb.and([eb('status', '=', 'used'), eb('application_id', 'is', null)])]))
+    .returning('id')
+    .execute();
+  const ok = new Set(done.map((r) => r.id));
+  return pieceIds.filter((id) => !ok.has(id));
+}
+
+/** The pieces worn for these applications: number and build. */
+export async function listPiecesWornFor(db: Db, applicationIds: readonly string[]): Promise<Map<string, { id: string; number: number; buildId: string }[]>> {
+  const out = new Map<string, { id: string; number: number; buildId: string }[]>();
+  if (applicationIds.length === 0) return out;
+  const rows = await db.selectFrom('appliance_pieces').select(['id', 'number', 'build_id', 'application_id']).where('application_id', 'in', [...applicationIds]).orderBy('number').execute();
+  for (const r of rows) {
+    const list = out.get(r.application_id!) ?? out.set(r.application_id!, []).get(r.application_id!)!;
+    list.push({ id: r.id, number: r.number, buildId: r.build_id });
+  }
+  return out;
+}
+
+/** Pieces on the shelf made from a performer's molds for a production, for the artist's check to add. */
+export async function listPiecesOnHandFor(db: Db, productionId: string, performerId: string): Promise<{ id: string; number: number; buildId: string; madeOn: string; moldLabel: string }[]> {
+  const rows = await db
+    .selectFrom('appliance_pieces as ap')
+    .innerJoin('appliance_builds as b', 'b.id', 'ap.build_id')
+    .innerJoin('casts as c', 'c.id', 'b.mold_id')
+    .select(['ap.id', 'ap.number', 'b.id as build_id', sql<string>`b.made_on::text`.as('made_on'), 'c.label_code', 'c.region'])
+    .where('b.production_id', '=', productionId)
+    .where('b.performer_id', '=', performerId)
+    .where('ap.status', '=', 'on_hand')
+    .orderBy('b.made_on', 'desc')
+    .orderBy('ap.number')
+    .limit(100)
+    .execute();
+  return rows.map((r) => ({ id: r.id, number: r.number, buildId: r.build_id, madeOn: r.made_on, moldLabel: `${r.region} mold ${r.label_code}` }));
+}

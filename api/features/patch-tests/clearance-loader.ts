@@ -12,6 +12,8 @@ export interface PerformerClearancesQuery {
   performerId: string;
   /** The products to answer for (each at its current formulation); every product in the catalogue when left out. */
   productIds?: readonly string[];
+  /** Exact formulations to answer for as well, current or not (the materials an appliance piece was made with). */
+  formulationIds?: readonly string[];
   now: Date;
 }
 
@@ -42,7 +44,7 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
       db,
       tested.map((t) => t.protocolVersionId),
     ),
-    loadFormulationsWithIngredients(db, [...current.map((c) => c.formulationId), ...tested.map((t) => t.formulationId)]),
+    loadFormulationsWithIngredients(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)]),
   ]);
   const formulations = new Map(facts.map((f) => [f.formulationId, f]));
   const tests: TestedProduct[] = tested.map((t) => {
@@ -60,7 +62,7 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
   });
   const testedIds = new Set(tested.map((t) => t.formulationId));
   const results = performerClearance({
-    formulations: current.flatMap((c) => (formulations.has(c.formulationId) ? [formulations.get(c.formulationId)!] : [])),
+    formulations: [...new Set([...current.map((c) => c.formulationId), ...(q.formulationIds ?? [])])].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     testedFormulations: [...testedIds].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     tests,
     declaredAllergies: answers.length > 0 ? declaredAllergiesFromAnswers(answers, buildVocabulary(vocabulary)) : [],

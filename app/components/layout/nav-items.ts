@@ -28,6 +28,8 @@ export const NAV_ITEMS: readonly NavEntry[] = [
     action: 'performer.self',
   },
   { label: 'Sessions', to: paths.bookings.href(), action: 'performers.view' },
+  { label: 'Check', to: paths.check.href(), action: 'clearance.check' },
+  { label: 'Kits', to: paths.kits.href(), action: 'clearance.check' },
   { label: 'Catalogue', to: paths.catalogue.href(), action: 'catalogue.read' },
   { label: 'Ingredients', to: paths.ingredients.href(), action: 'catalogue.read' },
   { label: 'Protocols', to: paths.protocols.href(), action: 'catalogue.read' },

@@ -42,7 +42,11 @@ describe('PUT /api/appliance-pieces/:id/status', () => {
   it('marks a piece used with its application, spoiled, and back on the shelf; the tally follows', async () => {
     const b = await detail((await demoBuild(ids.molds.junoHand)).id);
     const piece = b.pieces[0]!;
-    const applicationId = '5f0c8a2e-2d1b-4c3a-9e8f-7a6b5c4d3e2f';
+    // The demo's logged application; a piece may name only a logged one.
+    const applicationId = (await t.db.db.selectFrom('applications').select('id').executeTakeFirstOrThrow()).id;
+    const unknown = await mark(piece.id, { status: 'used', applicationId: '5f0c8a2e-2d1b-4c3a-9e8f-7a6b5c4d3e2f', version: piece.version });
+    expect(unknown.status).toBe(400);
+    expect(unknown.body.error.details.fields.applicationId).toEqual(['No such logged application.']);
     const used = BuildDetailSchema.parse((await mark(piece.id, { status: 'used', applicationId, version: piece.version })).body);
     expect(used.pieces[0]).toMatchObject({ status: 'used', applicationId, statusBy: 'Rafe Lindqvist' });
     expect(used.tally).toEqual({ made: 6, used: 1, spoiled: 0, remaining: 5 });

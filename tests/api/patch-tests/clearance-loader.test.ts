@@ -46,6 +46,8 @@ beforeAll(async () => {
   await t.db.db.deleteFrom('patch_test_readings').execute();
   await t.db.db.deleteFrom('patch_test_products').execute();
   await t.db.db.deleteFrom('patch_tests').where('performer_id', '=', performerId).execute();
+  // …and none of the lead's decisions the demo's application log set for her.
+  await t.db.db.deleteFrom('clearance_overrides').where('performer_id', '=', performerId).execute();
   // Juno's patch-testing form declares a fragrance allergy in her own words.
   const consent = await t.db.db.selectFrom('consents').select('id').where('performer_id', '=', performerId).where('kind', '=', 'patch_testing').executeTakeFirstOrThrow();
   await t.db.db.updateTable('consent_answers').set({ answer: JSON.stringify(sealJson('I am allergic to fragrance, and sticking plasters')) }).where('consent_id', '=', consent.id).where('question_id', '=', 'known_allergies').execute();

@@ -9,6 +9,7 @@ import { homeQueryOptions } from '../api.ts';
 import { StartActions } from '../components/start-actions.tsx';
 import { TaskCard } from '../components/task-card.tsx';
 import { ConsentWorkPanels } from '../../consents/index.ts';
+import { ArtistHome, LeadHome } from '../../checks/index.ts';
 
 /** One line on what this seat is for, so a person switching seats knows which hat they wear. */
 const ROLE_INTROS: Record<ActingRole, string> = {
@@ -75,6 +76,8 @@ export function HomePage() {
           <ConsentWorkPanels productionId={home.data.productionId} isLead={role === 'lead'} />
         </div>
       ) : null}
+      {session.current?.productionId && role === 'artist' ? <ArtistHome productionId={session.current.productionId} /> : null}
+      {session.current?.productionId && role === 'lead' ? <LeadHome productionId={session.current.productionId} /> : null}
     </>
   );
 }

@@ -17,6 +17,7 @@ import { prefetchFor } from '../../../lib/prefetch.ts';
 import { PerformerCasts } from '../../archive/index.ts';
 import { PerformerBuilds } from '../../builds/index.ts';
 import { PerformerPatchTests } from '../../patch-tests/index.ts';
+import { PerformerCard } from '../../checks/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
 import { HealthSummarySection } from '../../consents/index.ts';
 import { PERFORMER_PAGE_ACTIONS, seatCan } from '../../../lib/session/seat.ts';
@@ -166,6 +167,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
       <PageAnchor id="appliances">
         <PerformerBuilds performerId={p.id} isSelf={isSelf} />
       </PageAnchor>
+      {isSelf ? null : <PerformerCard performerId={p.id} />}
 
       {p.contact ? (
         <PageAnchor id="contact">

@@ -1,0 +1,2 @@
+// What other features may use of kits.
+export { existingProductIds } from './repo.ts';
