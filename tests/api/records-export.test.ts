@@ -41,6 +41,20 @@ describe("the performer's own records (right of access)", () => {
     expect((await zip.file(pdfs[0]!)!.async('nodebuffer')).subarray(0, 5).toString()).toBe('%PDF-');
     const casts = JSON.parse(await zip.file('casts.json')!.async('string'));
     expect(casts.length).toBeGreaterThan(0);
+    // What touched her skin: every patch test with its readings, every logged application with its skin check, every appliance build.
+    for (const n of ['patch-tests.json', 'applications.json', 'appliances.json']) expect(names).toContain(n);
+    const patch = JSON.parse(await zip.file('patch-tests.json')!.async('string')) as { tests: { id: string; products: { readings: { code: string }[] }[] }[]; clearances: unknown[] };
+    const tests = await t.db.db.selectFrom('patch_tests').select('booking_id').where('performer_id', '=', juno).execute();
+    expect(patch.tests.map((x) => x.id).sort()).toEqual(tests.map((x) => x.booking_id).sort());
+    const readings = await t.db.db.selectFrom('patch_test_readings as r').innerJoin('patch_test_products as tp', 'tp.id', 'r.test_product_id').innerJoin('patch_tests as pt', 'pt.booking_id', 'tp.test_id').select((eb) => eb.fn.countAll<string>().as('n')).where('pt.performer_id', '=', juno).executeTakeFirstOrThrow();
+    expect(patch.tests.flatMap((x) => x.products.flatMap((p) => p.readings))).toHaveLength(Number(readings.n));
+    expect(patch.clearances.length).toBeGreaterThan(0);
+    const applications = JSON.parse(await zip.file('applications.json')!.async('string')) as { skinCheck: { observation: string | null } | null }[];
+    const logged = await t.db.db.selectFrom('applications').select((eb) => eb.fn.countAll<string>().as('n')).where('performer_id', '=', juno).executeTakeFirstOrThrow();
+    expect(applications).toHaveLength(Number(logged.n));
+    expect(applications.some((a) => a.skinCheck?.observation)).toBe(true);
+    const appliances = JSON.parse(await zip.file('appliances.json')!.async('string'));
+    expect(JSON.stringify(appliances).length).toBeGreaterThan(10);
     const audit = await t.db.db.selectFrom('audit_log').select(['subject_performer_id', 'details']).where('entity_type', '=', 'records_export').executeTakeFirstOrThrow();
     expect(audit.subject_performer_id).toBe(juno);
   });

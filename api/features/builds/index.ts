@@ -4,6 +4,8 @@ import { findMaterialUses } from './repo.ts';
 
 // What other features may use of appliance builds.
 export { piecesShortTask } from './piece-service.ts';
+// A performer's own builds, with their materials and lots (their records export reads them).
+export { performerBuilds } from './service.ts';
 // Pieces worn for a logged application.
 export { listPiecesOnHandFor, listPiecesWornFor, markPiecesWornFor } from './repo-pieces.ts';
 

@@ -3,3 +3,6 @@
 export { performerClearances, type PerformerClearancesQuery } from './clearance-loader.ts';
 // The homes' patch-test lists, and what a reminder job reads: tests under reading with their protocols.
 export { headPatchTestTasks, leadReadingTasks, readingLists, testsUnderReading, type TestUnderReadingRow } from './home-tasks.ts';
+// A performer's tests and clearances, and one test with its readings (their records export reads them).
+export { performerPatchTests } from './performer-service.ts';
+export { detailFor as patchTestDetail } from './service.ts';

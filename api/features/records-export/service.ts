@@ -6,9 +6,12 @@ import { readStoredFile } from '../../files/store.ts';
 import { recordEvent } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { notFound } from '../../http/errors.ts';
+import { listApplicationProducts, listApplicationRows } from '../applications/index.ts';
 import { listCastsOfPerformer } from '../archive/index.ts';
 import { listHealthReadsOf } from '../audit/index.ts';
 import { findConsentDetailRow, listConsentAnswers, listConsentSummaries } from '../consents/index.ts';
+import { performerBuilds } from '../builds/index.ts';
+import { patchTestDetail, performerPatchTests } from '../patch-tests/index.ts';
 import { findPerformer, findPerformerScope, listEngagementsOf } from '../performers/index.ts';
 
 const README = `Everything Plinth holds about you
@@ -20,6 +23,9 @@ This archive is your copy of the records the make-up department keeps about you 
   consents.json      every consent you signed, with your answers (health answers included) and any withdrawal
   consents/*.pdf     the signed copy of each consent
   casts.json         every life cast, mold and positive taken of you, where it is kept and where it has been
+  patch-tests.json   every skin patch test of yours with each reading, and what each product's clearance is
+  applications.json  every application logged on you: products and lots, times, and the skin check after removal
+  appliances.json    every appliance piece made from your molds, with the materials and lots that went into it
   health-reads.json  who has read your health details, and when
 
 Plinth records skin screening and consent; it is not a medical diagnosis.
@@ -49,6 +55,14 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
     const file = detail ? await readStoredFile(ctx.db, ctx.files, detail.pdfFileId) : null;
     if (file) pdfs.push({ name: `consents/${s.signedAt.slice(0, 10)}-${s.kind}-${s.id}.pdf`, bytes: file.bytes });
   }
+  // The patch-test log, the application log and appliance builds: what touched their skin, and how it answered.
+  const patchTests = await performerPatchTests(ctx, actor, performerId, req);
+  const tests = [];
+  for (const t of patchTests.tests) tests.push(await patchTestDetail(ctx, actor, t.id, req));
+  const applicationRows = await listApplicationRows(ctx.db, { productionIds: scope.productionIds, performerId });
+  const applicationProducts = await listApplicationProducts(ctx.db, applicationRows.map((a) => a.id));
+  const applications = applicationRows.map(({ check: _check, version: _v, ...a }) => ({ ...a, products: applicationProducts.get(a.id) ?? { applied: [], removal: [] } }));
+  const builds = await performerBuilds(ctx, actor, performerId);
   await recordEvent(ctx.db, {
     actorUserId: actor.userId,
     action: 'medical.read',
@@ -56,7 +70,7 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
     entityType: 'records_export',
     entityId: performerId,
     req,
-    details: { consents: consents.length, casts: casts.length, handedOverBy: actor.performerIds.includes(performerId) ? null : actor.userId },
+    details: { consents: consents.length, casts: casts.length, patchTests: tests.length, applications: applications.length, handedOverBy: actor.performerIds.includes(performerId) ? null : actor.userId },
   });
   const zip = archiver('zip', { zlib: { level: 9 } });
   const json = (value: unknown) => JSON.stringify(value, null, 2);
@@ -69,6 +83,9 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
     json(casts.map((c) => ({ label: c.labelCode, production: c.productionName, region: c.region, kind: c.kind, material: c.material, madeOn: c.madeOn, madeBy: c.madeBy, status: c.status, notes: c.notes }))),
     { name: 'casts.json' },
   );
+  zip.append(json({ clearances: patchTests.clearances, tests }), { name: 'patch-tests.json' });
+  zip.append(json(applications), { name: 'applications.json' });
+  zip.append(json(builds), { name: 'appliances.json' });
   zip.append(json(reads.map((r) => ({ at: r.at, who: r.who, what: r.entityType }))), { name: 'health-reads.json' });
   void zip.finalize();
   return zip;
