@@ -4,6 +4,7 @@ import request from 'supertest';
 import type { Actor, Resource } from '#shared/policy.ts';
 import { loadActor } from '../../../api/http/actor.ts';
 import type { TestApp } from '../app.ts';
+import { buildChecksWorld } from './world-checks.ts';
 
 export const WHO = ['admin', 'head', 'lead', 'artist', 'archivist', 'performer', 'norole', 'otherLead'] as const;
 export type Who = (typeof WHO)[number];
@@ -117,6 +118,8 @@ export async function buildWorld(t: TestApp): Promise<World> {
   const bin = await request(t.app).post('/api/archive/locations').set('Cookie', await t.sessionFor(EMAIL.archivist)).send({ parentId: id.shelf, code: 'B99', name: 'Spare bin', level: 'bin' });
   if (bin.status !== 201) throw new Error(`bin: ${bin.status} ${bin.text}`);
   id.emptyBin = bin.body.id;
+
+  await buildChecksWorld(t, id);
 
   const actors = {} as Record<Who, Actor>;
   for (const who of Object.keys(EMAIL) as Who[]) actors[who] = (await loadActor(t.db.db, await t.userId(EMAIL[who])))!.actor;
