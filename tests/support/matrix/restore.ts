@@ -1,8 +1,5 @@
 // Puts the database (and the stored files) back as they were, for tests that let real writes land
 // and must start the next request from the same state.
-import { cp, mkdtemp } from 'node:fs/promises';
-import os from 'node:os';
-import path from 'node:path';
 import type { TestApp } from '../app.ts';
 import { snapshotData } from '../../fixtures/snapshot.ts';
 import { changedTables, type Fingerprint, fingerprint } from '../db-fingerprint.ts';
@@ -18,9 +15,12 @@ export interface Restorable {
 
 export async function restorable(t: TestApp): Promise<Restorable> {
   const restoreRows = await snapshotData(t);
-  // Files too: an allowed removal deletes them, and the rows put back still name them.
-  const files = await mkdtemp(path.join(os.tmpdir(), 'plinth-files-'));
-  await cp(t.config.storageDir, files, { recursive: true });
+  // Files too, from whichever store the app uses (disk or bucket): an allowed removal deletes them, and the rows put back still name them.
+  const files = new Map<string, Buffer>();
+  for await (const key of t.ctx.files.list()) {
+    const bytes = await t.ctx.files.get(key);
+    if (bytes) files.set(key, bytes);
+  }
   const state: Restorable = {
     current: await fingerprint(t.db.pool),
     async changedSinceLast() {
@@ -31,7 +31,9 @@ export async function restorable(t: TestApp): Promise<Restorable> {
     },
     async restore() {
       await restoreRows();
-      await cp(files, t.config.storageDir, { recursive: true, force: false });
+      const present = new Set<string>();
+      for await (const key of t.ctx.files.list()) present.add(key);
+      for (const [key, bytes] of files) if (!present.has(key)) await t.ctx.files.put(key, bytes, 'application/octet-stream');
       state.current = await fingerprint(t.db.pool);
     },
   };

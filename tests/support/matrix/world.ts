@@ -62,7 +62,7 @@ export async function buildWorld(t: TestApp): Promise<World> {
   id.junoMedicalConsent = await one(t, `select c.id from consents c join consent_answers a on a.consent_id = c.id where c.performer_id = $1 and a.medical group by c.id order by c.id limit 1`, [id.juno]);
   id.ozConsent = await one(t, `select id from consents where performer_id = $1 and withdrawn_at is null order by signed_at desc limit 1`, [id.oz]);
   id.template = await one(t, `select id from consent_templates where kind = 'application'`);
-  id.booking = await one(t, `select id from bookings where performer_id = $1`, [id.juno]);
+  id.booking = await one(t, `select id from bookings where performer_id = $1 and purpose <> 'patch_test' and status = 'booked' order by starts_at limit 1`, [id.juno]);
   id.membership = await one(t, `select m.id from memberships m join users u on u.id = m.user_id where u.email = $1 and m.production_id = $2`, [EMAIL.artist, id.lantern]);
   id.product = await one(t, `select id from products where name = 'Harbour Bond silicone adhesive'`);
   id.formulation = await one(t, `select id from product_formulations where product_id = $1 order by version desc limit 1`, [id.product]);
