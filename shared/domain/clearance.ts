@@ -8,7 +8,7 @@
  * answers every formulation asked about.
  */
 import { isPositive, type GradedCode, type IcdrgCode } from './icdrg.ts';
-import { matchesAllergy, sharedNonTrivialIngredients, type DeclaredAllergy, type IngredientRef } from './ingredients.ts';
+import { matchesAllergy, type DeclaredAllergy, type IngredientRef } from './ingredients.ts';
 import type { TestStatus } from './reading-schedule.ts';
 
 /** The five answers Plinth gives about a performer and a product formulation. */
@@ -194,7 +194,8 @@ function reason(code: ClearanceReasonCode): ClearanceReason {
 interface Prepared {
   testsByFormulation: Map<string, TestFacts[]>;
   testedProducts: Set<string>;
-  reacted: FormulationFacts[];
+  /** The formulations that reacted, each with the keys of its non-trivial ingredients. */
+  reacted: { formulationId: string; keys: ReadonlySet<string> }[];
   overrides: Map<string, ClearanceOverride>;
   allergies: readonly DeclaredAllergy[];
   now: Date;
@@ -213,7 +214,8 @@ function prepare(input: PerformerClearanceInput): Prepared {
   for (const f of [...input.testedFormulations, ...input.formulations]) if (!known.has(f.formulationId)) known.set(f.formulationId, f);
   const reacted = [...testsByFormulation]
     .filter(([, facts]) => facts.some((x) => x.positive))
-    .flatMap(([id]) => (known.get(id)?.ingredients?.length ? [known.get(id)!] : []));
+    .flatMap(([id]) => (known.get(id)?.ingredients?.length ? [known.get(id)!] : []))
+    .map((g) => ({ formulationId: g.formulationId, keys: new Set((g.ingredients ?? []).filter((r) => !r.trivial).map((r) => r.key)) }));
   const overrides = new Map<string, ClearanceOverride>();
   for (const o of input.overrides) {
     const prev = overrides.get(o.formulationId);
@@ -236,7 +238,8 @@ function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; re
   const standing = tests.filter((x) => !x.positive && !cleanRuns.some((c) => c.start > x.start));
   const retestAdvised = standing.some((x) => x.finished && x.final === '?+');
   const caution: ClearanceReason[] = [];
-  if (p.reacted.some((g) => g.formulationId !== f.formulationId && sharedNonTrivialIngredients(ingredients, g.ingredients ?? []).length > 0)) {
+  // A shared non-trivial ingredient, each reacted key set built once.
+  if (p.reacted.some((g) => g.formulationId !== f.formulationId && ingredients.some((ing) => !ing.trivial && g.keys.has(ing.key)))) {
     caution.push(reason('shared_ingredient'));
   }
   if (retestAdvised) caution.push(reason('doubtful_final'));
@@ -276,7 +279,7 @@ function clearanceOf(f: FormulationFacts, p: Prepared): ClearanceResult {
   const c = computed(f, p);
   const head = { productId: f.productId, formulationId: f.formulationId, productName: f.productName };
   const o = p.overrides.get(f.formulationId);
-  const readLater = (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.t.readings.some((r) => r.readAt.getTime() > (o?.at.getTime() ?? Infinity)));
+  const readLater = o !== undefined && (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.t.readings.some((r) => r.readAt.getTime() > (o?.at.getTime() ?? Infinity)));
   const ended = o?.expiresAt != null && o.expiresAt.getTime() <= p.now.getTime();
   if (o && !readLater && !ended) {
     return {
