@@ -194,8 +194,8 @@ function reason(code: ClearanceReasonCode): ClearanceReason {
 interface Prepared {
   testsByFormulation: Map<string, TestFacts[]>;
   testedProducts: Set<string>;
-  /** The formulations that reacted, each with the keys of its non-trivial ingredients. */
-  reacted: { formulationId: string; keys: ReadonlySet<string> }[];
+  /** For each non-trivial ingredient key, the formulations that reacted and list it. */
+  reactedByKey: Map<string, Set<string>>;
   overrides: Map<string, ClearanceOverride>;
   allergies: readonly DeclaredAllergy[];
   now: Date;
@@ -214,14 +214,17 @@ function prepare(input: PerformerClearanceInput): Prepared {
   for (const f of [...input.testedFormulations, ...input.formulations]) if (!known.has(f.formulationId)) known.set(f.formulationId, f);
   const reacted = [...testsByFormulation]
     .filter(([, facts]) => facts.some((x) => x.positive))
-    .flatMap(([id]) => (known.get(id)?.ingredients?.length ? [known.get(id)!] : []))
-    .map((g) => ({ formulationId: g.formulationId, keys: new Set((g.ingredients ?? []).filter((r) => !r.trivial).map((r) => r.key)) }));
+    .flatMap(([id]) => (known.get(id)?.ingredients?.length ? [known.get(id)!] : []));
+  const reactedByKey = new Map<string, Set<string>>();
+  for (const g of reacted) {
+    for (const r of g.ingredients ?? []) if (!r.trivial) (reactedByKey.get(r.key) ?? reactedByKey.set(r.key, new Set()).get(r.key)!).add(g.formulationId);
+  }
   const overrides = new Map<string, ClearanceOverride>();
   for (const o of input.overrides) {
     const prev = overrides.get(o.formulationId);
     if (!prev || prev.at.getTime() < o.at.getTime()) overrides.set(o.formulationId, o);
   }
-  return { testsByFormulation, testedProducts, reacted, overrides, allergies: input.declaredAllergies, now: input.now, months: input.validityMonths ?? DEFAULT_VALIDITY_MONTHS };
+  return { testsByFormulation, testedProducts, reactedByKey, overrides, allergies: input.declaredAllergies, now: input.now, months: input.validityMonths ?? DEFAULT_VALIDITY_MONTHS };
 }
 
 function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; reasons: ClearanceReason[]; validUntil: Date | null; retestAdvised: boolean } {
@@ -238,8 +241,12 @@ function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; re
   const standing = tests.filter((x) => !x.positive && !cleanRuns.some((c) => c.start > x.start));
   const retestAdvised = standing.some((x) => x.finished && x.final === '?+');
   const caution: ClearanceReason[] = [];
-  // A shared non-trivial ingredient, each reacted key set built once.
-  if (p.reacted.some((g) => g.formulationId !== f.formulationId && ingredients.some((ing) => !ing.trivial && g.keys.has(ing.key)))) {
+  // A non-trivial ingredient that another formulation which reacted also lists (looked up by key, not pair by pair).
+  const sharesReacted = ingredients.some((ing) => {
+    const by = ing.trivial ? undefined : p.reactedByKey.get(ing.key);
+    return by !== undefined && (by.size > 1 || !by.has(f.formulationId));
+  });
+  if (sharesReacted) {
     caution.push(reason('shared_ingredient'));
   }
   if (retestAdvised) caution.push(reason('doubtful_final'));
