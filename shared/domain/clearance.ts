@@ -8,7 +8,7 @@
  * answers every formulation asked about.
  */
 import { isPositive, type GradedCode, type IcdrgCode } from './icdrg.ts';
-import { matchesAllergy, sharedNonTrivialIngredients, type DeclaredAllergy, type IngredientRef } from './ingredients.ts';
+import { matchesAllergy, type DeclaredAllergy, type IngredientRef } from './ingredients.ts';
 import type { TestStatus } from './reading-schedule.ts';
 
 /** The five answers Plinth gives about a performer and a product formulation. */
@@ -194,7 +194,8 @@ function reason(code: ClearanceReasonCode): ClearanceReason {
 interface Prepared {
   testsByFormulation: Map<string, TestFacts[]>;
   testedProducts: Set<string>;
-  reacted: FormulationFacts[];
+  /** For each non-trivial ingredient key, the formulations that reacted and list it. */
+  reactedByKey: Map<string, Set<string>>;
   overrides: Map<string, ClearanceOverride>;
   allergies: readonly DeclaredAllergy[];
   now: Date;
@@ -214,12 +215,16 @@ function prepare(input: PerformerClearanceInput): Prepared {
   const reacted = [...testsByFormulation]
     .filter(([, facts]) => facts.some((x) => x.positive))
     .flatMap(([id]) => (known.get(id)?.ingredients?.length ? [known.get(id)!] : []));
+  const reactedByKey = new Map<string, Set<string>>();
+  for (const g of reacted) {
+    for (const r of g.ingredients ?? []) if (!r.trivial) (reactedByKey.get(r.key) ?? reactedByKey.set(r.key, new Set()).get(r.key)!).add(g.formulationId);
+  }
   const overrides = new Map<string, ClearanceOverride>();
   for (const o of input.overrides) {
     const prev = overrides.get(o.formulationId);
     if (!prev || prev.at.getTime() < o.at.getTime()) overrides.set(o.formulationId, o);
   }
-  return { testsByFormulation, testedProducts, reacted, overrides, allergies: input.declaredAllergies, now: input.now, months: input.validityMonths ?? DEFAULT_VALIDITY_MONTHS };
+  return { testsByFormulation, testedProducts, reactedByKey, overrides, allergies: input.declaredAllergies, now: input.now, months: input.validityMonths ?? DEFAULT_VALIDITY_MONTHS };
 }
 
 function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; reasons: ClearanceReason[]; validUntil: Date | null; retestAdvised: boolean } {
@@ -236,7 +241,12 @@ function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; re
   const standing = tests.filter((x) => !x.positive && !cleanRuns.some((c) => c.start > x.start));
   const retestAdvised = standing.some((x) => x.finished && x.final === '?+');
   const caution: ClearanceReason[] = [];
-  if (p.reacted.some((g) => g.formulationId !== f.formulationId && sharedNonTrivialIngredients(ingredients, g.ingredients ?? []).length > 0)) {
+  // A non-trivial ingredient that another formulation which reacted also lists (looked up by key, not pair by pair).
+  const sharesReacted = ingredients.some((ing) => {
+    const by = ing.trivial ? undefined : p.reactedByKey.get(ing.key);
+    return by !== undefined && (by.size > 1 || !by.has(f.formulationId));
+  });
+  if (sharesReacted) {
     caution.push(reason('shared_ingredient'));
   }
   if (retestAdvised) caution.push(reason('doubtful_final'));
@@ -276,7 +286,7 @@ function clearanceOf(f: FormulationFacts, p: Prepared): ClearanceResult {
   const c = computed(f, p);
   const head = { productId: f.productId, formulationId: f.formulationId, productName: f.productName };
   const o = p.overrides.get(f.formulationId);
-  const readLater = (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.t.readings.some((r) => r.readAt.getTime() > (o?.at.getTime() ?? Infinity)));
+  const readLater = o !== undefined && (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.t.readings.some((r) => r.readAt.getTime() > (o?.at.getTime() ?? Infinity)));
   const ended = o?.expiresAt != null && o.expiresAt.getTime() <= p.now.getTime();
   if (o && !readLater && !ended) {
     return {

@@ -7,4 +7,4 @@ export { insertIngredients } from './ingredient-repo.ts';
 export { ingredientValues } from './ingredient-service.ts';
 export { writeIngredients } from './service.ts';
 // What the clearance loader reads: current formulations (of some or all products) and the vocabulary.
-export { currentFormulationIds, listVocabulary } from './clearance-repo.ts';
+export { currentFormulationIds, currentFormulationsListing, listVocabulary, listVocabularyWithIds, productsWithCurrentFormulation } from './clearance-repo.ts';

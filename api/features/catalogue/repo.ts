@@ -254,9 +254,14 @@ function onceEach(refs: readonly IngredientRef[]): IngredientRef[] {
   });
 }
 
-function refOf(row: FormulationIngredientRow): IngredientRef {
-  if (row.ingredient) return { key: normaliseInciName(row.ingredient.inci), name: row.name, inci: row.ingredient.inci, group: row.ingredient.group, trivial: row.ingredient.trivial };
-  return { key: normaliseInciName(row.name), name: row.name, inci: null, group: null, trivial: false };
+/** `refOf` with each distinct name normalised once per call (a catalogue repeats a few hundred names thousands of times). */
+function refMaker(): (row: FormulationIngredientRow) => IngredientRef {
+  const keys = new Map<string, string>();
+  const keyOf = (name: string) => keys.get(name) ?? keys.set(name, normaliseInciName(name)).get(name)!;
+  return (row) => {
+    if (row.ingredient) return { key: keyOf(row.ingredient.inci), name: row.name, inci: row.ingredient.inci, group: row.ingredient.group, trivial: row.ingredient.trivial };
+    return { key: keyOf(row.name), name: row.name, inci: null, group: null, trivial: false };
+  };
 }
 
 /**
@@ -274,6 +279,7 @@ export async function loadFormulationsWithIngredients(db: Db, formulationIds: re
     .where('f.id', 'in', ids)
     .execute();
   const rows = await listFormulationIngredients(db, ids);
+  const refOf = refMaker();
   const byId = new Map(
     heads.map((h) => {
       const refs = h.inci_label === null ? null : onceEach((rows.get(h.id) ?? []).map(refOf));

@@ -1,12 +1,12 @@
 import { performerClearance, type ClearanceResult, type FormulationFacts, type TestedProduct } from '#shared/domain/clearance.ts';
 import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.ts';
-import { buildVocabulary } from '#shared/domain/ingredients.ts';
+import { buildVocabulary, type Ingredient } from '#shared/domain/ingredients.ts';
 import { requiredPointIds } from '#shared/domain/protocols.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationIds, listVocabulary, loadFormulationsWithIngredients } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
 import { findProtocolVersions } from '../protocols/index.ts';
-import { listOverrides, listTestedProducts, type TestedProductRow } from './clearance-repo.ts';
+import { listOverrides, listTestedProducts, type OverrideRow, type TestedProductRow } from './clearance-repo.ts';
 
 export interface PerformerClearancesQuery {
   performerId: string;
@@ -46,6 +46,27 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
     ),
     loadFormulationsWithIngredients(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)]),
   ]);
+  return decide({ tested, overrides, answers, vocabulary, protocols, current, facts, now: q.now });
+}
+
+/** A performer's clearance for each product asked for (all products when none are named), from a fixed number of queries. */
+export async function performerClearances(db: Db, q: PerformerClearancesQuery): Promise<ClearanceResult[]> {
+  return (await loadClearanceFacts(db, q)).results;
+}
+
+interface Gathered {
+  tested: TestedProductRow[];
+  overrides: OverrideRow[];
+  answers: string[];
+  vocabulary: Ingredient[];
+  protocols: Awaited<ReturnType<typeof findProtocolVersions>>;
+  current: { productId: string; formulationId: string }[];
+  facts: FormulationFacts[];
+  now: Date;
+}
+
+/** The clearance rule over what was read, in the order of `current`. */
+export function decide({ tested, overrides, answers, vocabulary, protocols, current, facts, now }: Gathered): ClearanceFacts {
   const formulations = new Map(facts.map((f) => [f.formulationId, f]));
   const tests: TestedProduct[] = tested.map((t) => {
     const protocol = protocols.get(t.protocolVersionId)?.protocol;
@@ -67,12 +88,7 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
     tests,
     declaredAllergies: answers.length > 0 ? declaredAllergiesFromAnswers(answers, buildVocabulary(vocabulary)) : [],
     overrides: overrides.map((o) => ({ formulationId: o.formulationId, state: o.state, by: o.by, at: o.at, expiresAt: o.expiresAt, note: '' })),
-    now: q.now,
+    now,
   });
   return { results, tested, formulations };
-}
-
-/** A performer's clearance for each product asked for (all products when none are named), from a fixed number of queries. */
-export async function performerClearances(db: Db, q: PerformerClearancesQuery): Promise<ClearanceResult[]> {
-  return (await loadClearanceFacts(db, q)).results;
 }

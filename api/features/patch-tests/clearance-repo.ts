@@ -100,3 +100,25 @@ export async function listOverrides(db: Db, performerId: string): Promise<Overri
     expiresAt: r.expires_at ? new Date(r.expires_at) : null,
   }));
 }
+
+/** Whether a formulation can be overridden for this performer: some product's current one, or one tested on them. One query. */
+export async function formulationKnownFor(db: Db, q: { performerId: string; formulationId: string }): Promise<boolean> {
+  const row = await db
+    .selectNoFrom((eb) => [
+      eb
+        .or([
+          eb.exists(eb.selectFrom('products').select('id').where('current_formulation_id', '=', q.formulationId)),
+          eb.exists(
+            eb
+              .selectFrom('patch_test_products as tp')
+              .innerJoin('patch_tests as t', 't.booking_id', 'tp.test_id')
+              .select('tp.id')
+              .where('tp.formulation_id', '=', q.formulationId)
+              .where('t.performer_id', '=', q.performerId),
+          ),
+        ])
+        .as('known'),
+    ])
+    .executeTakeFirstOrThrow();
+  return row.known === true;
+}

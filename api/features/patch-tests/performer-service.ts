@@ -7,7 +7,8 @@ import { recordEvent, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { invalid, notFound } from '../../http/errors.ts';
 import { findPerformerScope } from '../performers/index.ts';
-import { loadClearanceFacts } from './clearance-loader.ts';
+import { formulationKnownFor } from './clearance-repo.ts';
+import { loadTableFacts } from './clearance-scope.ts';
 import { insertOverride, listOverrideNotes, listTestRows } from './repo.ts';
 import { renderSummaryPdf } from './summary-pdf.ts';
 import { listTestSummaries, testDetail } from './view.ts';
@@ -33,10 +34,13 @@ export async function performerPatchTests(ctx: AppContext, actor: Actor, perform
   const now = new Date();
   const [tests, facts, notes] = await Promise.all([
     listTestSummaries(ctx.db, { performerId, productionIds: visible }),
-    loadClearanceFacts(ctx.db, { performerId, now }),
+    loadTableFacts(ctx.db, { performerId, now }),
     medical ? listOverrideNotes(ctx.db, performerId) : Promise.resolve(null),
   ]);
   const tested = new Set(facts.tested.map((t) => t.formulationId));
+  // The latest tested product with readings per formulation, found once rather than once per row.
+  const latestRead = new Map<string, (typeof facts.tested)[number]>();
+  for (const t of facts.tested) if (t.readings.length > 0) latestRead.set(t.formulationId, t);
   const clearances: ClearanceRow[] = facts.results
     // A table of what matters for this performer: products tested, or answered by something other than "not tested".
     .filter((r) => tested.has(r.formulationId) || r.overridden || r.reasons[0]?.code !== 'not_tested' || r.state !== 'untested')
@@ -54,7 +58,7 @@ export async function performerPatchTests(ctx: AppContext, actor: Actor, perform
         computedState: r.computedState,
       };
       if (medical) {
-        const latest = facts.tested.filter((t) => t.formulationId === r.formulationId && t.readings.length > 0).at(-1);
+        const latest = latestRead.get(r.formulationId);
         if (latest) {
           const o = productOutcome(latest.readings);
           row.outcome = { strongest: o.strongest, final: o.final, pattern: o.pattern };
@@ -82,8 +86,7 @@ export async function overrideClearance(ctx: AppContext, actor: Actor, performer
   authorize(actor, 'clearance.override', { performerId, productionId: productionId ?? scope.productionIds[0] ?? null });
   const expiresAt = input.expiresAt ? new Date(input.expiresAt) : null;
   if (expiresAt && expiresAt.getTime() <= Date.now()) throw invalid({ expiresAt: ['Choose an end date that has not passed'] });
-  const known = await loadClearanceFacts(ctx.db, { performerId, now: new Date() });
-  if (!known.formulations.has(input.formulationId)) throw invalid({ formulationId: ['That product formulation is not in the catalogue.'] });
+  if (!(await formulationKnownFor(ctx.db, { performerId, formulationId: input.formulationId }))) throw invalid({ formulationId: ['That product formulation is not in the catalogue.'] });
   await ctx.db.transaction().execute(async (trx) => {
     const id = await insertOverride(trx, { performerId, productionId: productionId!, formulationId: input.formulationId, state: input.state, note: input.note, expiresAt, setBy: actor.userId });
     await writeAudit(trx, { actorUserId: actor.userId, action: 'clearance.override', performerId, entityType: 'clearance_override', entityId: id, productionId, req, details: { formulationId: input.formulationId, state: input.state } });
