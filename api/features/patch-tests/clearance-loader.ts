@@ -46,7 +46,7 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
     ),
     loadFormulationsWithIngredients(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)]),
   ]);
-  return decide({ tested, overrides, answers, vocabulary, protocols, current, facts, now: q.now });
+  return decide({ tested, overrides, answers, vocabulary, protocols, current, facts, extraFormulationIds: q.formulationIds, now: q.now });
 }
 
 /** A performer's clearance for each product asked for (all products when none are named), from a fixed number of queries. */
@@ -62,11 +62,13 @@ interface Gathered {
   protocols: Awaited<ReturnType<typeof findProtocolVersions>>;
   current: { productId: string; formulationId: string }[];
   facts: FormulationFacts[];
+  /** Formulations asked for beyond the current ones (the exact formulation an appliance piece was made with). */
+  extraFormulationIds?: readonly string[];
   now: Date;
 }
 
 /** The clearance rule over what was read, in the order of `current`. */
-export function decide({ tested, overrides, answers, vocabulary, protocols, current, facts, now }: Gathered): ClearanceFacts {
+export function decide({ tested, overrides, answers, vocabulary, protocols, current, facts, extraFormulationIds = [], now }: Gathered): ClearanceFacts {
   const formulations = new Map(facts.map((f) => [f.formulationId, f]));
   const tests: TestedProduct[] = tested.map((t) => {
     const protocol = protocols.get(t.protocolVersionId)?.protocol;
@@ -83,7 +85,7 @@ export function decide({ tested, overrides, answers, vocabulary, protocols, curr
   });
   const testedIds = new Set(tested.map((t) => t.formulationId));
   const results = performerClearance({
-    formulations: [...new Set([...current.map((c) => c.formulationId), ...(q.formulationIds ?? [])])].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
+    formulations: [...new Set([...current.map((c) => c.formulationId), ...extraFormulationIds])].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     testedFormulations: [...testedIds].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     tests,
     declaredAllergies: answers.length > 0 ? declaredAllergiesFromAnswers(answers, buildVocabulary(vocabulary)) : [],
