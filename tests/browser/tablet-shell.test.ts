@@ -61,7 +61,7 @@ describe('homes offer the next step', () => {
 });
 
 describe('the performer page leads with what staff act on', () => {
-  it('name, character and production, the consent summary, the clearance placeholder and an index of sections', async () => {
+  it('name, character and production, the consent summary, the clearance table and an index of sections', async () => {
     await withPage(TABLET_PORTRAIT, async (page) => {
       await signInThroughIdp(page, appUrl, 'lead@plinth.test', DEMO_PASSWORD);
       await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor();
@@ -72,9 +72,10 @@ describe('the performer page leads with what staff act on', () => {
       const summary = page.getByTestId('consent-summary');
       expect(await summary.textContent()).toContain('Consents on The Lantern Keeper');
       expect(await summary.getByTestId('summary-in-force').textContent()).toMatch(/^In force: /);
-      const placeholder = page.getByTestId('clearances-section').getByTestId('clearance-placeholder');
-      expect(await placeholder.textContent()).toContain('Clearances are not yet recorded in Plinth');
-      expect(await placeholder.getByTestId('clearance-state').textContent()).toBe('Untested');
+      // The patch-test log fills the clearances section: the screening label and a clearance per product.
+      const clearances = page.getByTestId('patch-tests-section');
+      await clearances.getByTestId('clearance-table').waitFor();
+      expect(await clearances.getByTestId('screening-label').textContent()).toContain('Screening, not diagnosis');
 
       // The summary sits above the sections, and the sections come in the order staff act on them.
       const top = async (testId: string) => (await page.getByTestId(testId).boundingBox())!.y;

@@ -49,7 +49,7 @@ export async function sessionInvitationMails(ctx: Pick<AppContext, 'db' | 'confi
     attendees,
     stamp: new Date(),
   });
-  const subject = kind === 'cancel' ? `Cancelled: ${what}, ${when}` : kind === 'update' ? `Moved: ${what}, now ${when}` : `Invitation: ${what}, ${when}`;
+  const subject = `${kind === 'cancel' ? `Cancelled: ${what}, ${when}` : kind === 'update' ? `Moved: ${what}, now ${when}` : `Invitation: ${what}, ${when}`} (${b.productionName})`;
   const lines = [
     kind === 'cancel' ? `The ${what.toLowerCase()} session below has been cancelled.` : kind === 'update' ? `The ${what.toLowerCase()} session has a new time or place.` : `You are invited to a ${what.toLowerCase()} session.`,
     '',

@@ -6,11 +6,13 @@ import { concretePath } from '../routes.ts';
 import { rawBody } from '../medical-detectors.ts';
 import { adminEntries } from './entries-admin.ts';
 import { checksEntries } from './entries-checks.ts';
+import { consentWorkEntries } from './entries-consent-work.ts';
+import { patchTestEntries } from './entries-patch-tests.ts';
 import { peopleEntries } from './entries-people.ts';
 import { stockEntries } from './entries-stock.ts';
 import { type Input, type RouteEntry, keyOf } from './entry.ts';
 
-export const ROUTE_ENTRIES: Record<string, RouteEntry> = { ...adminEntries, ...checksEntries, ...peopleEntries, ...stockEntries };
+export const ROUTE_ENTRIES: Record<string, RouteEntry> = { ...adminEntries, ...checksEntries, ...peopleEntries, ...consentWorkEntries, ...patchTestEntries, ...stockEntries };
 
 export const MISSING_ENTRY = (key: string) => `${key} has no entry: add one (its policy question and a valid request) to tests/support/matrix/entries-*.ts`;
 

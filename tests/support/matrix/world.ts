@@ -62,6 +62,7 @@ export async function buildWorld(t: TestApp): Promise<World> {
   id.junoMedicalConsent = await one(t, `select c.id from consents c join consent_answers a on a.consent_id = c.id where c.performer_id = $1 and a.medical group by c.id order by c.id limit 1`, [id.juno]);
   id.ozConsent = await one(t, `select id from consents where performer_id = $1 and withdrawn_at is null order by signed_at desc limit 1`, [id.oz]);
   id.template = await one(t, `select id from consent_templates where kind = 'application'`);
+  // A session of her own (patch tests are sessions too, but they move and end from their own page).
   id.booking = await one(t, `select id from bookings where performer_id = $1 and purpose <> 'patch_test' and status = 'booked' order by starts_at limit 1`, [id.juno]);
   id.membership = await one(t, `select m.id from memberships m join users u on u.id = m.user_id where u.email = $1 and m.production_id = $2`, [EMAIL.artist, id.lantern]);
   id.product = await one(t, `select id from products where name = 'Harbour Bond silicone adhesive'`);
@@ -120,6 +121,33 @@ export async function buildWorld(t: TestApp): Promise<World> {
   id.emptyBin = bin.body.id;
 
   await buildChecksWorld(t, id);
+  // Patch tests at each stage: Juno's, under reading (applied yesterday, its 24-hour reading due) and
+  // closed (with readings), one booked here for her, and Tamsin's occluded one whose patches are still on.
+  id.ptApplied = await one(t, `select booking_id as id from patch_tests where performer_id = $1 and status = 'applied'`, [id.juno]);
+  id.ptAppliedSite = await one(t, `select id from patch_test_products where test_id = $1 order by position limit 1`, [id.ptApplied]);
+  id.ptClosed = await one(t, `select booking_id as id from patch_tests where performer_id = $1 and status = 'closed' order by applied_at limit 1`, [id.juno]);
+  id.ptReading = await one(t, `select r.id from patch_test_readings r join patch_test_products p on p.id = r.test_product_id where p.test_id = $1 order by p.position, r.point_id limit 1`, [id.ptClosed]);
+  id.ptCovered = await one(
+    t,
+    `update patch_tests set removed_at = null where performer_id = (select id from performers where legal_name = 'Tamsin Achebe-Lowry') and status = 'applied' returning booking_id as id`,
+  );
+  const testLot = await pool.query<{ id: string; product_id: string }>(`select id, product_id from product_lots where code = 'MS-2604'`);
+  id.ptLot = testLot.rows[0]!.id;
+  id.ptProduct = testLot.rows[0]!.product_id;
+  const lead = await t.sessionFor(EMAIL.lead);
+  const booked = await request(t.app)
+    .post('/api/patch-tests')
+    .set('Cookie', head)
+    .send({ performerId: id.juno, productionId: id.lantern, protocolId: 'department-use', startsAt: new Date(Date.now() + 14 * 86_400_000).toISOString(), location: 'Make-up room 1', products: [{ productId: id.ptProduct, lotId: id.ptLot, site: 'Left inner forearm 4' }] });
+  if (booked.status !== 201) throw new Error(`patch test: ${booked.status} ${booked.text}`);
+  id.ptBooked = booked.body.id;
+  const readingPhoto = await request(t.app).post(`/api/patch-tests/${id.ptClosed}/readings/${id.ptReading}/photos`).set('Cookie', lead).attach('photo', await cameraJpeg(), 'site.jpg');
+  if (readingPhoto.status !== 201) throw new Error(`reading photo: ${readingPhoto.status} ${readingPhoto.text}`);
+  id.ptPhoto = await one(t, `select id from patch_test_photos where reading_id = $1`, [id.ptReading]);
+  // Forms to sign one after another on the tablet.
+  const bundle = await request(t.app).post('/api/signing-bundles').set('Cookie', head).send({ performerId: id.oz, productionId: id.lantern, templateIds: [id.template], mode: 'tablet' });
+  if (bundle.status !== 201) throw new Error(`signing bundle: ${bundle.status} ${bundle.text}`);
+  id.bundle = bundle.body.id;
 
   const actors = {} as Record<Who, Actor>;
   for (const who of Object.keys(EMAIL) as Who[]) actors[who] = (await loadActor(t.db.db, await t.userId(EMAIL[who])))!.actor;
