@@ -71,7 +71,9 @@ describe('booking a patch test (head, landscape tablet)', () => {
       await expect.poll(async () => lots.locator('option', { hasText: 'HB-2411' }).count()).toBe(1);
       expect(await lots.locator('option', { hasText: 'HB-2411' }).textContent()).toContain('expired');
       expect(await lots.locator('option', { hasText: 'HB-2411' }).isDisabled()).toBe(true);
-      await choose(lots, /HB-2603/);
+      // Juno's Day 12 kit (the artist's check test) holds Harbour Bond: test another product, so that check's answer stays as seeded.
+      await choose(form.getByLabel('Product 2', { exact: true }), /Gull grey pigment powder/);
+      await choose(form.getByLabel('Lot of product 2'), /GG-2601/);
       await choose(form.getByLabel('Site of product 2'), /Upper back, right 5/);
       await noSidewaysScroll(page, 'booking form');
       await form.getByRole('button', { name: 'Book the test' }).click();
