@@ -35,6 +35,9 @@ export interface AxeViolation {
 
 /** Runs axe-core in the page; fails on any serious or critical violation, naming each. */
 export async function expectAccessible(page: Page, label: string): Promise<void> {
+  // Colours read mid-transition (a button just pressed fades to its new colour) are neither the old nor
+  // the new pair: let running CSS transitions finish first, so contrast is judged on what stays on screen.
+  await page.waitForFunction(() => document.getAnimations().every((a) => !(a instanceof CSSTransition) || a.playState !== 'running'), undefined, { timeout: 5_000 });
   // Evaluated through the debugging protocol, so the page's own CSP (which forbids inline scripts) stays on.
   await page.evaluate(AXE_SOURCE);
   const violations = await page.evaluate(async () => {
