@@ -1,6 +1,4 @@
-import { readdir, readFile } from 'node:fs/promises';
-import path from 'node:path';
-import { simpleParser } from 'mailparser';
+import { latestMail as caughtMail } from '../support/caught-mail.ts';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDb, type DbHandle } from '../../api/db/index.ts';
@@ -69,17 +67,8 @@ async function agreeAndSign(page: Page, name: string) {
   await page.getByRole('button', { name: 'Sign and submit' }).click();
 }
 
-async function latestMail(to: string, subject: RegExp): Promise<string> {
-  for (let attempt = 0; attempt < 50; attempt++) {
-    const files = (await readdir(mailDir)).filter((f) => f.endsWith('.eml')).sort().toReversed();
-    for (const f of files) {
-      const mail = await simpleParser(await readFile(path.join(mailDir, f)));
-      const recipients = [mail.to ?? []].flat().flatMap((a) => a.value.map((v) => v.address));
-      if (recipients.includes(to) && subject.test(mail.subject ?? '')) return mail.text ?? '';
-    }
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  throw new Error(`no e-mail to ${to} matching ${subject}`);
+function latestMail(to: string, subject: RegExp): Promise<string> {
+  return caughtMail(mailDir, to, subject);
 }
 
 describe('an onboarding bundle', () => {
