@@ -40,7 +40,7 @@ export function PatchTestPage() {
                 <StatusBadge tone={test.status === 'applied' ? 'accent' : 'neutral'}>{TEST_STATUS_LABELS[test.status]}</StatusBadge>
                 {test.consentMissing ? <StatusBadge tone="warning">Needs consent</StatusBadge> : null}
                 <span>
-                  {test.protocolName} ({TEST_KIND_LABELS[test.testKind]}), {formatDateTime(test.startsAt)}
+                  {test.protocolName}{test.protocolName === TEST_KIND_LABELS[test.testKind] ? '' : ` (${TEST_KIND_LABELS[test.testKind]})`}, {formatDateTime(test.startsAt)}
                   {test.location ? `, ${test.location}` : ''}
                 </span>
               </span>
