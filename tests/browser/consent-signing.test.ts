@@ -5,7 +5,8 @@ import { expectAccessible, launchBrowser, signInThroughIdp, TABLET_LANDSCAPE, TA
 
 // The demo database is shared by every browser test file. These tests use records no other test
 // touches: Halvard Imre Solberg (no consents at the start) for signing, and Juno Castellane's
-// application consent for withdrawing.
+// life-casting consent for withdrawing (her application consent stays: the artist's check test logs an
+// application for her, and the files share one database in whatever order they run).
 const appUrl = inject('appUrl');
 let browser: Browser;
 
@@ -181,7 +182,7 @@ describe('signing a consent on the department’s tablet', () => {
 });
 
 describe('withdrawing a consent as the performer', () => {
-  it('Juno opens “My record” and withdraws her application consent in two taps', async () => {
+  it('Juno opens “My record” and withdraws her life-casting consent in two taps', async () => {
     const context = await tabletContext(browser, TABLET_PORTRAIT);
     const page = await context.newPage();
     try {
@@ -190,8 +191,8 @@ describe('withdrawing a consent as the performer', () => {
       await nav.getByRole('link', { name: 'My record' }).click();
       expect(await nav.getByRole('link', { name: 'Performers', exact: true }).count()).toBe(0);
       await page.getByRole('heading', { level: 1, name: 'Juno Castellane' }).waitFor();
-      await page.locator('[data-testid="consent-link"][data-kind="application"]').click();
-      await page.getByRole('heading', { level: 1, name: 'Consent to prosthetic and make-up application' }).waitFor();
+      await page.locator('[data-testid="consent-link"][data-kind="life_casting"]').click();
+      await page.getByRole('heading', { level: 1, name: 'Consent to a life cast' }).waitFor();
       expect(await page.getByTestId('consent-record').getByTestId('consent-state').textContent()).toContain('Active');
       await expectAccessible(page, 'consent page');
 
@@ -199,7 +200,7 @@ describe('withdrawing a consent as the performer', () => {
       await page.getByRole('button', { name: 'Withdraw this consent' }).click();
       taps++;
       const dialog = page.getByRole('dialog', { name: 'Withdraw this consent?' });
-      expect(await dialog.getByTestId('withdraw-consequences').textContent()).toContain('No make-up or prosthetic application can be logged for you');
+      expect(await dialog.getByTestId('withdraw-consequences').textContent()).toContain('No new life cast can be taken of you');
       await expectAccessible(page, 'withdraw dialog');
       await dialog.getByRole('button', { name: 'Withdraw consent' }).click();
       taps++;
