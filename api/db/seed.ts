@@ -142,6 +142,8 @@ export async function seedDemo(db: Db, opts: { files?: FileStore } = {}): Promis
 }
 
 const DAY = 86_400_000;
+/** The demo studio's clock (the TIME_ZONE default), for the signing times printed on the demo consents. */
+const DEMO_TIME_ZONE = 'Europe/London';
 
 /** A drawn-looking signature for demo records. */
 async function demoSignature(seed: number): Promise<Buffer> {
@@ -201,6 +203,7 @@ async function seedDemoConsents(db: Db, files: FileStore): Promise<void> {
       signerName: item.performer,
       signaturePng: await demoSignature(n++),
       signedAt: new Date(now - item.daysAgo * DAY),
+      timeZone: DEMO_TIME_ZONE,
       signingMethod: 'tablet',
       ip: '127.0.0.1',
       userAgent: 'Plinth demo data',

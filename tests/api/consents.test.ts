@@ -146,7 +146,11 @@ describe('signing through a one-time link', () => {
     expect(flat).toContain('not a medical diagnosis');
     expect(flat).toContain(PATCH_ANSWERS.known_allergies);
     expect(flat).toContain('Printed name: Halvard Imre Solberg');
-    expect(flat).toContain(consent.signed_at instanceof Date ? consent.signed_at.toISOString() : new Date(consent.signed_at).toISOString());
+    const signedAt = new Date(consent.signed_at);
+    expect(flat).toContain(signedAt.toISOString());
+    // The same moment in words on the studio's clock; Intl.DateTimeFormat (an independent formatter) gives each part.
+    const part = (o: Intl.DateTimeFormatOptions) => new Intl.DateTimeFormat('en-GB', { timeZone: t.config.timeZone, ...o }).format(signedAt);
+    expect(flat).toContain(`Signed: ${part({ weekday: 'long' })} ${part({ day: 'numeric' })} ${part({ month: 'long' })} ${part({ year: 'numeric' })} at ${part({ hour: '2-digit', minute: '2-digit', hourCycle: 'h23' })}`);
     expect(parsed.text.replace(/\s+/g, '')).toContain(consent.content_sha256);
     expect(consent.content_sha256).toMatch(/^[0-9a-f]{64}$/);
 

@@ -2,6 +2,7 @@ import { createRequire } from 'node:module';
 import { marked, type Token, type Tokens } from 'marked';
 import PDFDocument from 'pdfkit';
 import { CONSENT_KIND_LABELS, type ConsentKind } from '#shared/domain/consent.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 
 const require = createRequire(import.meta.url);
 const FONT_REGULAR = require.resolve('@fontsource/nunito-sans/files/nunito-sans-latin-400-normal.woff');
@@ -18,6 +19,8 @@ export interface ConsentDocument {
   answers: { label: string; answer: string; medical: boolean }[];
   signerName: string;
   signedAt: Date;
+  /** The studio's clock, for the signing time in words beside the UTC record. */
+  timeZone: string;
   signingMethod: 'tablet' | 'link';
   ip: string | null;
   userAgent: string | null;
@@ -104,7 +107,7 @@ export function renderConsentPdf(doc: ConsentDocument): Promise<Buffer> {
     pdf.image(doc.signaturePng, { fit: [320, 120] });
     pdf.moveDown(0.5);
     pdf.fontSize(9).fillColor('#4a3f38');
-    pdf.text(`Signed: ${doc.signedAt.toISOString()} (UTC, server time)`);
+    pdf.text(`Signed: ${mailDateTime(doc.signedAt, doc.timeZone)} (recorded as ${doc.signedAt.toISOString()} UTC, server time)`);
     pdf.text(`Method: ${doc.signingMethod === 'tablet' ? "on the department's tablet" : 'through a one-time link on the performer\'s own device'}`);
     pdf.text(`IP address: ${doc.ip ?? 'not recorded'}`);
     pdf.text(`Device: ${doc.userAgent ?? 'not recorded'}`);

@@ -29,6 +29,8 @@ export interface SignedConsentParams {
   signerName: string;
   signaturePng: Buffer;
   signedAt: Date;
+  /** The studio's clock (TIME_ZONE), for the signing time written in words on the PDF. */
+  timeZone: string;
   signingMethod: 'tablet' | 'link';
   ip: string | null;
   userAgent: string | null;
@@ -80,6 +82,7 @@ export async function writeSignedConsent(db: Db, store: FileStore, p: SignedCons
     answers: p.template.questions.map((q) => ({ label: q.label, answer: formatAnswer(q, p.answers[q.id]), medical: isMedicalAnswer(p.template.kind, q.medical) })),
     signerName: p.signerName,
     signedAt: p.signedAt,
+    timeZone: p.timeZone,
     signingMethod: p.signingMethod,
     ip: p.ip,
     userAgent: p.userAgent,
@@ -199,6 +202,7 @@ export async function submitSignature(
       signerName: input.signerName,
       signaturePng: signature.png,
       signedAt,
+      timeZone: ctx.config.timeZone,
       signingMethod: meta.method,
       ip: meta.ip,
       userAgent: meta.userAgent,

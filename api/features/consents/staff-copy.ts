@@ -48,6 +48,7 @@ export async function staffCopyPdf(ctx: AppContext, actor: Actor, id: string, re
     answers,
     signerName: row.signer_name,
     signedAt: new Date(row.signed_at),
+    timeZone: ctx.config.timeZone,
     signingMethod: row.signing_method,
     ip: row.ip,
     userAgent: row.user_agent,
