@@ -1,4 +1,4 @@
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import Color from 'color';
 import { describe, expect, it } from 'vitest';
@@ -47,7 +47,7 @@ function ratio(fg: string, bg: string): number {
 /** Text colour on background, as the screens pair them. */
 const TEXT_PAIRS: [fg: string, bg: string][] = [
   // body text, secondary text and hints on every surface
-  ...['graphite-900', 'graphite-700', 'graphite-600'].flatMap((fg) => ['white', 'plaster-50', 'plaster-100'].map((bg) => [fg, bg] as [string, string])),
+  ...['graphite-900', 'graphite-800', 'graphite-700', 'graphite-600'].flatMap((fg) => ['white', 'plaster-50', 'plaster-100'].map((bg) => [fg, bg] as [string, string])),
   ['graphite-900', 'plaster-200'],
   // links and quiet buttons
   ['verdigris-800', 'white'],
@@ -130,5 +130,28 @@ describe('states are told apart by word and shape as well as colour', () => {
     expect(new Set(states.map((s) => CONSENT_STATE_LABELS[s])).size).toBe(states.length);
     expect(new Set(states.map((s) => CONSENT_STATE_LOOK[s].icon)).size).toBe(states.length);
     expect(new Set(states.map((s) => CONSENT_STATE_LOOK[s].tone)).size).toBe(states.length);
+  });
+});
+
+describe('every colour the screens name is in the palette', () => {
+  const appDir = path.resolve(import.meta.dirname, '../../../app');
+  const sources = (readdirSync(appDir, { recursive: true, withFileTypes: true }) as import('node:fs').Dirent[])
+    .filter((d) => d.isFile() && /\.tsx?$/.test(d.name))
+    .map((d) => path.join(d.parentPath, d.name));
+  const used = new Map<string, string>();
+  for (const file of sources) {
+    const text = readFileSync(file, 'utf8');
+    for (const m of text.matchAll(/\b(?:bg|text|border(?:-[trblxy])?|ring|outline|divide|fill|stroke|decoration|placeholder|accent|from|to|via)-([a-z]+-\d{2,3})\b/g)) {
+      if (!used.has(m[1]!)) used.set(m[1]!, path.relative(appDir, file));
+    }
+  }
+
+  it('finds the screens’ colour classes', () => {
+    // A guard on the scan itself: the shell's body text colour is among them.
+    expect(used.has('ink-900') || used.has('graphite-900')).toBe(true);
+  });
+
+  it.each([...used])('%s (first used in %s) is a token of app/styles.css', (name) => {
+    expect(colours.has(name), `--color-${name}`).toBe(true);
   });
 });

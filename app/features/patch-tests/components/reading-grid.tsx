@@ -73,7 +73,7 @@ export function ReadingGrid({ test }: { test: PatchTestDetail }) {
                   <label
                     key={code}
                     title={ICDRG_DESCRIPTIONS[code]}
-                    className="flex min-h-14 min-w-14 cursor-pointer flex-col items-center justify-center rounded-lg border-2 border-sand-400 bg-white px-2 text-lg font-bold text-ink-900 not-has-checked:hover:bg-sand-100 has-checked:border-clay-800 has-checked:bg-clay-800 has-checked:text-white has-focus-visible:outline-3 has-focus-visible:outline-offset-2 has-focus-visible:outline-clay-700"
+                    className="flex min-h-14 min-w-14 cursor-pointer flex-col items-center justify-center rounded-lg border-2 border-graphite-500 bg-white px-2 text-lg font-bold text-ink-900 not-has-checked:hover:bg-sand-100 has-checked:border-clay-800 has-checked:bg-clay-800 has-checked:text-white has-focus-visible:outline-3 has-focus-visible:outline-offset-2 has-focus-visible:outline-clay-700"
                   >
                     <input type="radio" name={`code-${s.id}`} value={code} checked={codes[s.id] === code} onChange={() => setCodes((c) => ({ ...c, [s.id]: code }))} className="sr-only" />
                     {code}
