@@ -152,6 +152,8 @@ export interface RequestRow {
   stateAtRequest: 'caution' | 'do_not_use';
   requestedAt: Date;
   requestedByName: string | null;
+  /** Where the artist who asked is told that the lead has answered. */
+  requestedByEmail: string | null;
   status: LeadRequestStatus;
   decidedAt: Date | null;
   decidedByName: string | null;
@@ -182,6 +184,7 @@ function requestQuery(db: Db) {
       'r.state_at_request',
       'r.requested_at',
       'rq.display_name as requested_by_name',
+      'rq.email as requested_by_email',
       'r.status',
       'r.decided_at',
       'dc.display_name as decided_by_name',
@@ -205,6 +208,7 @@ function toRequest(r: RequestSelected): RequestRow {
     stateAtRequest: r.state_at_request,
     requestedAt: new Date(r.requested_at),
     requestedByName: r.requested_by_name ?? null,
+    requestedByEmail: r.requested_by_email ?? null,
     status: r.status,
     decidedAt: r.decided_at ? new Date(r.decided_at) : null,
     decidedByName: r.decided_by_name ?? null,

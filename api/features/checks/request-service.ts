@@ -108,6 +108,17 @@ export async function decide(ctx: AppContext, actor: Actor, id: string, input: L
     }
     await writeAudit(trx, { actorUserId: actor.userId, action: 'lead_request.decide', entityType: 'lead_request', entityId: id, productionId: r.productionId, performerId: r.performerId, req, details: { decision: input.decision } });
   });
-  const fresh = await findRequest(ctx.db, id);
-  return view(fresh!, true);
+  const fresh = (await findRequest(ctx.db, id))!;
+  // The artist who asked is told there is an answer; like the lead's message, it carries a link only.
+  if (fresh.requestedByEmail) {
+    const productionName = await findProductionName(ctx.db, r.productionId);
+    await deliverAll(ctx, [
+      {
+        to: fresh.requestedByEmail,
+        subject: 'Plinth: the designated lead has answered your question',
+        text: `Hello ${fresh.requestedByName ?? ''},\n\nThe designated lead on ${productionName ?? 'your production'} has answered a question you asked before an application.\n\nOpen the check in Plinth: ${ctx.config.appOrigin}/check?checkId=${encodeURIComponent(fresh.checkId)}\n\nThis message carries no health details; they are in Plinth only.`,
+      },
+    ]);
+  }
+  return view(fresh, true);
 }

@@ -1,4 +1,5 @@
 import { Kysely, PostgresDialect } from 'kysely';
+import { simpleParser } from 'mailparser';
 import type { Request } from 'express';
 import { describe, expect, it } from 'vitest';
 import { CheckSchema, LeadRequestSchema } from '#shared/schemas/checks.ts';
@@ -127,6 +128,14 @@ describe('asking the lead', () => {
     const decided = await api().post(`/api/lead-requests/${requestId}/decision`).set('Cookie', as.lead).send({ decision: 'approved', note: 'Small area only, along the jaw', version: 1 });
     expect(decided.status).toBe(200);
     expect(LeadRequestSchema.parse(decided.body).status).toBe('approved');
+    // The artist who asked is mailed that there is an answer: a link to the check, no health detail.
+    const mailed = await caughtMail();
+    expect(mailed).toHaveLength(2);
+    const answered = await simpleParser(mailed[1]!);
+    expect(answered.to && !Array.isArray(answered.to) ? answered.to.value.map((v) => v.address) : []).toEqual(['artist@plinth.test']);
+    expect(answered.subject).toBe('Plinth: the designated lead has answered your question');
+    expect(answered.text).toContain(`/check?checkId=${check.id}`);
+    for (const detail of [HARBOUR, 'Juno', 'Small area only', 'approved', 'Caution']) expect(answered.text).not.toContain(detail);
     const twice = await api().post(`/api/lead-requests/${requestId}/decision`).set('Cookie', as.lead).send({ decision: 'refused', note: 'changed my mind', version: 2 });
     expect(twice.status).toBe(409);
 
