@@ -105,12 +105,14 @@ describe('Do not use', () => {
     expect(r.state).toBe('do_not_use');
   });
   it('follows a declared allergy to an ingredient, with no test at all', () => {
+    // common practice, no published source: a declared allergy to an ingredient means Do not use, tested or not
     const allergy: DeclaredAllergy = { kind: 'ingredient', key: 'colophonium', name: 'Colophonium' };
     const r = one({ formulations: [R], declaredAllergies: [allergy] });
     expect(r.state).toBe('do_not_use');
     expect(codes(r)).toEqual(['declared_allergy']);
   });
   it('follows a declared allergy to a whole group', () => {
+    // common practice, no published source: an allergy declared to a group (e.g. acrylates) covers each of its ingredients
     expect(one({ formulations: [R], declaredAllergies: [{ kind: 'group', group: 'fragrance' }] }).state).toBe('do_not_use');
     expect(one({ formulations: [C], declaredAllergies: [{ kind: 'group', group: 'fragrance' }] }).state).toBe('untested');
   });
@@ -149,6 +151,7 @@ describe('Caution', () => {
     expect(r.retestAdvised).toBe(false);
   });
   it('follows a non-trivial ingredient shared with a product that reacted', () => {
+    // common practice, no published source: a shared non-trivial ingredient with a + or stronger product is a Caution
     const [b, c] = run({ formulations: [B, C], testedFormulations: [A], tests: [tested('fa', 'pa', { d2: '+', d4: '++' })] });
     expect(b!.state).toBe('caution');
     expect(codes(b!)).toEqual(['shared_ingredient', 'not_tested']);
@@ -156,6 +159,7 @@ describe('Caution', () => {
     expect(c!.state).toBe('untested');
   });
   it('overrides a clear test of its own when another product that reacted shares an ingredient', () => {
+    // common practice, no published source: the shared-ingredient warning stands over the product's own clear test
     const r = one({ formulations: [B], testedFormulations: [A], tests: [tested('fb', 'pb', { d2: '-', d4: '-' }), tested('fa', 'pa', { d2: '+', d4: '+' })] });
     expect(r.state).toBe('caution');
     expect(r.validUntil).toBeNull();
@@ -169,11 +173,13 @@ describe('Caution', () => {
 
 describe('Pending', () => {
   it('holds while required readings are outstanding', () => {
+    // Contact Dermatitis 1991;24:119-22 and the IVDK figures: readings after D2 find reactions D2 missed, so nothing clears before the last required reading
     const r = one({ tests: [tested('fa', 'pa', { d2: '-' })] });
     expect(r.state).toBe('pending');
     expect(codes(r)).toEqual(['readings_outstanding']);
   });
   it('holds for a booked test not yet applied', () => {
+    // common practice, no published source: a booked test is Pending, not Untested, so nobody applies the product meanwhile
     const r = one({ tests: [tested('fa', 'pa', {}, { status: 'booked', appliedAt: null })] });
     expect(r.state).toBe('pending');
     expect(codes(r)).toEqual(['test_booked']);
@@ -201,6 +207,7 @@ describe('Cleared and its validity', () => {
     expect(one({ tests: [tested('fa', 'pa', { d2: '-', d4: '-', d7: '-' })] }).validUntil).toEqual(d('2027-09-14T09:00:00Z'));
   });
   it('becomes Untested when the last test has expired', () => {
+    // common practice, no published source: a result past its validity period counts as no test
     const r = one({ tests: [tested('fa', 'pa', { d2: '-', d4: '-' })], now: d('2027-09-11T09:00:00Z') });
     expect(r.state).toBe('untested');
     expect(r.reasons).toEqual([{ code: 'last_test_expired', text: 'last test expired' }]);
@@ -216,6 +223,7 @@ describe('Cleared and its validity', () => {
     expect(nt.state).toBe('untested');
   });
   it('survives a new lot of the same formulation', () => {
+    // common practice, no published source: a lot is the same recipe made again, so its clearance carries over
     const r = one({ tests: [tested('fa', 'pa', { d2: '-', d4: '-' }, { lotId: 'lot-old' })] });
     expect(r.state).toBe('cleared');
   });
@@ -223,9 +231,11 @@ describe('Cleared and its validity', () => {
 
 describe('Untested', () => {
   it('when there is no test', () => {
+    // common practice, no published source: no test on record is Untested, never Cleared
     expect(one({}).reasons).toEqual([{ code: 'not_tested', text: 'not tested' }]);
   });
   it('again for a new formulation of a tested product', () => {
+    // common practice, no published source: a changed recipe is a different product to the skin, so it is untested again
     const v2 = formulation('fa2', 'pa', ['Aqua', 'Acrylates Copolymer', 'Dimethicone']);
     const r = one({ formulations: [v2], testedFormulations: [A], tests: [tested('fa', 'pa', { d2: '-', d4: '-' })] });
     expect(r.state).toBe('untested');
@@ -249,6 +259,7 @@ describe('Untested', () => {
   });
 });
 
+// common practice, no published source: a designated lead's judgement, noted and audited, stands over the computed state
 describe("the lead's override", () => {
   const cautionTest = tested('fa', 'pa', { d2: 'IR', d4: '-' });
   const override: ClearanceOverride = { formulationId: 'fa', state: 'cleared', by: 'Designated lead', at: d('2026-10-01T10:00:00Z'), note: 'Seen by the production dermatologist.' };
