@@ -149,7 +149,7 @@ export const LotTraceSchema = z.object({
       performerId: z.string(),
       performerName: z.string(),
       appliedOn: z.string(),
-      use: z.enum(['applied', 'removal']),
+      use: z.enum(['applied', 'removal', 'in_appliance']),
       artistName: z.string().nullable(),
       reportSent: z.boolean(),
       outcome: z.enum(SKIN_CHECK_OUTCOMES).nullable(),

@@ -16,16 +16,30 @@ interface TraceRow {
   performerId: string;
   performerName: string;
   appliedOn: string;
-  use: 'applied' | 'removal';
+  use: 'applied' | 'removal' | 'in_appliance';
   artistName: string | null;
   outcome: SkinCheckOutcome | null;
   observation: string | null;
 }
 
-/** Every application that used a lot (applied or in removal), with its performer and skin check: one query. */
+/**
+ * Every application that used a lot, with its performer and skin check: applied or in removal, or
+ * inside an appliance piece worn for it (the lot went into the piece's build). One query.
+ */
 async function listLotUses(db: Db, lotId: string): Promise<TraceRow[]> {
-  const rows = await db
+  const direct = db
     .selectFrom('application_products as ap')
+    .where('ap.lot_id', '=', lotId)
+    .select(['ap.application_id', sql<TraceRow['use']>`ap.use::text`.as('use')]);
+  const inPieces = db
+    .selectFrom('appliance_build_materials as m')
+    .innerJoin('appliance_pieces as pc', 'pc.build_id', 'm.build_id')
+    .where('m.lot_id', '=', lotId)
+    .where('pc.application_id', 'is not', null)
+    .select([sql<string>`pc.application_id`.as('application_id'), sql<TraceRow['use']>`'in_appliance'`.as('use')])
+    .distinct();
+  const rows = await db
+    .selectFrom(direct.unionAll(inPieces).as('ap'))
     .innerJoin('applications as a', 'a.id', 'ap.application_id')
     .innerJoin('performers as p', 'p.id', 'a.performer_id')
     .leftJoin('users as u', 'u.id', 'a.artist_id')
@@ -41,7 +55,6 @@ async function listLotUses(db: Db, lotId: string): Promise<TraceRow[]> {
       's.outcome',
       's.observation',
     ])
-    .where('ap.lot_id', '=', lotId)
     .orderBy('a.applied_on', 'desc')
     .orderBy('a.id')
     .execute();
@@ -77,9 +90,12 @@ export async function traceLot(ctx: AppContext, actor: Actor, lotId: string, req
     await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'lot', entityId: lotId, performerId, req, details: { fields: ['skinCheck'] } });
   }
   const performers = new Map<string, { id: string; name: string; applications: number }>();
+  const counted = new Set<string>();
   for (const u of visible) {
     const p = performers.get(u.performerId) ?? performers.set(u.performerId, { id: u.performerId, name: u.performerName, applications: 0 }).get(u.performerId)!;
-    p.applications++;
+    // One application that used the lot twice (applied, and in a piece) counts once.
+    if (!counted.has(u.applicationId)) p.applications++;
+    counted.add(u.applicationId);
   }
   return {
     lot: { id: lot.lotId, code: lot.code, productId: lot.productId, productName: lot.productName, expiresOn: lot.expiresOn ?? '' },

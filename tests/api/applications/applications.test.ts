@@ -120,6 +120,19 @@ describe('appliance pieces', () => {
     const row = await t.db.db.selectFrom('appliance_pieces').select(['status', 'application_id']).where('id', '=', piece.id).executeTakeFirstOrThrow();
     expect(row).toEqual({ status: 'used', application_id: res.body.id });
     expect(res.body.pieces.map((p: { id: string }) => p.id)).toEqual([piece.id]);
+    // Each lot that went into the piece's build traces to the application it was worn for.
+    const materials = await t.db.db
+      .selectFrom('appliance_build_materials as m')
+      .innerJoin('appliance_pieces as pc', 'pc.build_id', 'm.build_id')
+      .where('pc.id', '=', piece.id)
+      .select('m.lot_id')
+      .execute();
+    expect(materials.length).toBeGreaterThan(0);
+    for (const { lot_id } of materials) {
+      const trace = LotTraceSchema.parse((await api().get(`/api/lots/${lot_id}/trace`).set('Cookie', as.head)).body);
+      expect(trace.applications.filter((x) => x.applicationId === res.body.id).map((x) => x.use)).toEqual(['in_appliance']);
+      expect(trace.performers.find((p) => p.id === ids.juno)?.applications).toBeGreaterThanOrEqual(1);
+    }
   });
 });
 

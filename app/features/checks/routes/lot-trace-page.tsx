@@ -10,6 +10,8 @@ import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { lotTraceQueryOptions } from '../api.ts';
 
+const USE_WORDS = { applied: 'Application', removal: 'Removal', in_appliance: 'In an appliance piece worn' } as const;
+
 /** A lot's trace for a recall or a cluster of reactions: every performer and application it touched. */
 export function LotTracePage() {
   const { id = '' } = useParams();
@@ -53,7 +55,7 @@ export function LotTracePage() {
                         <Link className="font-semibold underline" to={paths.application.href(a.applicationId)}>{formatDate(a.appliedOn)}</Link>
                       </Td>
                       <Td>{a.performerName}</Td>
-                      <Td>{a.use === 'applied' ? 'Application' : 'Removal'}</Td>
+                      <Td>{USE_WORDS[a.use]}</Td>
                       <Td>{a.artistName ?? '—'}</Td>
                       <Td>{a.outcome ? `${SKIN_CHECK_OUTCOME_LABELS[a.outcome]}${a.observation ? `: ${a.observation}` : ''}` : a.reportSent ? 'Reported to the lead' : '—'}</Td>
                     </tr>
