@@ -147,7 +147,7 @@ try {
     hot.push({ label: 'clearance table, 200 tests (head)', url, cookie: head }, { label: 'clearance table, 200 tests (lead)', url, cookie: lead });
   }
   if (mounted('post', '/api/checks')) {
-    hot.push({ label: "artist's check, 30-product kit, 200 tests (artist)", url: `${p}/api/checks`, cookie: artist, method: 'POST', origin: p, body: { productionId: lantern.id, performerId: juno.id, productIds: kit } });
+    hot.push({ label: "artist's check, 30-product kit, 200 tests (artist)", url: `${p}/api/checks`, cookie: artist, method: 'POST', origin: config.appOrigin, body: { productionId: lantern.id, performerId: juno.id, productIds: kit } });
   }
   const others: Target[] = [
     { label: 'GET /api/health', url: `${p}/api/health`, cookie: head },
