@@ -10,7 +10,7 @@ import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { lotTraceQueryOptions } from '../api.ts';
 
-const USE_WORDS = { applied: 'Application', removal: 'Removal', in_appliance: 'In an appliance piece worn' } as const;
+const USE_WORDS = { applied: 'Application', removal: 'Removal', in_appliance: 'Worn in an appliance piece' } as const;
 
 /** A lot's trace for a recall or a cluster of reactions: every performer and application it touched. */
 export function LotTracePage() {
