@@ -129,6 +129,15 @@ try {
   const someLabel = (await handle.db.selectFrom('casts').select('label_code').orderBy('label_code').offset(4242).limit(1).executeTakeFirst())?.label_code ?? 'C-000000';
   // The 30-product kit seed:scale gave Juno Castellane's tests (any 30 products on the quick data set).
   const kit = (await handle.db.selectFrom('products').select('id').orderBy(sql`name not like 'Studio %'`).orderBy('name').limit(30).execute()).map((r) => r.id);
+  // The check is run from a saved kit, as the tablet runs it: one kit of those 30 products, made once.
+  const kitName = 'Bench kit: 30 products';
+  const kitId =
+    (await handle.db.selectFrom('kits').select('id').where('production_id', '=', lantern.id).where('name', '=', kitName).executeTakeFirst())?.id ??
+    (await handle.db.transaction().execute(async (trx) => {
+      const made = await trx.insertInto('kits').values({ production_id: lantern.id, name: kitName }).returning('id').executeTakeFirstOrThrow();
+      await trx.insertInto('kit_products').values(kit.map((product_id, position) => ({ kit_id: made.id, position, product_id }))).execute();
+      return made.id;
+    }));
   const p = plinth.base;
 
   // The routes a studio leans on all day; measured at every connection count, their reads EXPLAINed.
@@ -147,7 +156,7 @@ try {
     hot.push({ label: 'clearance table, 200 tests (head)', url, cookie: head }, { label: 'clearance table, 200 tests (lead)', url, cookie: lead });
   }
   if (mounted('post', '/api/checks')) {
-    hot.push({ label: "artist's check, 30-product kit, 200 tests (artist)", url: `${p}/api/checks`, cookie: artist, method: 'POST', origin: config.appOrigin, body: { productionId: lantern.id, performerId: juno.id, productIds: kit } });
+    hot.push({ label: "artist's check, 30-product kit, 200 tests (artist)", url: `${p}/api/checks`, cookie: artist, method: 'POST', origin: config.appOrigin, body: { productionId: lantern.id, performerId: juno.id, kitId } });
   }
   const others: Target[] = [
     { label: 'GET /api/health', url: `${p}/api/health`, cookie: head },

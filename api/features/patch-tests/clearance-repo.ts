@@ -42,6 +42,8 @@ export async function listTestedProducts(db: Db, performerId: string): Promise<T
       'r.code',
     ])
     .where('t.performer_id', '=', performerId)
+    // The session is the same performer's: said here so their sessions are found by index, not scanned.
+    .where('b.performer_id', '=', performerId)
     .orderBy('t.created_at')
     .orderBy('tp.test_id')
     .orderBy('tp.position')

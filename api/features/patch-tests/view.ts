@@ -10,7 +10,8 @@ import { listReadPoints, listTestProducts, listTestReadings, listTestRows, type 
 
 /** Tests as lists show them, each with whether it waits for a consent: one query for the tests, one for consents, one for protocols. */
 export async function listTestSummaries(db: Db, where: TestFilter): Promise<PatchTestSummary[]> {
-  const rows = await listTestRows(db, where);
+  // A summary shows how many products, not which points were read.
+  const rows = await listTestRows(db, { ...where, withoutTaken: true });
   return summariesOf(db, rows);
 }
 

@@ -116,19 +116,22 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
   }
   if (seat.role === 'archivist') return archivistTasks(ctx.db, actor);
   if (seat.role === 'head' || seat.role === 'lead') {
-    const tasks = await consentTasks(ctx, actor, seat.productionId);
-    tasks.push({
-      id: 'performers-engaged',
-      title: 'Performers engaged',
-      detail: 'Performers currently engaged on this production.',
-      count: await countEngagedNow(ctx.db, seat.productionId),
-      href: '/performers',
-    });
-    tasks.push(await piecesShortTask(ctx.db, seat.productionId));
     const now = new Date();
-    if (seat.role === 'lead') tasks.unshift(...(await leadReadingTasks(ctx.db, seat.productionId, now, ctx.config.timeZone)));
-    tasks.push(...(await headPatchTestTasks(ctx.db, seat.productionId, now)));
-    return tasks;
+    // The lists are independent reads: asked for together, not one after another.
+    const [consent, engaged, pieces, readings, patchTests] = await Promise.all([
+      consentTasks(ctx, actor, seat.productionId),
+      countEngagedNow(ctx.db, seat.productionId),
+      piecesShortTask(ctx.db, seat.productionId),
+      seat.role === 'lead' ? leadReadingTasks(ctx.db, seat.productionId, now, ctx.config.timeZone) : Promise.resolve([]),
+      headPatchTestTasks(ctx.db, seat.productionId, now),
+    ]);
+    return [
+      ...readings,
+      ...consent,
+      { id: 'performers-engaged', title: 'Performers engaged', detail: 'Performers currently engaged on this production.', count: engaged, href: '/performers' },
+      pieces,
+      ...patchTests,
+    ];
   }
   return [];
 }
