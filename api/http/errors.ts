@@ -39,7 +39,7 @@ function isDatabaseDown(err: unknown): boolean {
 function fromPostgres(err: unknown): ApiError | null {
   if (!err || typeof err !== 'object') return null;
   const e = err as { code?: string; constraint?: string };
-  if (e.code === '23505') return new ApiError('conflict', 'That would duplicate an existing record.');
+  if (isUniqueViolation(e)) return new ApiError('conflict', 'That would duplicate an existing record.');
   if (e.code === '23503') return new ApiError('conflict', 'That refers to a record that does not exist or is still in use.');
   if (e.code === '22P02' || e.code === '23514') return new ApiError('validation_failed', 'A value was not acceptable.', {});
   // Text PostgreSQL cannot store (a NUL that got past the guard) and dates out of its range.

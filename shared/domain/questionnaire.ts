@@ -29,9 +29,10 @@ export type Answers = Record<string, AnswerValue | undefined>;
  * yes/no is a boolean, short text a string, a choice one of its options; required ones must be given.
  */
 export function answersSchemaFor(questions: readonly Question[]) {
-  const shape: Record<string, z.ZodType> = {};
+  // Typed by value, so the signing form's answers read as `Answers` without a cast.
+  const shape: Record<string, z.ZodType<AnswerValue | undefined, AnswerValue | undefined>> = {};
   for (const q of questions) {
-    let s: z.ZodType;
+    let s: z.ZodType<AnswerValue, AnswerValue>;
     if (q.type === 'yes_no') s = z.boolean({ message: 'Answer yes or no' });
     else if (q.type === 'choice') s = z.enum(q.options as [string, ...string[]], { message: 'Choose one of the options' });
     else s = q.required ? z.string().trim().min(1, 'This answer is required').max(1000) : z.string().trim().max(1000);

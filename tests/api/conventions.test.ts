@@ -1,4 +1,6 @@
+import { readFileSync, readdirSync } from 'node:fs';
 import net from 'node:net';
+import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ErrorBodySchema } from '#shared/errors.ts';
@@ -185,5 +187,31 @@ describe('when PostgreSQL goes away', () => {
       await handle.close();
       await t2.close();
     }
+  });
+});
+
+describe('source conventions', () => {
+  const root = path.resolve(import.meta.dirname, '../..');
+  /** Every TypeScript source under a folder, as paths from the repository root. */
+  const sources = (dir: string) =>
+    readdirSync(path.join(root, dir), { recursive: true, encoding: 'utf8' })
+      .filter((f) => /\.tsx?$/.test(f))
+      .map((f) => path.posix.join(dir, f.split(path.sep).join('/')));
+  const holding = (files: string[], pattern: RegExp) => files.filter((f) => pattern.test(readFileSync(path.join(root, f), 'utf8')));
+
+  it('checks a unique-key violation only through isUniqueViolation', () => {
+    const files = sources('api');
+    expect(files).toContain('api/http/errors.ts');
+    expect(holding(files, /23505/)).toEqual(['api/http/errors.ts']);
+  });
+  it('lets no client feature define its own invalidate', () => {
+    const files = sources('app/features');
+    expect(files.length).toBeGreaterThan(50);
+    expect(holding(files, /\b(?:function|const|let|var)\s+invalidate\b/)).toEqual([]);
+    expect(holding(['app/lib/query-keys.ts'], /export function invalidate\b/)).toEqual(['app/lib/query-keys.ts']);
+  });
+  it('types forms by their schema, with no cast around a resolver', () => {
+    const files = sources('app');
+    expect(holding(files, /\bas unknown as\b|\bas Resolver\b/)).toEqual([]);
   });
 });

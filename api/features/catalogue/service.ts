@@ -17,7 +17,7 @@ import type { z } from 'zod';
 import type { AppContext } from '../../context.ts';
 import type { Db } from '../../db/index.ts';
 import { writeAudit } from '../../http/audit.ts';
-import { conflict, invalid, notFound } from '../../http/errors.ts';
+import { conflict, invalid, isUniqueViolation, notFound } from '../../http/errors.ts';
 import { resolveLabel } from './ingredient-service.ts';
 import { findLotByCode, insertLot, listLots, lockLot, setLotRetiredAtVersion, updateLotAtVersion } from './lot-repo.ts';
 import {
@@ -52,9 +52,8 @@ const codeTaken = () => conflict('This product already has a lot with this code.
 
 /** A duplicate name that got past the check (two saves at once): the same answer the check gives. */
 function duplicateToConflict(err: unknown): never {
-  const e = err as { code?: string; constraint?: string };
-  if (e?.code === '23505' && e.constraint === 'products_name_key') throw nameTaken();
-  if (e?.code === '23505' && e.constraint === 'product_lots_code_key') throw codeTaken();
+  if (isUniqueViolation(err, 'products_name_key')) throw nameTaken();
+  if (isUniqueViolation(err, 'product_lots_code_key')) throw codeTaken();
   throw err;
 }
 

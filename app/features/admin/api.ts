@@ -181,7 +181,7 @@ export function useRetryMail() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (id: string) => api.post(`/api/outbox/failures/${encodeURIComponent(id)}/retry`, {}, MailRetryResultSchema),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: outboxKey }),
+    onSuccess: () => invalidate(queryClient, [outboxKey]),
   });
 }
 

@@ -19,7 +19,7 @@ import {
   type UpdateLocationInput,
 } from '#shared/schemas/archive.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { archiveKey, homeKey, performersKey } from '../../lib/query-keys.ts';
+import { archiveKey, homeKey, invalidate, performersKey } from '../../lib/query-keys.ts';
 
 const castPath = (id: string, rest = '') => `/api/casts/${encodeURIComponent(id)}${rest}`;
 const placePath = (id: string) => `/api/archive/locations/${encodeURIComponent(id)}`;
@@ -89,15 +89,11 @@ export function performerCastsQueryOptions(performerId: string) {
 
 function castWritten(queryClient: QueryClient, detail: CastDetail) {
   queryClient.setQueryData(castQueryOptions(detail.id).queryKey, detail);
-  return Promise.all(
-    [[...archiveKey, 'casts'], [...archiveKey, 'places'], [...archiveKey, 'place'], [...archiveKey, 'retention'], [...archiveKey, 'performer'], homeKey, performersKey].map((queryKey) =>
-      queryClient.invalidateQueries({ queryKey }),
-    ),
-  );
+  return invalidate(queryClient, [[...archiveKey, 'casts'], [...archiveKey, 'places'], [...archiveKey, 'place'], [...archiveKey, 'retention'], [...archiveKey, 'performer'], homeKey, performersKey]);
 }
 
 function archiveChanged(queryClient: QueryClient) {
-  return Promise.all([archiveKey, homeKey].map((queryKey) => queryClient.invalidateQueries({ queryKey })));
+  return invalidate(queryClient, [archiveKey, homeKey]);
 }
 
 export function useCreateCast() {
@@ -138,7 +134,7 @@ export function photoUpload(castId: string, file: File, conditionCheckId?: strin
 }
 
 export function photosAdded(queryClient: QueryClient, castId: string) {
-  return Promise.all([castQueryOptions(castId).queryKey, [...archiveKey, 'casts'], [...archiveKey, 'performer']].map((queryKey) => queryClient.invalidateQueries({ queryKey })));
+  return invalidate(queryClient, [castQueryOptions(castId).queryKey, [...archiveKey, 'casts'], [...archiveKey, 'performer']]);
 }
 
 export function useRemovePhoto(castId: string) {

@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import { BookingListSchema, BookingSchema, BookingStaffSchema, ConsentCheckSchema, type CreateBookingInput, type RescheduleBookingInput } from '#shared/schemas/bookings.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { bookingsKey, homeKey, performersKey } from '../../lib/query-keys.ts';
+import { bookingsKey, homeKey, invalidate, performersKey } from '../../lib/query-keys.ts';
 
 /** A production's sessions from now on, each flagged when its consent will not be in force. */
 export function bookingsQueryOptions(productionId: string) {
@@ -12,7 +12,7 @@ export function bookingsQueryOptions(productionId: string) {
 }
 
 function bookingsChanged(queryClient: QueryClient) {
-  return Promise.all([bookingsKey, performersKey, homeKey].map((queryKey) => queryClient.invalidateQueries({ queryKey })));
+  return invalidate(queryClient, [bookingsKey, performersKey, homeKey]);
 }
 
 export function useCreateBooking() {

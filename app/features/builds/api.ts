@@ -14,7 +14,7 @@ import {
   type UpdateBuildInput,
 } from '#shared/schemas/builds.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { buildsKey, homeKey } from '../../lib/query-keys.ts';
+import { buildsKey, homeKey, invalidate } from '../../lib/query-keys.ts';
 
 const buildPath = (id: string, rest = '') => `/api/appliance-builds/${encodeURIComponent(id)}${rest}`;
 
@@ -61,12 +61,7 @@ export function performerBuildsQueryOptions(performerId: string) {
 /** Every build write answers with the fresh detail: keep it, and mark the lists, outlooks and home it may change. */
 export async function buildWritten(queryClient: QueryClient, detail: BuildDetail) {
   queryClient.setQueryData(buildQueryOptions(detail.id).queryKey, detail);
-  await Promise.all([
-    queryClient.invalidateQueries({ queryKey: [...buildsKey, 'list'] }),
-    queryClient.invalidateQueries({ queryKey: [...buildsKey, 'outlooks'] }),
-    queryClient.invalidateQueries({ queryKey: [...buildsKey, 'performer'] }),
-    queryClient.invalidateQueries({ queryKey: homeKey }),
-  ]);
+  await invalidate(queryClient, [[...buildsKey, 'list'], [...buildsKey, 'outlooks'], [...buildsKey, 'performer'], homeKey]);
 }
 
 function useBuildMutation<I>(fn: (input: I) => Promise<BuildDetail>) {
@@ -93,7 +88,7 @@ export function useSetPlan() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (input: SetPlanInput) => api.put('/api/appliance-plans', input, ApplianceOutlookSchema),
-    onSuccess: () => Promise.all([queryClient.invalidateQueries({ queryKey: buildsKey }), queryClient.invalidateQueries({ queryKey: homeKey })]),
+    onSuccess: () => invalidate(queryClient, [buildsKey, homeKey]),
   });
 }
 

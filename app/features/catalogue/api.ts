@@ -16,7 +16,7 @@ import {
   type UpdateProductInput,
 } from '#shared/schemas/catalogue.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { ingredientsKey, productsKey } from '../../lib/query-keys.ts';
+import { ingredientsKey, invalidate, productsKey } from '../../lib/query-keys.ts';
 
 // ---- products
 
@@ -42,7 +42,7 @@ function productPath(id: string, rest = '') {
 /** Every product write answers with the fresh detail: keep it, and mark the lists it may change. */
 export async function productWritten(queryClient: QueryClient, detail: ProductDetail) {
   queryClient.setQueryData(productQueryOptions(detail.id).queryKey, detail);
-  await Promise.all([queryClient.invalidateQueries({ queryKey: [...productsKey, 'list'] }), queryClient.invalidateQueries({ queryKey: ingredientsKey })]);
+  await invalidate(queryClient, [[...productsKey, 'list'], ingredientsKey]);
 }
 
 function useProductMutation<I>(fn: (input: I) => Promise<ProductDetail>) {
@@ -112,7 +112,7 @@ function useIngredientMutation<I>(fn: (input: I) => Promise<unknown>) {
   return useMutation({
     mutationFn: fn,
     // A new or renamed entry may link names on any product, so products are read again too.
-    onSuccess: () => Promise.all([queryClient.invalidateQueries({ queryKey: ingredientsKey }), queryClient.invalidateQueries({ queryKey: productsKey })]),
+    onSuccess: () => invalidate(queryClient, [ingredientsKey, productsKey]),
   });
 }
 

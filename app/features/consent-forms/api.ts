@@ -8,7 +8,7 @@ import {
   type UpdateTemplateInput,
 } from '#shared/schemas/consents.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { templatesKey } from '../../lib/query-keys.ts';
+import { invalidate, templatesKey } from '../../lib/query-keys.ts';
 
 /** Consent forms at their current version; archived ones only when asked (the editor's list). */
 export function templatesQueryOptions({ archived = false }: { archived?: boolean } = {}) {
@@ -34,9 +34,9 @@ export function templateVersionsQueryOptions(id: string) {
 
 function templateWritten(queryClient: QueryClient, template: Template) {
   queryClient.setQueryData(templateQueryOptions(template.id).queryKey, template);
-  return Promise.all([
-    queryClient.invalidateQueries({ queryKey: [...templatesKey, 'list'] }),
-    queryClient.invalidateQueries({ queryKey: [...templatesKey, 'versions', template.id] }),
+  return invalidate(queryClient, [
+    [...templatesKey, 'list'],
+    [...templatesKey, 'versions', template.id],
   ]);
 }
 

@@ -133,7 +133,7 @@ export function useWithdrawByLink(token: string) {
   return useMutation({
     mutationFn: (input: { consentId: string; reason?: string }) =>
       api.post(`/api/withdrawal-links/${encodeURIComponent(token)}/withdraw`, input, OkSchema),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: [...withdrawalLinkKey, token] }),
+    onSuccess: () => invalidate(queryClient, [[...withdrawalLinkKey, token]]),
   });
 }
 

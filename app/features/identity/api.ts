@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { AccountInvitationAcceptedSchema, AccountInvitationViewSchema, EmailConfirmationViewSchema } from '#shared/schemas/identity.ts';
 import { api } from '../../lib/api-client.ts';
-import { identityLinkKey, sessionKey } from '../../lib/query-keys.ts';
+import { identityLinkKey, invalidate, sessionKey } from '../../lib/query-keys.ts';
 
 const tokenPath = (base: string, token: string, rest = '') => `${base}/${encodeURIComponent(token)}${rest}`;
 
@@ -30,6 +30,6 @@ export function useAcceptInvitation(token: string) {
   return useMutation({
     mutationFn: () => api.post(tokenPath('/api/account-invitations', token, '/accept'), {}, AccountInvitationAcceptedSchema),
     // The person now holds the performer role: their seats change.
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: sessionKey }),
+    onSuccess: () => invalidate(queryClient, [sessionKey]),
   });
 }

@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import { PatchTestDetailSchema, PatchTestListSchema, PerformerPatchTestsSchema, type BookPatchTestInput, type OverrideInput, type PatchTestDetail, type ReadingsInput } from '#shared/schemas/patch-test-log.ts';
 import { api, withQuery } from '../../lib/api-client.ts';
-import { bookingsKey, homeKey, patchTestsKey, performersKey } from '../../lib/query-keys.ts';
+import { bookingsKey, homeKey, invalidate, patchTestsKey, performersKey } from '../../lib/query-keys.ts';
 
 const testPath = (id: string, rest = '') => `/api/patch-tests/${encodeURIComponent(id)}${rest}`;
 
@@ -34,7 +34,7 @@ export function readingPhotoUrl(testId: string, photoId: string, size: 'photo' |
 /** Every test write answers with the fresh detail: keep it, and mark the lists, the performer's record and the home. */
 export async function testWritten(queryClient: QueryClient, detail: PatchTestDetail) {
   queryClient.setQueryData(patchTestQueryOptions(detail.id).queryKey, detail);
-  await Promise.all([patchTestsKey, bookingsKey, performersKey, homeKey].map((queryKey) => queryClient.invalidateQueries({ queryKey })));
+  await invalidate(queryClient, [patchTestsKey, bookingsKey, performersKey, homeKey]);
 }
 
 function useTestMutation<I>(fn: (input: I) => Promise<PatchTestDetail>) {
@@ -61,7 +61,7 @@ export function useOverride(performerId: string) {
     mutationFn: (input: OverrideInput) => api.post(`/api/performers/${encodeURIComponent(performerId)}/clearance-overrides`, input, PerformerPatchTestsSchema),
     onSuccess: (data) => {
       queryClient.setQueryData(performerPatchTestsQueryOptions(performerId).queryKey, data);
-      return queryClient.invalidateQueries({ queryKey: homeKey });
+      return invalidate(queryClient, [homeKey]);
     },
   });
 }

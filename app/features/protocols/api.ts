@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { ProtocolHistorySchema, ProtocolListSchema, ProtocolVersionSchema, type UpdateProtocolInput } from '#shared/schemas/protocols.ts';
 import { api } from '../../lib/api-client.ts';
-import { protocolsKey } from '../../lib/query-keys.ts';
+import { invalidate, protocolsKey } from '../../lib/query-keys.ts';
 
 export function protocolsQueryOptions() {
   return queryOptions({
@@ -31,7 +31,7 @@ export function useUpdateProtocol(id: string) {
     mutationFn: (input: UpdateProtocolInput) => api.put(`/api/protocols/${encodeURIComponent(id)}`, input, ProtocolVersionSchema),
     onSuccess: async (saved) => {
       queryClient.setQueryData(protocolQueryOptions(id).queryKey, saved);
-      await queryClient.invalidateQueries({ queryKey: protocolsKey });
+      await invalidate(queryClient, [protocolsKey]);
     },
   });
 }

@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useMemo, useState, type ReactNode } from 'react';
-import { get, useForm, useWatch, type FieldErrors, type Path, type Resolver } from 'react-hook-form';
+import { get, useForm, useWatch, type FieldErrors, type Path } from 'react-hook-form';
 import type { z } from 'zod';
 import { coatingVolumes } from '#shared/domain/coating.ts';
 import { DEMOLD_DEFAULT_NOTE } from '#shared/domain/cure.ts';
@@ -18,7 +18,7 @@ import { TextareaField } from '../../../components/ui/textarea-field.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { serverPaths } from '../../../lib/paths.ts';
 import { BuildCautions } from './build-cautions.tsx';
-import type { BuildFormValues } from './build-values.ts';
+import type { BuildFormSchema, BuildFormValues } from './build-values.ts';
 import { CoatingFields, CoatingResult } from './coating-fields.tsx';
 import { CoatingFormSchema, MixFormSchema, readLive } from './calc-values.ts';
 import { MaterialRows } from './material-rows.tsx';
@@ -26,17 +26,17 @@ import { useChosenProduct } from './material-choice.tsx';
 import { MixFields } from './mix-fields.tsx';
 import { WeighOut } from './weigh-out.tsx';
 
-interface BuildFormProps<S extends z.ZodType> {
+interface BuildFormProps<Out> {
   initial: BuildFormValues;
   /** The API's schema read over the typed form. */
-  schema: S;
+  schema: BuildFormSchema<Out>;
   molds: readonly MoldOption[];
   products: readonly ProductListItem[];
   /** Editing: the mold stays, and lots already listed stay on offer. */
   editing?: { listedLotIds: ReadonlySet<string> };
   submitLabel: string;
   pending: boolean;
-  onSubmit: (input: z.output<S>) => Promise<unknown>;
+  onSubmit: (input: Out) => Promise<unknown>;
   /** Shown above the buttons (a conflict notice, say). */
   notice?: ReactNode;
 }
@@ -44,10 +44,10 @@ interface BuildFormProps<S extends z.ZodType> {
 const decimal = { inputMode: 'decimal' as const, autoComplete: 'off' };
 
 /** Which mold, when and by whom, every material with its lot, the weigh-out and what was weighed, coating, cure and pieces. */
-export function BuildForm<S extends z.ZodType>({ initial, schema, molds, products, editing, submitLabel, pending, onSubmit, notice }: BuildFormProps<S>) {
+export function BuildForm<Out>({ initial, schema, molds, products, editing, submitLabel, pending, onSubmit, notice }: BuildFormProps<Out>) {
   const [formError, setFormError] = useState<string[] | null>(null);
   const [serverErrors, setServerErrors] = useState<Record<string, string[]>>({});
-  const form = useForm<BuildFormValues>({ resolver: zodResolver(schema as unknown as z.ZodType<BuildFormValues, BuildFormValues>) as Resolver<BuildFormValues>, defaultValues: initial });
+  const form = useForm<z.input<typeof schema>, unknown, z.output<typeof schema>>({ resolver: zodResolver(schema), defaultValues: initial });
   const values = useWatch({ control: form.control }) as BuildFormValues;
   const partA = values.materials.find((m) => m.role === 'part_a');
   const silicone = useChosenProduct(partA?.productId ?? '');
@@ -77,7 +77,7 @@ export function BuildForm<S extends z.ZodType>({ initial, schema, molds, product
     setFormError(null);
     setServerErrors({});
     try {
-      await onSubmit(input as unknown as z.output<S>);
+      await onSubmit(input);
     } catch (err) {
       if (err instanceof ApiError && Object.keys(err.fields).length) {
         setServerErrors(err.fields);

@@ -19,6 +19,9 @@ export interface BuildFormValues {
   notes: string;
 }
 
+/** A schema that reads the typed form into what the API takes. */
+export type BuildFormSchema<Out> = z.ZodType<Out, BuildFormValues>;
+
 const grams = (s: string) => typedNumber(s) ?? null;
 
 function toBuildFields(v: BuildFormValues) {

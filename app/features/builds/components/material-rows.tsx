@@ -9,8 +9,11 @@ import { formatDate } from '../../../lib/format.ts';
 import { productQueryOptions } from '../../catalogue/index.ts';
 import type { BuildFormValues } from './build-values.ts';
 
+/** The parts of the build form the rows use; what the form reads out on submit does not matter here. */
+type MaterialsForm = Pick<UseFormReturn<BuildFormValues, unknown, unknown>, 'control' | 'register' | 'setValue' | 'getValues'>;
+
 interface MaterialRowsProps {
-  form: UseFormReturn<BuildFormValues>;
+  form: MaterialsForm;
   products: readonly ProductListItem[];
   error: (name: string) => string | undefined;
   /** Lots the build already lists: still offered once retired, as the API still accepts them. */
@@ -44,7 +47,7 @@ export function MaterialRows({ form, products, error, listedLotIds }: MaterialRo
   );
 }
 
-function MaterialRow({ form, index, products, error, listedLotIds, onRemove }: Omit<MaterialRowsProps, 'form'> & { form: UseFormReturn<BuildFormValues>; index: number; onRemove: () => void }) {
+function MaterialRow({ form, index, products, error, listedLotIds, onRemove }: MaterialRowsProps & { index: number; onRemove: () => void }) {
   const [role, productId] = useWatch({ control: form.control, name: [`materials.${index}.role`, `materials.${index}.productId`] });
   const product = useQuery({ ...productQueryOptions(productId), enabled: productId !== '' });
   const lots = (product.data?.lots ?? []).filter((l) => l.state === 'in_date' || l.state === 'expiring' || listedLotIds.has(l.id));

@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { get, useForm, useWatch, type FieldErrors, type Resolver } from 'react-hook-form';
+import { get, useForm, useWatch, type FieldErrors } from 'react-hook-form';
 import { z } from 'zod';
 import { BODY_REGION_LABELS } from '#shared/domain/archive-casts.ts';
 import { SetPlanInputSchema, type ApplianceOutlook } from '#shared/schemas/builds.ts';
@@ -65,8 +65,9 @@ export function PlanForm({ outlook: o, onDone }: { outlook: ApplianceOutlook; on
   const setPlan = useSetPlan();
   const [conflict, setConflict] = useState<unknown>(null);
   const [formError, setFormError] = useState<string[] | null>(null);
-  const form = useForm<PlanValues>({
-    resolver: zodResolver(planSchema(o) as unknown as z.ZodType<PlanValues, PlanValues>) as Resolver<PlanValues>,
+  const schema = planSchema(o);
+  const form = useForm<z.input<typeof schema>, unknown, z.output<typeof schema>>({
+    resolver: zodResolver(schema),
     defaultValues: {
       shootDaysPlanned: o.plan ? String(o.plan.shootDaysPlanned) : '',
       sparesKind: o.plan?.spares.kind ?? 'total',
@@ -80,7 +81,7 @@ export function PlanForm({ outlook: o, onDone }: { outlook: ApplianceOutlook; on
   const submit = form.handleSubmit(async (input) => {
     setFormError(null);
     try {
-      await setPlan.mutateAsync(input as unknown as z.input<typeof SetPlanInputSchema>);
+      await setPlan.mutateAsync(input);
       onDone?.();
     } catch (err) {
       if (isApiError(err, 409)) return setConflict(err);

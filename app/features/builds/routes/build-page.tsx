@@ -13,6 +13,7 @@ import { Table, Td, Th, Thead, Tr } from '../../../components/ui/table.tsx';
 import { formatDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
+import { invalidate } from '../../../lib/query-keys.ts';
 import { buildQueryOptions } from '../api.ts';
 import { BuildCautions } from '../components/build-cautions.tsx';
 import { BuildPhoto } from '../components/build-photo.tsx';
@@ -60,7 +61,7 @@ function Build({ id }: { id: string }) {
               <OutlookSummary outlook={b.outlook} />
               {b.canPlan ? <PlanForm key={`${b.outlook.plan?.version ?? 0}`} outlook={b.outlook} /> : null}
             </Section>
-            <PiecesSection build={b} onReload={() => void queryClient.invalidateQueries({ queryKey: buildQueryOptions(b.id).queryKey })} />
+            <PiecesSection build={b} onReload={() => void invalidate(queryClient, [buildQueryOptions(b.id).queryKey])} />
             <Materials build={b} />
             <Section title="Weigh-out and what was weighed">
               <WeighOut plan={b.plan} resolution={b.mix.scaleResolutionG} weighed={b.weighed} />

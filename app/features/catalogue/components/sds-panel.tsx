@@ -7,6 +7,7 @@ import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { ProgressBar } from '../../../components/ui/progress-bar.tsx';
 import { isApiError } from '../../../lib/api-client.ts';
 import { formatBytes, formatDateTime } from '../../../lib/format.ts';
+import { invalidate } from '../../../lib/query-keys.ts';
 import { useUpload } from '../../../lib/upload.ts';
 import { productQueryOptions, productWritten, safetySheetUpload } from '../api.ts';
 import { SolventCaution } from './solvent-caution.tsx';
@@ -82,7 +83,7 @@ export function SafetySheetPanel({ product: p, canManage }: { product: ProductDe
               {problem}
             </p>
           ) : state.status === 'error' && isApiError(state.error, 409) ? (
-            <ConflictNotice error={state.error} onReload={() => void queryClient.invalidateQueries({ queryKey: productQueryOptions(p.id).queryKey }).then(upload.reset)} />
+            <ConflictNotice error={state.error} onReload={() => void invalidate(queryClient, [productQueryOptions(p.id).queryKey]).then(() => upload.reset())} />
           ) : state.status === 'error' && !(state.error instanceof DOMException) ? (
             <ErrorBanner error={state.error} />
           ) : null}

@@ -18,6 +18,7 @@ import { isApiError } from '../../../lib/api-client.ts';
 import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
+import { invalidate } from '../../../lib/query-keys.ts';
 import { productQueryOptions, useAddFormulation, useRecordIngredients, useUpdateProduct } from '../api.ts';
 import { LabelEditor } from '../components/label-editor.tsx';
 import { PRODUCT_FIELD_NAMES, ProductFields, productFormSchema, productFormValues, type ProductFormValues } from '../components/product-fields.tsx';
@@ -86,7 +87,7 @@ function DetailsForm({ product: p }: { product: ProductDetail }) {
     <form noValidate onSubmit={onSubmit} aria-label="Product details" data-testid="edit-product-form">
       <Section title="Product details">
         <ProductFields register={form.register} errors={errors} category={category} hasFigures={hasFigures} />
-        {conflict ? <ConflictNotice error={conflict} onReload={() => void queryClient.invalidateQueries({ queryKey: productQueryOptions(p.id).queryKey })} /> : null}
+        {conflict ? <ConflictNotice error={conflict} onReload={() => void invalidate(queryClient, [productQueryOptions(p.id).queryKey])} /> : null}
         <FormError messages={formError} />
         <div className="flex flex-wrap gap-3">
           <Button type="submit" pending={update.isPending} pendingLabel="Saving…" disabled={conflict !== null}>

@@ -1,14 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQueryClient } from '@tanstack/react-query';
 import { useDeferredValue, useState } from 'react';
-import { useFieldArray, useForm, useWatch, type Control, type FieldErrors, type Path, type Resolver, type UseFormRegister, type UseFormSetValue } from 'react-hook-form';
+import { useFieldArray, useForm, useWatch } from 'react-hook-form';
 import { useNavigate } from 'react-router-dom';
-import { z } from 'zod';
+import type { z } from 'zod';
 import { CONSENT_KINDS, CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
-import { QUESTION_TYPES, type QuestionType } from '#shared/domain/questionnaire.ts';
-import { ConsentKindSchema, CreateTemplateInputSchema, type CreateTemplateInput, type Template } from '#shared/schemas/consents.ts';
+import type { Template } from '#shared/schemas/consents.ts';
 import { Button } from '../../../components/ui/button.tsx';
-import { CheckboxField } from '../../../components/ui/checkbox-field.tsx';
 import { ConflictNotice } from '../../../components/ui/conflict-notice.tsx';
 import { ErrorBanner } from '../../../components/ui/error-banner.tsx';
 import { FormError } from '../../../components/ui/form-error.tsx';
@@ -21,102 +19,8 @@ import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { paths } from '../../../lib/paths.ts';
 import { ConsentText } from '../../../components/consent/consent-text.tsx';
 import { templateQueryOptions, useCreateTemplate, usePublishTemplate } from '../api.ts';
-
-const QUESTION_TYPE_LABELS: Record<QuestionType, string> = { yes_no: 'Yes or no', short_text: 'Short text', choice: 'Choice of options' };
-
-interface QuestionValues {
-  id: string;
-  type: QuestionType;
-  label: string;
-  help: string;
-  /** One option per line (choice questions only). */
-  options: string;
-  medical: boolean;
-  required: boolean;
-}
-
-interface TemplateValues {
-  kind: string;
-  title: string;
-  body: string;
-  /** As typed: "" means the consent runs until withdrawn. */
-  validityDays: string;
-  questions: QuestionValues[];
-}
-
-/** The form's own shape first (plain words for a bad number), then exactly the API's template schema. */
-const TemplateFormSchema = z
-  .object({
-    kind: ConsentKindSchema,
-    title: z.string(),
-    body: z.string(),
-    validityDays: z
-      .string()
-      .trim()
-      .refine((v) => v === '' || /^\d+$/.test(v), 'Enter a whole number of days, or leave it empty'),
-    questions: z.array(
-      z.object({ id: z.string(), type: z.enum(QUESTION_TYPES), label: z.string(), help: z.string(), options: z.string(), medical: z.boolean(), required: z.boolean() }),
-    ),
-  })
-  .transform((v, ctx) => {
-    const input = {
-      kind: v.kind,
-      title: v.title,
-      body: v.body,
-      validityDays: v.validityDays === '' ? null : Number(v.validityDays),
-      questions: v.questions.map((q) => ({
-        id: q.id.trim(),
-        type: q.type,
-        label: q.label,
-        ...(q.help.trim() ? { help: q.help.trim() } : {}),
-        ...(q.type === 'choice' ? { options: q.options.split('\n').map((o) => o.trim()).filter(Boolean) } : {}),
-        medical: q.medical,
-        required: q.required,
-      })),
-    };
-    // Then exactly the API's rules, with their messages and paths ("questions.2.options").
-    const checked = CreateTemplateInputSchema.safeParse(input);
-    if (checked.success) return checked.data;
-    for (const issue of checked.error.issues) ctx.addIssue({ code: 'custom', message: issue.message, path: issue.path });
-    return z.NEVER;
-  });
-
-function valuesOf(t: Template | undefined): TemplateValues {
-  if (!t) return { kind: '', title: '', body: '', validityDays: '365', questions: [] };
-  return {
-    kind: t.kind,
-    title: t.title,
-    body: t.body,
-    validityDays: t.validityDays === null ? '' : String(t.validityDays),
-    questions: t.questions.map((q) => ({
-      id: q.id,
-      type: q.type,
-      label: q.label,
-      help: q.help ?? '',
-      options: (q.options ?? []).join('\n'),
-      medical: q.medical,
-      required: q.required,
-    })),
-  };
-}
-
-function fieldNames(count: number): Path<TemplateValues>[] {
-  const names: Path<TemplateValues>[] = ['kind', 'title', 'body', 'validityDays', 'questions'];
-  for (let i = 0; i < count; i++) {
-    for (const f of ['id', 'type', 'label', 'help', 'options', 'medical', 'required'] as const) names.push(`questions.${i}.${f}`);
-  }
-  return names;
-}
-
-/** "Known allergies?" → "known_allergies": a first id for a new question, from its label. */
-function slugOf(label: string): string {
-  return label
-    .toLowerCase()
-    .normalize('NFKD')
-    .replace(/[^a-z0-9]+/g, '_')
-    .replace(/^_+|_+$/g, '')
-    .slice(0, 40);
-}
+import { QuestionEditor } from './question-editor.tsx';
+import { TemplateFormSchema, fieldNames, valuesOf } from './template-values.ts';
 
 /** Writes a new consent form, or publishes a new version of one (signed consents keep theirs). */
 export function TemplateEditor({ template }: { template?: Template }) {
@@ -130,9 +34,8 @@ export function TemplateEditor({ template }: { template?: Template }) {
   const [reloadError, setReloadError] = useState<unknown>(null);
   const [formError, setFormError] = useState<string[] | null>(null);
   const [published, setPublished] = useState<number | null>(null);
-  const form = useForm<TemplateValues, unknown, CreateTemplateInput>({
-    // The kind is "" until chosen, which the schema refuses with its own words; the form type allows it.
-    resolver: zodResolver(TemplateFormSchema) as unknown as Resolver<TemplateValues, unknown, CreateTemplateInput>,
+  const form = useForm<z.input<typeof TemplateFormSchema>, unknown, z.output<typeof TemplateFormSchema>>({
+    resolver: zodResolver(TemplateFormSchema),
     defaultValues: valuesOf(template),
   });
   const { errors, isSubmitting, isDirty } = form.formState;
@@ -269,85 +172,5 @@ export function TemplateEditor({ template }: { template?: Template }) {
         </div>
       </div>
     </form>
-  );
-}
-
-interface QuestionEditorProps {
-  index: number;
-  count: number;
-  control: Control<TemplateValues, unknown, CreateTemplateInput>;
-  register: UseFormRegister<TemplateValues>;
-  setValue: UseFormSetValue<TemplateValues>;
-  errors: FieldErrors<TemplateValues>;
-  onMove: (to: number) => void;
-  onRemove: () => void;
-}
-
-function QuestionEditor({ index: i, count, control, register, setValue, errors, onMove, onRemove }: QuestionEditorProps) {
-  const type = useWatch({ control, name: `questions.${i}.type` });
-  const id = useWatch({ control, name: `questions.${i}.id` });
-  // Every answer to a health-data form is a health detail; the server stores it so whatever is sent.
-  const healthForm = useWatch({ control, name: 'kind' }) === 'health_data';
-  const e = errors.questions?.[i];
-  const n = i + 1;
-  return (
-    <fieldset className="flex flex-col gap-4 rounded-xl border border-sand-300 p-4" data-testid="question-editor">
-      <legend className="px-1 font-bold text-ink-900">Question {n}</legend>
-      <div className="grid gap-4 md:grid-cols-3">
-        <TextareaField
-          label="Question text"
-          rows={2}
-          className="md:col-span-2"
-          error={e?.label?.message}
-          {...register(`questions.${i}.label`, {
-            onBlur: (ev: React.FocusEvent<HTMLTextAreaElement>) => {
-              if (!id) setValue(`questions.${i}.id`, slugOf(ev.target.value), { shouldDirty: true });
-            },
-          })}
-        />
-        <SelectField label="Answer" error={e?.type?.message} {...register(`questions.${i}.type`)}>
-          {QUESTION_TYPES.map((t) => (
-            <option key={t} value={t}>
-              {QUESTION_TYPE_LABELS[t]}
-            </option>
-          ))}
-        </SelectField>
-        <TextField
-          label="Id"
-          autoComplete="off"
-          hint="Lower-case letters, digits and _. Names the answer on the record."
-          error={e?.id?.message}
-          {...register(`questions.${i}.id`)}
-        />
-        <TextField label="Help (optional)" autoComplete="off" className="md:col-span-2" error={e?.help?.message} {...register(`questions.${i}.help`)} />
-        {type === 'choice' ? (
-          <TextareaField label="Options" hint="One per line; at least two." rows={4} className="md:col-span-3" error={e?.options?.message} {...register(`questions.${i}.options`)} />
-        ) : null}
-      </div>
-      <div className="flex flex-wrap gap-x-6">
-        <CheckboxField label="Required" error={e?.required?.message} {...register(`questions.${i}.required`)} />
-        {healthForm ? (
-          <p className="flex min-h-11 items-center text-sm font-semibold text-ink-800">Health detail: always, on a health-data form.</p>
-        ) : (
-          <CheckboxField
-            label="Health detail"
-            hint="Seen only by the designated lead and the performer. Once published, only a designated lead can turn this off."
-            error={e?.medical?.message}
-            {...register(`questions.${i}.medical`)}
-          />
-        )}
-      </div>
-      <div className="flex flex-wrap gap-2">
-        <Button variant="secondary" disabled={i === 0} onClick={() => onMove(i - 1)} aria-label={`Move question ${n} up`}>
-          <span aria-hidden="true">↑</span> Up
-        </Button>
-        <Button variant="secondary" disabled={i === count - 1} onClick={() => onMove(i + 1)} aria-label={`Move question ${n} down`}>
-          <span aria-hidden="true">↓</span> Down
-        </Button>
-        <Button variant="quiet" onClick={onRemove} aria-label={`Remove question ${n}`}>
-          Remove
-        </Button>
-      </div>
-    </fieldset>
   );
 }

@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useId, useMemo, useRef, useState } from 'react';
-import { useController, useForm, useWatch, type Path, type Resolver } from 'react-hook-form';
+import { useController, useForm, useWatch, type Path } from 'react-hook-form';
 import { z } from 'zod';
 import { CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
 import { answersSchemaFor, type Question } from '#shared/domain/questionnaire.ts';
@@ -69,8 +69,8 @@ function answered(answers: SigningValues['answers']): Record<string, boolean | s
 export function SigningFormView({ form: signing, idempotencyKey, mode, submit, onSigned, decline, onDeclined, progress }: SigningFormProps) {
   const { template } = signing;
   const schema = useMemo(() => signingSchema(template.questions, mode), [template.questions, mode]);
-  const form = useForm<SigningValues>({
-    resolver: zodResolver(schema) as unknown as Resolver<SigningValues>,
+  const form = useForm<z.input<typeof schema>, unknown, z.output<typeof schema>>({
+    resolver: zodResolver(schema),
     // The signature pad registers first; focus goes to the first missing answer in the form's order instead.
     shouldFocusError: false,
     defaultValues: {

@@ -4,7 +4,8 @@ import { type CreatePerformerInputSchema, PERFORMER_FIELD_KEYS } from '#shared/s
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { TextareaField } from '../../../components/ui/textarea-field.tsx';
 
-export type PerformerFormValues = z.input<typeof CreatePerformerInputSchema> & { version?: number };
+/** The fields both performer forms hold; the edit form adds the version it was based on. */
+export type PerformerFormValues = z.input<typeof CreatePerformerInputSchema>;
 
 /** The performer's own fields, named as the API names them (so its field errors land here). */
 export const PERFORMER_FIELD_NAMES: readonly Path<PerformerFormValues>[] = PERFORMER_FIELD_KEYS;

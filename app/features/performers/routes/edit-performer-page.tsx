@@ -1,7 +1,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
-import { useForm, type Resolver } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams, type LoaderFunctionArgs } from 'react-router-dom';
 import type { z } from 'zod';
 import { IdSchema } from '#shared/schemas/common.ts';
@@ -20,7 +20,7 @@ import { prefetchFor } from '../../../lib/prefetch.ts';
 import { seatCan } from '../../../lib/session/seat.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { performerQueryOptions, useUpdatePerformer } from '../api.ts';
-import { EngagementFields, PERFORMER_FIELD_NAMES, PerformerFields, engagementFieldNames, type PerformerFormValues } from '../components/performer-fields.tsx';
+import { EngagementFields, PERFORMER_FIELD_NAMES, PerformerFields, engagementFieldNames } from '../components/performer-fields.tsx';
 import { displayName } from '../components/names.tsx';
 
 export async function editPerformerLoader({ params }: LoaderFunctionArgs) {
@@ -61,9 +61,7 @@ function EditPerformer({ id }: { id: string }) {
   );
 }
 
-type UpdateOutput = z.output<typeof UpdatePerformerInputSchema>;
-
-function valuesOf(p: PerformerDetail): PerformerFormValues {
+function valuesOf(p: PerformerDetail): z.input<typeof UpdatePerformerInputSchema> {
   const c = p.contact;
   return {
     legalName: p.legalName,
@@ -88,9 +86,8 @@ function EditForm({ performer }: { performer: PerformerDetail }) {
   const update = useUpdatePerformer(performer.id);
   const [formError, setFormError] = useState<string[] | null>(null);
   const [engagements, setEngagements] = useState(performer.engagements);
-  const form = useForm<PerformerFormValues, unknown, UpdateOutput>({
-    // The version is always among the values (it comes with the record); the shared form type leaves it optional.
-    resolver: zodResolver(UpdatePerformerInputSchema) as Resolver<PerformerFormValues, unknown, UpdateOutput>,
+  const form = useForm<z.input<typeof UpdatePerformerInputSchema>, unknown, z.output<typeof UpdatePerformerInputSchema>>({
+    resolver: zodResolver(UpdatePerformerInputSchema),
     defaultValues: valuesOf(performer),
   });
   const { errors } = form.formState;

@@ -12,7 +12,7 @@ import { formErrorsFrom } from '../../../lib/form-errors.ts';
 import { paths } from '../../../lib/paths.ts';
 import { useSession } from '../../../lib/session/session-context.tsx';
 import { useCreatePerformer } from '../api.ts';
-import { EngagementFields, PERFORMER_FIELD_NAMES, PerformerFields, engagementFieldNames, type PerformerFormValues } from '../components/performer-fields.tsx';
+import { EngagementFields, PERFORMER_FIELD_NAMES, PerformerFields, engagementFieldNames } from '../components/performer-fields.tsx';
 import { seatProduction } from '../../../lib/session/seat-production.ts';
 
 export function NewPerformerPage() {
@@ -21,7 +21,7 @@ export function NewPerformerPage() {
   const navigate = useNavigate();
   const create = useCreatePerformer();
   const [formError, setFormError] = useState<string[] | null>(null);
-  const form = useForm<PerformerFormValues, unknown, z.output<typeof CreatePerformerInputSchema>>({
+  const form = useForm<z.input<typeof CreatePerformerInputSchema>, unknown, z.output<typeof CreatePerformerInputSchema>>({
     resolver: zodResolver(CreatePerformerInputSchema),
     defaultValues: {
       legalName: '',
