@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { detailWords, humanize, recordWords } from '#app/features/admin/components/audit-words.ts';
+import { detailWords, humanize, recordWords } from '#app/features/audit/components/audit-words.ts';
 
 // Plinth's own wording rules for the audit page (no outside source: the words are the product's).
 describe('audit words', () => {
