@@ -1,4 +1,4 @@
-import { createBrowserRouter, type RouteObject } from 'react-router-dom';
+import { createBrowserRouter, redirect, type RouteObject } from 'react-router-dom';
 import type { Action } from '#shared/policy.ts';
 import { AppShell } from './components/layout/app-shell.tsx';
 import { NotFoundPage } from './components/layout/not-found-page.tsx';
@@ -240,10 +240,12 @@ const routes: RouteObject[] = [
                         const m = await import('./features/admin/routes/outbox-page.tsx');
                         return { Component: m.OutboxPage, loader: m.outboxLoader };
                       }),
-                      guarded(paths.audit.pattern, 'audit.read', async () => {
-                        const m = await import('./features/admin/routes/audit-page.tsx');
+                      guarded(paths.audit.pattern, 'audit.review', async () => {
+                        const m = await import('./features/audit/routes/audit-page.tsx');
                         return { Component: m.AuditPage, loader: m.auditLoader };
                       }),
+                      // The log used to be the administrator's page alone; old links keep their filters.
+                      { path: paths.oldAudit.pattern, loader: ({ request }) => redirect(`${paths.audit.href()}${new URL(request.url).search}`) },
                       { path: '*', Component: NotFoundPage },
                     ],
                   },

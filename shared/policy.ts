@@ -35,6 +35,7 @@ export const ACTIONS = [
   'memberships.manage',
   'lead.appoint',
   'audit.read',
+  'audit.review',
   'outbox.read',
   'production.view',
   'performers.view',
@@ -125,6 +126,8 @@ const LEAD_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   // Applying, reading and closing a test, and overriding a clearance, are the lead's alone.
   'patchtests.record',
   'clearance.override',
+  // The lead answers for who touched the production's health records, so reads its part of the audit log.
+  'audit.review',
 ]);
 const ARTIST_ACTIONS: ReadonlySet<Action> = new Set<Action>([
   'production.view',
@@ -147,6 +150,9 @@ const ARCHIVIST_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view
 const PERFORMER_ACTIONS: ReadonlySet<Action> = new Set<Action>(['production.view']);
 /** What the performer may do with their own record, whatever production it is viewed through. */
 const SELF_ACTIONS: ReadonlySet<Action> = new Set<Action>(['performer.self', 'performer.view', 'medical.read', 'consents.view', 'consents.withdraw', 'patchtests.read']);
+
+/** Production actions the studio administrator holds on every production without a role there. */
+const ADMIN_EVERYWHERE: ReadonlySet<Action> = new Set<Action>(['audit.review']);
 
 const ADMIN_ONLY: ReadonlySet<Action> = new Set<Action>([
   'users.manage',
@@ -197,6 +203,7 @@ function productionsOf(resource: Resource): string[] {
  */
 export function can(actor: Actor, action: Action, resource: Resource = {}): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
+  if (ADMIN_EVERYWHERE.has(action) && actor.isAdmin) return true;
   const studioWide = STUDIO_WIDE[action];
   if (studioWide) return studioWide(actor);
 
@@ -239,6 +246,7 @@ function roleGrantsSomewhere(actor: Actor, action: Action): boolean {
 /** Does any of this actor's roles grant the action somewhere? Only for showing navigation, never for data. */
 export function canSomewhere(actor: Actor, action: Action): boolean {
   if (ADMIN_ONLY.has(action)) return actor.isAdmin;
+  if (ADMIN_EVERYWHERE.has(action) && actor.isAdmin) return true;
   const studioWide = STUDIO_WIDE[action];
   if (studioWide) return studioWide(actor);
   if (SELF_ACTIONS.has(action) && actor.performerIds.length > 0) return true;

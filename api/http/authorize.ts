@@ -7,6 +7,7 @@ const ACTION_WORDS: Record<Action, string> = {
   'memberships.manage': 'manage who works on a production',
   'lead.appoint': 'appoint the designated lead',
   'audit.read': 'read the audit log',
+  'audit.review': 'read the audit log of this production',
   'outbox.read': 'read the outbox',
   'production.view': 'see this production',
   'performers.view': 'see performers',

@@ -35,7 +35,9 @@ export const paths = {
     href: (id: string) => `/admin/productions/${encodeURIComponent(id)}`,
   },
   outbox: { pattern: '/admin/outbox', href: () => '/admin/outbox' },
-  audit: { pattern: '/admin/audit', href: () => '/admin/audit' },
+  audit: { pattern: '/audit', href: () => '/audit' },
+  /** Where the audit log was when only the administrator read it: redirects to `audit`. */
+  oldAudit: { pattern: '/admin/audit', href: () => '/admin/audit' },
 
   performers: {
     pattern: '/performers',

@@ -193,3 +193,26 @@ describe('no staff role but the designated lead reads health answers through any
     expect(withdrawals.text).toContain('No longer comfortable with face casting');
   });
 });
+
+describe('every health-data read the sweep made is logged with what it exposed', () => {
+  it('the lead reads through every GET route; each medical.read entry names its fields in details.fields', async () => {
+    const cookie = await t.sessionFor('lead@plinth.test');
+    for (const route of allRoutes.filter((r) => r.method === 'get' && !r.path.includes(':token'))) {
+      const own = [...ownIds].find(([prefix]) => route.path.startsWith(prefix))?.[1];
+      const fills = route.path.includes(':id') ? (own ?? ids.id!) : route.path.includes(':code') ? ids.code! : [''];
+      for (const fill of fills) {
+        await request(t.app)
+          .get(concretePath(route, { id: fill, code: fill, photoId: photoOf.get(fill) ?? '' }))
+          .query({ performerId: ids.performerId![0], productionId: ids.productionId![0], casts: ids.castId!.join(','), locations: ids.locationId!.join(',') })
+          .set('Cookie', cookie)
+          .buffer(true)
+          .parse(rawBody);
+      }
+    }
+    const rows = await t.db.db.selectFrom('audit_log').select(['entity_type', 'route', 'details']).where('action', '=', 'medical.read').execute();
+    // The lead's sweep reached health details of several kinds (consents, tests, photos, incidents…).
+    expect(new Set(rows.map((r) => r.entity_type)).size).toBeGreaterThan(5);
+    const unnamed = rows.filter((r) => !Array.isArray((r.details as { fields?: unknown }).fields)).map((r) => `${r.entity_type} ${r.route}`);
+    expect([...new Set(unnamed)]).toEqual([]);
+  }, 180_000);
+});

@@ -17,7 +17,7 @@ afterAll(async () => {
 const ACCOUNTS: { email: string; heading: RegExp; context: RegExp | null; nav: string[] }[] = [
   { email: 'admin@plinth.test', heading: /Today · Studio administrator/, context: null, nav: ['Home', 'Users', 'Productions', 'Outbox', 'Audit log'] },
   { email: 'head@plinth.test', heading: /Today · Department head/, context: /The Lantern Keeper/, nav: ['Home'] },
-  { email: 'lead@plinth.test', heading: /Today · Designated lead/, context: /The Lantern Keeper/, nav: ['Home'] },
+  { email: 'lead@plinth.test', heading: /Today · Designated lead/, context: /The Lantern Keeper/, nav: ['Home', 'Audit log'] },
   { email: 'artist@plinth.test', heading: /Today · Artist/, context: /The Lantern Keeper/, nav: ['Home'] },
   { email: 'archivist@plinth.test', heading: /Today · Archivist/, context: /The Lantern Keeper|Saltglass Mile/, nav: ['Home'] },
   // A performer's own view has no staff words: no production · role line, no "Acting as".

@@ -24,6 +24,8 @@ const TABLE: [Action, boolean[]][] = [
   ['productions.manage', [true, false, false, false, false, false, false]],
   ['lead.appoint', [true, false, false, false, false, false, false]],
   ['audit.read', [true, false, false, false, false, false, false]],
+  // The production's part of the audit log: the administrator and the designated lead.
+  ['audit.review', [true, false, true, false, false, false, false]],
   ['outbox.read', [true, false, false, false, false, false, false]],
   ['performers.manage', [false, true, true, false, false, false, false]],
   ['consents.request', [false, true, true, false, false, false, false]],
@@ -81,6 +83,31 @@ describe('medical data', () => {
   it('follows a studio-wide performer record to any production the performer is engaged on', () => {
     expect(can(lead, 'medical.read', { performerId: PERF, performerProductionIds: [P2, P1] })).toBe(true);
     expect(can(lead, 'medical.read', { performerId: PERF, performerProductionIds: [P2] })).toBe(false);
+  });
+});
+
+describe('the audit log', () => {
+  const leadElsewhere = actor({ leadOf: [P2] });
+  const headAndLeadElsewhere = actor({ memberships: [{ productionId: P1, role: 'head' }], leadOf: [P2] });
+  it('the whole log is the administrator’s alone; a production’s part is also its lead’s', () => {
+    expect(can(admin, 'audit.read')).toBe(true);
+    expect(can(lead, 'audit.read')).toBe(false);
+    expect(can(admin, 'audit.review', { productionId: P2 })).toBe(true);
+    expect(can(lead, 'audit.review', { productionId: P2 })).toBe(false);
+    expect(can(leadElsewhere, 'audit.review', { productionId: P2 })).toBe(true);
+    expect(can(leadElsewhere, 'audit.review', { productionId: P1 })).toBe(false);
+  });
+  it('a head role does not open it, even held beside a lead appointment elsewhere', () => {
+    expect(can(headAndLeadElsewhere, 'audit.review', { productionId: P1 })).toBe(false);
+    expect(can(headAndLeadElsewhere, 'audit.review', { productionId: P2 })).toBe(true);
+  });
+  it('with no production named, only the administrator may', () => {
+    for (const who of [head, lead, artist, archivist, performer, nobody, leadElsewhere]) expect(can(who, 'audit.review')).toBe(false);
+    expect(can(admin, 'audit.review')).toBe(true);
+  });
+  it('shows in the navigation of the administrator and of leads only', () => {
+    const shown = [admin, head, lead, artist, archivist, performer, nobody, leadElsewhere].map((who) => canSomewhere(who, 'audit.review'));
+    expect(shown).toEqual([true, false, true, false, false, false, false, true]);
   });
 });
 
@@ -180,6 +207,8 @@ describe('every action, for every role, on one performer record of production P1
     'memberships.manage': [Y, N, N, N, N, N, N, N],
     'lead.appoint': [Y, N, N, N, N, N, N, N],
     'audit.read': [Y, N, N, N, N, N, N, N],
+    // Its own production's entries for the lead; the lead of another production reads theirs, not P1's.
+    'audit.review': [Y, N, Y, N, N, N, N, N],
     'outbox.read': [Y, N, N, N, N, N, N, N],
     'production.view': [N, Y, Y, Y, Y, Y, N, N],
     'performers.view': [N, Y, Y, Y, Y, N, N, N],

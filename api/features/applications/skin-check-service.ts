@@ -77,12 +77,15 @@ async function incidentView(ctx: AppContext, rows: readonly IncidentRow[]): Prom
   }));
 }
 
+/** What an incident shows its reader of the performer's health. */
+const INCIDENT_FIELDS = ['outcome', 'observation', 'closingNote'];
+
 /** A production's incidents for its designated lead: health details, so each performer's read is logged. */
 export async function incidentsFor(ctx: AppContext, actor: Actor, productionId: string, status: 'open' | 'closed' | undefined, req: Request): Promise<Incident[]> {
   authorize(actor, 'medical.read', { productionId });
   const rows = await listIncidents(ctx.db, { productionIds: [productionId], status });
   for (const performerId of new Set(rows.map((r) => r.performerId))) {
-    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'incident', productionId, performerId, req, details: { incidents: rows.filter((r) => r.performerId === performerId).map((r) => r.id) } });
+    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'incident', productionId, performerId, req, details: { fields: INCIDENT_FIELDS, incidents: rows.filter((r) => r.performerId === performerId).map((r) => r.id) } });
   }
   return incidentView(ctx, rows);
 }
@@ -91,7 +94,7 @@ export async function incidentById(ctx: AppContext, actor: Actor, id: string, re
   const r = await findIncident(ctx.db, id);
   if (!r) throw notFound('That incident');
   authorize(actor, 'medical.read', { productionId: r.productionId, performerId: r.performerId });
-  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'incident', entityId: id, productionId: r.productionId, performerId: r.performerId, req });
+  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', entityType: 'incident', entityId: id, productionId: r.productionId, performerId: r.performerId, req, details: { fields: INCIDENT_FIELDS } });
   return (await incidentView(ctx, [r]))[0]!;
 }
 

@@ -1,7 +1,6 @@
-import { AuditPageSchema, AuditQuerySchema } from '#shared/schemas/admin.ts';
+import { AuditPageSchema, AuditQuerySchema } from '#shared/schemas/audit.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
-import { listAuditPage } from './repo.ts';
-import { healthReadsOf } from './service.ts';
+import { auditPage, healthReadsOf } from './service.ts';
 import { IdParamsSchema } from '#shared/schemas/common.ts';
 import { HealthReadListSchema } from '#shared/schemas/audit.ts';
 
@@ -9,14 +8,14 @@ export const auditRoutes: AnyRoute[] = [
   defineRoute({
     method: 'get',
     path: '/api/audit',
-    summary: 'The audit log (newest first by default), filterable by action',
-    tag: 'admin',
+    summary:
+      'The audit log (newest first by default): every entry for the administrator, the productions they lead for a designated lead; filterable by text, performer, production, event or group of events, and days on the studio clock',
+    tag: 'audit',
     auth: 'session',
-    requires: 'audit.read',
     query: AuditQuerySchema,
     response: AuditPageSchema,
     errors: [403],
-    handler: ({ ctx, query }) => listAuditPage(ctx.db, query),
+    handler: ({ ctx, actor, query }) => auditPage(ctx, actor, query),
   }),
   defineRoute({
     method: 'get',

@@ -1,10 +1,11 @@
 import type { Actor } from '#shared/policy.ts';
-import type { HealthRead } from '#shared/schemas/audit.ts';
+import { can } from '#shared/policy.ts';
+import type { AuditPage, AuditQuery, HealthRead } from '#shared/schemas/audit.ts';
 import type { AppContext } from '../../context.ts';
 import { authorize } from '../../http/authorize.ts';
 import { notFound } from '../../http/errors.ts';
 import { findPerformerScope } from '../performers/index.ts';
-import { listHealthReadsOf } from './repo.ts';
+import { type AuditScope, listAuditPage, listHealthReadsOf } from './repo.ts';
 
 const WHAT_WAS_READ: Record<string, string> = {
   consent: 'Answers on a consent form',
@@ -25,4 +26,23 @@ export async function healthReadsOf(ctx: AppContext, actor: Actor, performerId: 
   authorize(actor, 'medical.read', { performerId, performerProductionIds: performer.productionIds });
   const rows = await listHealthReadsOf(ctx.db, performerId);
   return rows.map((r) => ({ at: r.at, who: r.who, what: WHAT_WAS_READ[r.entityType] ?? r.entityType.replace(/_/g, ' ') }));
+}
+
+/**
+ * One page of the audit log. The administrator reads every entry; a designated lead reads the
+ * entries of the productions they lead, and the entries naming no production that are about a
+ * performer engaged on one of them (a change of address, a linked sign-in). Anyone else is refused.
+ * A production filter must name one the reader may review.
+ */
+export async function auditPage(ctx: AppContext, actor: Actor, query: AuditQuery): Promise<AuditPage> {
+  if (query.production) authorize(actor, 'audit.review', { productionId: query.production });
+  let scope: AuditScope;
+  if (can(actor, 'audit.read')) scope = { all: true };
+  else {
+    const productionIds = actor.leadOf.filter((productionId) => can(actor, 'audit.review', { productionId }));
+    // Asked with no production: refused with the policy's words for anyone who leads none.
+    if (productionIds.length === 0) authorize(actor, 'audit.review');
+    scope = { all: false, productionIds };
+  }
+  return listAuditPage(ctx.db, query, scope, ctx.config.timeZone);
 }

@@ -75,7 +75,7 @@ export async function consentDetail(ctx: AppContext, actor: Actor, id: string, r
       entityId: id,
       productionId: row.summary.productionId,
       req,
-      details: { performerId: row.summary.performerId, fields: answers.filter((a) => a.medical).map((a) => a.questionId) },
+      details: { performerId: row.summary.performerId, fields: [...answers.filter((a) => a.medical).map((a) => a.questionId), ...(row.withdrawalReason ? ['withdrawalReason'] : [])] },
     });
   }
   const s = row.summary;
@@ -101,9 +101,11 @@ export async function consentPdf(ctx: AppContext, actor: Actor, id: string, req:
   const { resource } = await consentResource(ctx.db, row.summary.performerId, row.summary.productionId);
   authorize(actor, 'consents.view', resource);
   const answers = await listConsentAnswers(ctx.db, id);
-  if (answers.some((a) => isMedicalAnswer(row.summary.kind, a.medical))) {
+  const medicalAnswers = answers.filter((a) => isMedicalAnswer(row.summary.kind, a.medical));
+  if (medicalAnswers.length > 0) {
     authorize(actor, 'medical.read', resource);
-    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.summary.performerId, entityType: 'consent_pdf', entityId: id, productionId: row.summary.productionId, req, details: { performerId: row.summary.performerId } });
+    const fields = medicalAnswers.map((a) => a.questionId);
+    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.summary.performerId, entityType: 'consent_pdf', entityId: id, productionId: row.summary.productionId, req, details: { performerId: row.summary.performerId, fields } });
   }
   const file = await readStoredFile(ctx.db, ctx.files, row.pdfFileId);
   if (!file) throw notFound('The PDF');

@@ -67,7 +67,7 @@ export async function performerPatchTests(ctx: AppContext, actor: Actor, perform
       return row;
     });
   if (medical) {
-    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId, entityType: 'patch_tests', entityId: performerId, req, details: { performerId } });
+    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId, entityType: 'patch_tests', entityId: performerId, req, details: { performerId, fields: ['outcome', 'overrideNote'] } });
   }
   return {
     tests: tests.toReversed(),

@@ -104,7 +104,7 @@ export async function sendReadingPhoto(ctx: AppContext, actor: Actor, id: string
   if (!photo) throw notFound('That photo');
   const file = await readStoredFile(ctx.db, ctx.files, size === 'photo' ? photo.fileId : photo.thumbFileId);
   if (!file) throw notFound('That photo');
-  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.performerId, entityType: 'reading_photo', entityId: photoId, productionId: row.productionId, req, details: { performerId: row.performerId } });
+  await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.performerId, entityType: 'reading_photo', entityId: photoId, productionId: row.productionId, req, details: { performerId: row.performerId, fields: [size === 'photo' ? 'readingPhoto' : 'readingPhotoThumbnail'] } });
   res.set('Cache-Control', 'private, no-store');
   res.type(file.contentType).send(file.bytes);
 }

@@ -57,7 +57,7 @@ export async function detailFor(ctx: AppContext, actor: Actor, id: string, req: 
   const medical = can(actor, 'medical.read', resource);
   const detail = await testDetail(ctx.db, row, { medical, now: new Date(), timeZone: ctx.config.timeZone });
   if (medical) {
-    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.performerId, entityType: 'patch_test', entityId: id, productionId: row.productionId, req, details: { performerId: row.performerId } });
+    await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId: row.performerId, entityType: 'patch_test', entityId: id, productionId: row.productionId, req, details: { performerId: row.performerId, fields: ['readingCodes', 'readingNotes', 'readingPhotos'] } });
   }
   return detail;
 }

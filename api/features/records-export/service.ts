@@ -70,7 +70,7 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
     entityType: 'records_export',
     entityId: performerId,
     req,
-    details: { consents: consents.length, casts: casts.length, patchTests: tests.length, applications: applications.length, handedOverBy: actor.performerIds.includes(performerId) ? null : actor.userId },
+    details: { fields: ['consentAnswers', 'withdrawalReasons', 'patchTestReadings', 'skinChecks'], consents: consents.length, casts: casts.length, patchTests: tests.length, applications: applications.length, handedOverBy: actor.performerIds.includes(performerId) ? null : actor.userId },
   });
   const zip = archiver('zip', { zlib: { level: 9 } });
   const json = (value: unknown) => JSON.stringify(value, null, 2);

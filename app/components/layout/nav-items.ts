@@ -43,7 +43,8 @@ export const NAV_ITEMS: readonly NavEntry[] = [
   { label: 'Users', to: paths.users.href(), action: 'users.manage' },
   { label: 'Productions', to: paths.productions.href(), action: 'productions.manage' },
   { label: 'Outbox', to: paths.outbox.href(), action: 'outbox.read' },
-  { label: 'Audit log', to: paths.audit.href(), action: 'audit.read' },
+  // The administrator's whole log, or the designated lead's production's part of it.
+  { label: 'Audit log', to: paths.audit.href(), action: 'audit.review' },
 ];
 
 export function navItemsFor(session: Session): NavItem[] {

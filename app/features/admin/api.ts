@@ -1,6 +1,5 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import {
-  AuditPageSchema,
   OutboxMessageDetailSchema,
   MailFailureListSchema,
   MailRetryResultSchema,
@@ -28,7 +27,6 @@ import { auditKey, homeKey, outboxKey, productionsKey, sessionKey, usersKey, inv
 
 export type ProductionListQuery = { q?: string; page: number; pageSize: number; sort: 'name' | 'startsOn'; dir: 'asc' | 'desc' };
 export type OutboxQuery = { page: number; pageSize: number };
-export type AuditQuery = { q?: string; page: number; pageSize: number; sort: 'at'; dir: 'asc' | 'desc'; action?: string };
 
 // ---- users
 
@@ -159,7 +157,7 @@ export function useEndLead(id: string) {
   });
 }
 
-// ---- outbox and audit (read-only)
+// ---- outbox (read-only)
 
 export function outboxQueryOptions(query: OutboxQuery) {
   return queryOptions({
@@ -189,13 +187,5 @@ export function outboxMessageQueryOptions(id: string) {
   return queryOptions({
     queryKey: [...outboxKey, 'message', id] as const,
     queryFn: ({ signal }) => api.get(`/api/outbox/${encodeURIComponent(id)}`, OutboxMessageDetailSchema, signal),
-  });
-}
-
-export function auditQueryOptions(query: AuditQuery) {
-  return queryOptions({
-    queryKey: [...auditKey, query] as const,
-    queryFn: ({ signal }) => api.get(withQuery('/api/audit', query), AuditPageSchema, signal),
-    placeholderData: keepPreviousData,
   });
 }

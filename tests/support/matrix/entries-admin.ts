@@ -1,6 +1,6 @@
 // Studio-wide routes (the administrator's), the session, health and sign-in.
 import { rolesOn } from '#shared/policy.ts';
-import type { Entries } from './entry.ts';
+import { type Entries, onProduction, policy } from './entry.ts';
 
 const UNKNOWN_TOKEN = 'x'.repeat(43);
 
@@ -44,7 +44,11 @@ export const adminEntries: Entries = {
   'GET /api/outbox/failures': {},
   'POST /api/outbox/failures/:id/retry': { input: (w) => ({ params: { id: w.id.mailFailure! } }) },
   'GET /api/outbox/:id': { input: (w) => ({ params: { id: w.id.mailFile! } }) },
-  'GET /api/audit': {},
+  'GET /api/audit': {
+    may: policy('audit.review', onProduction('lantern')),
+    input: (w) => ({ query: { production: w.id.lantern!, action: 'consent.', from: '2020-01-01' } }),
+    note: "the first production's part of the log: its lead and the administrator; the other production's lead is refused",
+  },
   // One-time links: the token is the permission. An unknown one is refused alike for everyone.
   'GET /api/email-confirmations/:token': { public: 404, input: () => ({ params: { token: UNKNOWN_TOKEN } }) },
   'POST /api/email-confirmations/:token': { public: 404, input: () => ({ params: { token: UNKNOWN_TOKEN } }) },

@@ -65,3 +65,59 @@ export function detailWords(value: unknown): string | null {
 function humanizeCode(value: string): string {
   return /^[a-z]+(_[a-z]+)+$/.test(value) ? humanize(value) : value;
 }
+
+/** What a group of events is about, for the "What happened" filter ("consent." → "Consents"). */
+const GROUP_WORDS: Record<string, string> = {
+  auth: 'Signing in and out',
+  user: 'Users',
+  production: 'Productions',
+  membership: 'Roles on a production',
+  lead: 'The lead appointment',
+  performer: 'Performer records',
+  engagement: 'Engagements',
+  template: 'Consent forms',
+  signing_request: 'Signing requests',
+  tablet: 'The signing tablet',
+  consent: 'Consents',
+  withdrawal_link: 'Withdrawal links',
+  booking: 'Sessions',
+  patch_test: 'Patch tests',
+  ingredient: 'Ingredients',
+  product: 'Products',
+  formulation: 'Formulations',
+  lot: 'Product lots',
+  location: 'Storage places',
+  cast: 'Life casts',
+  build: 'Appliance builds',
+  kit: 'Kits',
+  lead_request: 'Questions to the lead',
+  application: 'Applications',
+  incident: 'Incidents',
+};
+
+export interface ActionChoice {
+  /** The filter's value: an event code, or a group's prefix ending with a dot. */
+  value: string;
+  words: string;
+}
+
+/**
+ * The "What happened" choices, in words: every group of two or more events ("Consents: any"),
+ * then every single event, each list alphabetical. The filter never asks for a code.
+ */
+export function auditActionChoices(labels: Record<string, string>): { groups: ActionChoice[]; events: ActionChoice[] } {
+  const perGroup = new Map<string, number>();
+  for (const code of Object.keys(labels)) {
+    const prefix = code.slice(0, code.indexOf('.'));
+    perGroup.set(prefix, (perGroup.get(prefix) ?? 0) + 1);
+  }
+  const byWords = (a: ActionChoice, b: ActionChoice) => a.words.localeCompare(b.words);
+  const groups = [...perGroup]
+    .filter(([, n]) => n > 1)
+    .map(([prefix]) => ({ value: `${prefix}.`, words: `${GROUP_WORDS[prefix] ?? humanize(prefix)}: any` }))
+    .sort(byWords);
+  const events = Object.entries(labels)
+    .map(([value, words]) => ({ value, words }))
+    .sort(byWords);
+  return { groups, events };
+}
