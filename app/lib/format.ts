@@ -17,6 +17,46 @@ export function formatDateTime(iso: string | null | undefined): string {
   return Number.isNaN(date.getTime()) ? iso : dateTimeFormat.format(date);
 }
 
+/**
+ * Formats for one locale, made once: the browser's own (`undefined`) unless a screen names one, as the
+ * tablet's signing screens may for the performer's language.
+ */
+const cache = new Map<string, Intl.DateTimeFormat>();
+function dateFormatFor(kind: 'day' | 'long' | 'clock', locale: string | undefined): Intl.DateTimeFormat {
+  const key = `${kind}|${locale ?? ''}`;
+  let f = cache.get(key);
+  if (!f) {
+    const options: Intl.DateTimeFormatOptions =
+      kind === 'day' ? { weekday: 'long', day: 'numeric', month: 'long' } : kind === 'long' ? { day: 'numeric', month: 'long', year: 'numeric' } : { hour: '2-digit', minute: '2-digit' };
+    f = new Intl.DateTimeFormat(locale, options);
+    cache.set(key, f);
+  }
+  return f;
+}
+
+function toDate(at: Date | string): Date | null {
+  const date = typeof at === 'string' ? new Date(at) : at;
+  return Number.isNaN(date.getTime()) ? null : date;
+}
+
+/** A day as a heading: weekday, day and month ("Monday 7 December" in British English). */
+export function formatDayTitle(at: Date | string, locale?: string): string {
+  const date = toDate(at);
+  return date ? dateFormatFor('day', locale).format(date) : String(at);
+}
+
+/** A date in full words with its year ("7 December 2026" in British English). */
+export function formatLongDate(at: Date | string, locale?: string): string {
+  const date = toDate(at);
+  return date ? dateFormatFor('long', locale).format(date) : String(at);
+}
+
+/** The time of day on the reader's clock, hours and minutes ("14:05", or "02:05 PM" in American English). */
+export function formatClock(at: Date | string, locale?: string): string {
+  const date = toDate(at);
+  return date ? dateFormatFor('clock', locale).format(date) : String(at);
+}
+
 const number = new Intl.NumberFormat();
 export function formatNumber(n: number): string {
   return number.format(n);

@@ -72,4 +72,22 @@ describe('sessions as a calendar', () => {
       await context.close();
     }
   });
+
+  it('words its days in the browser’s own locale (a German tablet here), not a fixed one', async () => {
+    const context = await tabletContext(browser, TABLET_PORTRAIT, { locale: 'de-DE' });
+    const page = await context.newPage();
+    try {
+      await signInThroughIdp(page, appUrl, 'head@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Sessions' }).click();
+      const calendar = page.getByTestId('session-calendar');
+      await calendar.getByTestId('calendar-day').first().waitFor();
+      // CLDR's German patterns: "Montag, 7. Dezember" for a day, "7. Dezember 2026" in the week's title.
+      const days = await calendar.getByTestId('calendar-day').getByRole('heading', { level: 4 }).allTextContents();
+      expect(days[0]).toMatch(/^Montag, \d{1,2}\. \p{L}+$/u);
+      expect(days.at(-1)).toMatch(/^Sonntag, \d{1,2}\. \p{L}+$/u);
+      expect(await calendar.getByTestId('calendar-title').textContent()).toMatch(/^\d{1,2}\. \p{L}+ \d{4} – \d{1,2}\. \p{L}+ \d{4}$/u);
+    } finally {
+      await context.close();
+    }
+  });
 });

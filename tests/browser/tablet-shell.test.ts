@@ -37,11 +37,42 @@ describe('homes offer the next step', () => {
       const empty = page.getByTestId('empty-state');
       await empty.getByText('Nothing needs doing today.').waitFor();
       const actions = empty.getByTestId('start-actions').getByRole('link');
-      expect(await actions.allTextContents()).toEqual(['Find a performer', 'Product catalogue']);
+      // The check comes first: nothing goes on the skin without one.
+      expect(await actions.allTextContents()).toEqual(['Run a check', 'Find a performer']);
       for (const box of await Promise.all((await actions.all()).map((a) => a.boundingBox()))) expect(box!.height).toBeGreaterThanOrEqual(44);
+      await expectAccessible(page, 'artist home, nothing to do');
       await actions.first().click();
+      await page.getByRole('heading', { level: 1, name: 'Check before an application' }).waitFor();
+      await page.goBack();
+      await empty.getByTestId('start-actions').getByRole('link', { name: 'Find a performer' }).click();
       await page.getByRole('heading', { level: 1, name: /Performers/ }).waitFor();
     });
+  });
+
+  it('every staff seat’s home offers one or two next steps, whatever the day holds', async () => {
+    // A sign-in starts on the seat last chosen, which other files may change: each seat's first step is read from the heading.
+    const firstStep: Record<string, string> = {
+      'Department head': 'Register a performer',
+      'Designated lead': 'Performers',
+      Artist: 'Run a check',
+      Archivist: 'Find a cast',
+      'Studio administrator': 'Give someone a role',
+    };
+    for (const email of ['head@plinth.test', 'lead@plinth.test', 'archivist@plinth.test', 'admin@plinth.test']) {
+      await withPage(TABLET_PORTRAIT, async (page) => {
+        await signInThroughIdp(page, appUrl, email, DEMO_PASSWORD);
+        const heading = page.getByRole('heading', { level: 1, name: /^Today · / });
+        await heading.waitFor();
+        const seat = (await heading.textContent())!.replace(/^Today · /, '').trim();
+        expect(Object.keys(firstStep), email).toContain(seat);
+        const actions = page.getByTestId('start-actions').getByRole('link');
+        await actions.first().waitFor();
+        const labels = await actions.allTextContents();
+        expect(labels.length, email).toBeGreaterThanOrEqual(1);
+        expect(labels.length, email).toBeLessThanOrEqual(2);
+        expect(labels[0], email).toBe(firstStep[seat]);
+      });
+    }
   });
 
   it('a performer’s home shows their next session and what waits for them to sign, in their own words', async () => {

@@ -22,8 +22,9 @@ export function launchBrowser(extraArgs: readonly string[] = []): Promise<Browse
   });
 }
 
-export async function tabletContext(browser: Browser, viewport = TABLET_LANDSCAPE): Promise<BrowserContext> {
-  return browser.newContext({ viewport, hasTouch: true, isMobile: false, deviceScaleFactor: 1, locale: 'en-GB', timezoneId: 'Europe/London' });
+/** A tablet's browser: British English on the studio's clock unless a test names another locale. */
+export async function tabletContext(browser: Browser, viewport = TABLET_LANDSCAPE, options: { locale?: string } = {}): Promise<BrowserContext> {
+  return browser.newContext({ viewport, hasTouch: true, isMobile: false, deviceScaleFactor: 1, locale: options.locale ?? 'en-GB', timezoneId: 'Europe/London' });
 }
 
 export interface AxeViolation {

@@ -13,6 +13,8 @@ interface HomeTask {
   detail: string;
   count: number;
   href: string | null;
+  /** Who, and the moment for the client to word. */
+  items?: { label: string; at: string | null }[];
 }
 
 /** A test under reading with the protocol it was booked on, as the reading lists and the reminder job read it. */
@@ -59,10 +61,25 @@ export async function headPatchTestTasks(db: Db, productionId: string, now: Date
   const booked = await listTestSummaries(db, { productionId, statuses: ['booked'], startsFrom: new Date(now.getTime() - DAY) });
   const waiting = booked.filter((t) => t.consentMissing);
   const week = booked.filter((t) => new Date(t.startsAt).getTime() < now.getTime() + 7 * DAY);
-  const list = (tests: typeof booked, empty: string) =>
-    tests.length ? tests.slice(0, 3).map((t) => `${t.performerName} (${t.startsAt.slice(0, 10)})`).join(', ') + (tests.length > 3 ? '…' : '') : empty;
+  // The client words each test's time in the reader's locale; the detail only says what the list is.
+  const items = (tests: typeof booked) => tests.slice(0, 3).map((t) => ({ label: t.performerName, at: t.startsAt }));
+  const first = (tests: typeof booked, some: string) => (tests.length > 3 ? `${some}; the first three of ${tests.length}:` : `${some}:`);
   return [
-    { id: 'patch-tests-need-consent', title: 'Patch tests waiting for a consent', detail: list(waiting, 'Every booked test has its patch-testing consent.'), count: waiting.length, href: waiting[0] ? `/patch-tests/${waiting[0].id}` : null },
-    { id: 'patch-tests-this-week', title: 'Patch tests this week', detail: list(week, 'No patch test is booked in the next seven days.'), count: week.length, href: week[0] ? `/patch-tests/${week[0].id}` : null },
+    {
+      id: 'patch-tests-need-consent',
+      title: 'Patch tests waiting for a consent',
+      detail: waiting.length ? first(waiting, 'Ask for the patch-testing consent before the test') : 'Every booked test has its patch-testing consent.',
+      count: waiting.length,
+      href: waiting[0] ? `/patch-tests/${waiting[0].id}` : null,
+      items: items(waiting),
+    },
+    {
+      id: 'patch-tests-this-week',
+      title: 'Patch tests this week',
+      detail: week.length ? first(week, 'Booked in the next seven days') : 'No patch test is booked in the next seven days.',
+      count: week.length,
+      href: week[0] ? `/patch-tests/${week[0].id}` : null,
+      items: items(week),
+    },
   ];
 }

@@ -7,6 +7,7 @@ import { Button } from '../../../components/ui/button.tsx';
 import { Dialog } from '../../../components/ui/dialog.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { SelectField } from '../../../components/ui/select-field.tsx';
+import { formatClock, formatDayTitle, formatLongDate } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { performersQueryOptions } from '../../performers/index.ts';
 import { bookingsWindowQueryOptions } from '../api.ts';
@@ -14,9 +15,6 @@ import { ConsentGate } from './bookings-table.tsx';
 import { BookingForm } from './booking-form.tsx';
 import { BOOKING_PURPOSE_LABELS } from './purpose.ts';
 
-const dayTitle = new Intl.DateTimeFormat('en-GB', { weekday: 'long', day: 'numeric', month: 'long' });
-const rangeTitle = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric' });
-const clock = new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit' });
 
 function sameDay(a: Date, b: Date) {
   return a.getFullYear() === b.getFullYear() && a.getMonth() === b.getMonth() && a.getDate() === b.getDate();
@@ -36,7 +34,7 @@ export function SessionCalendar({ productionId, canBook }: { productionId: strin
   const to = addDays(days.at(-1)!, 1);
   const sessions = useQuery(bookingsWindowQueryOptions(productionId, from.toISOString(), to.toISOString()));
   const step = view === 'day' ? 1 : 7;
-  const title = view === 'day' ? dayTitle.format(from) : `${rangeTitle.format(from)} – ${rangeTitle.format(days.at(-1)!)}`;
+  const title = view === 'day' ? formatDayTitle(from) : `${formatLongDate(from)} – ${formatLongDate(days.at(-1)!)}`;
 
   return (
     <div className="flex flex-col gap-4" data-testid="session-calendar">
@@ -75,10 +73,10 @@ export function SessionCalendar({ productionId, canBook }: { productionId: strin
               return (
                 <li key={day.toISOString()} className="flex flex-col gap-2 rounded-2xl border border-sand-300 bg-white p-4" data-testid="calendar-day">
                   <div className="flex flex-wrap items-center justify-between gap-2">
-                    <h4 className="text-lg font-bold text-ink-900">{dayTitle.format(day)}</h4>
+                    <h4 className="text-lg font-bold text-ink-900">{formatDayTitle(day)}</h4>
                     {canBook && !past ? (
                       <Button variant="secondary" onClick={() => setBookingOn(day)}>
-                        Book on this day<span className="sr-only">, {dayTitle.format(day)}</span>
+                        Book on this day<span className="sr-only">, {formatDayTitle(day)}</span>
                       </Button>
                     ) : null}
                   </div>
@@ -89,7 +87,7 @@ export function SessionCalendar({ productionId, canBook }: { productionId: strin
           </ol>
         )}
       </QueryView>
-      <Dialog open={bookingOn !== null} onClose={() => setBookingOn(null)} title={bookingOn ? `Book a session on ${dayTitle.format(bookingOn)}` : 'Book a session'} testId="calendar-book-dialog">
+      <Dialog open={bookingOn !== null} onClose={() => setBookingOn(null)} title={bookingOn ? `Book a session on ${formatDayTitle(bookingOn)}` : 'Book a session'} testId="calendar-book-dialog">
         {bookingOn ? <BookFromCalendar productionId={productionId} day={bookingOn} /> : null}
       </Dialog>
     </div>
@@ -102,11 +100,11 @@ function SessionCard({ booking: b }: { booking: Booking }) {
     <li className="flex flex-col gap-2 rounded-xl bg-sand-100 p-3 sm:flex-row sm:items-start sm:justify-between" data-testid="calendar-session">
       <div className="flex flex-col gap-0.5">
         <p className="font-semibold text-ink-900">
-          <time dateTime={b.startsAt}>{clock.format(start)}</time>
+          <time dateTime={b.startsAt}>{formatClock(start)}</time>
           {b.endsAt ? (
             <>
               {' – '}
-              <time dateTime={b.endsAt}>{clock.format(new Date(b.endsAt))}</time>
+              <time dateTime={b.endsAt}>{formatClock(new Date(b.endsAt))}</time>
             </>
           ) : null}{' '}
           · {BOOKING_PURPOSE_LABELS[b.purpose]}

@@ -26,9 +26,10 @@ const START_ACTIONS: Record<string, readonly StartAction[]> = {
     { label: 'Performers', to: () => paths.performers.href(), action: 'performers.view' },
     { label: 'Sessions', to: () => paths.bookings.href(), action: 'sessions.view' },
   ],
+  // Nothing to do still starts from the check: it comes before anything touches the skin.
   artist: [
+    { label: 'Run a check', to: () => paths.check.href(), action: 'clearance.check' },
     { label: 'Find a performer', to: () => paths.performers.href(), action: 'performers.view' },
-    { label: 'Product catalogue', to: () => paths.catalogue.href(), action: 'catalogue.read' },
   ],
   archivist: [
     { label: 'Find a cast', to: () => paths.archive.href(), action: 'casts.read' },

@@ -10,6 +10,7 @@ import { formatDateTime } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { performerPatchTestsQueryOptions } from '../api.ts';
 import { ScreeningLabel } from './cautions.tsx';
+import { ClearanceBadge } from './clearance-badge.tsx';
 import { ClearanceTable } from './clearance-table.tsx';
 
 /**
@@ -60,6 +61,13 @@ export function PerformerPatchTests({ performerId, isSelf }: { performerId: stri
           {data.clearances.length > 0 ? (
             <ClearanceTable rows={data.clearances} medical={data.medical} performerId={performerId} canOverride={data.canOverride} />
           ) : null}
+          {/* A product missing from the list is not a silence to read as "no problem". */}
+          <p className="flex max-w-prose flex-wrap items-center gap-2 rounded-xl border-l-4 border-slate-700 bg-plaster-100 p-3 font-semibold text-graphite-900" data-testid="untested-note">
+            <span>
+              {data.clearances.length > 0 ? 'Any product not listed here is' : 'No product has a clearance yet: every product is'} <ClearanceBadge state="untested" /> for {isSelf ? 'you' : 'this performer'}
+              {' '}and must be treated as untested: patch test it before first use.
+            </span>
+          </p>
           {!data.medical ? <p className="text-sm text-ink-700">Grades, notes and photos are health details: only the designated lead and the performer see them.</p> : null}
         </Section>
       )}

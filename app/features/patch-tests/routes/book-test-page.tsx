@@ -15,6 +15,7 @@ import { useSession } from '../../../lib/session/session-context.tsx';
 import { performersQueryOptions } from '../../performers/index.ts';
 import { protocolsQueryOptions } from '../../protocols/index.ts';
 import { useBookTest } from '../api.ts';
+import { BookingConsentGate } from '../components/booking-consent-gate.tsx';
 import { PatchTestCautions, ScreeningLabel } from '../components/cautions.tsx';
 import { TestedProductRow, type RowValue } from '../components/tested-product-row.tsx';
 
@@ -37,6 +38,7 @@ export function BookTestPage() {
   const performers = useQuery({ ...performersQueryOptions({ productionId: production?.id, consent: 'any', sort: 'name', dir: 'asc', page: 1, pageSize: 100 }), enabled: Boolean(production) });
   const protocols = useQuery(protocolsQueryOptions());
   const book = useBookTest();
+  const startsAtInstant = startsAt && !Number.isNaN(new Date(startsAt).getTime()) ? new Date(startsAt).toISOString() : null;
 
   async function submit(e: React.FormEvent) {
     e.preventDefault();
@@ -45,7 +47,7 @@ export function BookTestPage() {
       performerId,
       productionId: production?.id ?? '',
       protocolId,
-      startsAt: startsAt && !Number.isNaN(new Date(startsAt).getTime()) ? new Date(startsAt).toISOString() : '',
+      startsAt: startsAtInstant ?? '',
       location,
       products: rows,
     };
@@ -64,6 +66,7 @@ export function BookTestPage() {
     }
   }
 
+  const chosen = performers.data?.items.find((p) => p.id === performerId);
   const rowErrors = (i: number) => ({ productId: errors[`products.${i}.productId`], lotId: errors[`products.${i}.lotId`], site: errors[`products.${i}.site`] });
   return (
     <div className="flex flex-col gap-6">
@@ -94,6 +97,7 @@ export function BookTestPage() {
             <TextField label="Date and time" type="datetime-local" value={startsAt} error={errors.startsAt} onChange={(e) => setStartsAt(e.target.value)} />
             <TextField label="Place" hint="For example “Make-up trailer 2”." value={location} error={errors.location} onChange={(e) => setLocation(e.target.value)} />
           </div>
+          {chosen && production ? <BookingConsentGate performerId={chosen.id} performerName={chosen.preferredName ?? chosen.legalName} production={production} startsAt={startsAtInstant} /> : null}
         </Section>
         <Section title="Products and sites">
           {errors.products ? <FormError messages={[errors.products]} /> : null}

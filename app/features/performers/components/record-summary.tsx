@@ -2,7 +2,6 @@ import { useState } from 'react';
 import { CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
 import { summarizeConsents } from '#shared/domain/consent-summary.ts';
 import type { PerformerDetail } from '#shared/schemas/performers.ts';
-import { ClearanceBadge } from '../../../components/ui/clearance-badge.tsx';
 import { Icon, type IconName } from '../../../components/ui/icons.tsx';
 import { BADGE_TONES, type BadgeTone } from '../../../components/ui/status-badge.tsx';
 import { formatDate } from '../../../lib/format.ts';
@@ -85,22 +84,5 @@ function SummaryPart({ tone, icon, testId, children }: { tone: BadgeTone; icon: 
       <Icon name={icon} className="mt-0.5 size-4" />
       <span>{children}</span>
     </span>
-  );
-}
-
-/**
- * Until patch tests are recorded in Plinth, say so: an empty clearance list must never read as
- * "no problem". Every product counts as Untested for this performer.
- */
-export function ClearancePlaceholder({ name }: { name: string }) {
-  return (
-    <div className="flex flex-col gap-2" data-testid="clearance-placeholder">
-      <p className="flex flex-wrap items-center gap-2 font-semibold text-graphite-900">
-        Clearances are not yet recorded in Plinth. Treat every product as <ClearanceBadge state="untested" /> for {name}.
-      </p>
-      <p className="max-w-prose text-sm text-graphite-700">
-        Patch test before first use and follow the production’s licensed medical staff. Patch testing screens for reactions; it is not a medical diagnosis.
-      </p>
-    </div>
   );
 }

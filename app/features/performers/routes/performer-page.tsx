@@ -16,7 +16,7 @@ import { paths } from '../../../lib/paths.ts';
 import { prefetchFor } from '../../../lib/prefetch.ts';
 import { PerformerCasts } from '../../archive/index.ts';
 import { PerformerBuilds } from '../../builds/index.ts';
-import { PerformerPatchTests } from '../../patch-tests/index.ts';
+import { ClearanceSummaryLine, PerformerPatchTests } from '../../patch-tests/index.ts';
 import { PerformerCard } from '../../checks/index.ts';
 import { BookingForm, BookingsTable } from '../../bookings/index.ts';
 import { HealthSummarySection } from '../../consents/index.ts';
@@ -126,6 +126,7 @@ function PerformerRecord({ performer: p, isSelf }: { performer: PerformerDetail;
           </PageHeading>
           <EngagementLine performer={p} productionId={production?.id ?? null} />
           <ConsentSummaryLine performer={p} production={isSelf ? null : production} />
+          <ClearanceSummaryLine performerId={p.id} />
           {isSelf ? (
             <p className="max-w-prose text-graphite-700">
               This is what the department holds about you. You can withdraw any consent below, as easily as you gave it.
