@@ -12,7 +12,7 @@ export async function sendRoleNotice(ctx: AppContext, to: { email: string; displ
   const text = [
     `Hello ${to.displayName},`,
     '',
-    `You have the role "${label}" on ${productionName} in Plinth since ${mailDateTime(new Date(), ctx.config.timeZone)}.`,
+    `You now have the role "${label}" on ${productionName} in Plinth, since ${mailDateTime(new Date(), ctx.config.timeZone)}.`,
     `Sign in at ${ctx.config.appOrigin}/ to see what needs doing.`,
     '',
     'If you did not expect this, tell your studio administrator.',
