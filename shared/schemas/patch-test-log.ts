@@ -17,6 +17,8 @@ export const BookPatchTestInputSchema = z
     productionId: IdSchema,
     protocolId: z.string().regex(/^[a-z0-9-]{1,60}$/, 'Choose a protocol'),
     startsAt: MomentInputSchema,
+    /** When the application session ends; without one it is booked for the usual length. */
+    endsAt: MomentInputSchema.optional(),
     location: z.string().trim().min(1, 'Enter where the test takes place').max(200),
     products: z.array(TestedProductInputSchema).min(1, 'Add at least one product').max(24, 'At most 24 products on one test'),
   })

@@ -6,6 +6,7 @@ import { overdueRemindersJob } from '../../api/features/archive/overdue-job.ts';
 import { dayIn } from '../../api/jobs/define.ts';
 import { startJobRunner, type JobRunner } from '../../api/jobs/runner.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
+import { expectWordedMail } from '../support/mail-wording.ts';
 import { castByKey } from '../fixtures/archive.ts';
 
 let t: TestApp;
@@ -65,7 +66,8 @@ describe('overdue check-outs are e-mailed to the holder once a day', () => {
     expect(sent[0]!.to).toBe('artist@plinth.test');
     expect(sent[0]!.subject).toBe(`Cast ${oz.labelCode} is overdue back at the store`);
     expect(sent[0]!.text).toContain(`${t.config.appOrigin}/archive/casts/${oz.id}`);
-    expect(sent[0]!.text).toMatch(/It was due back on \d{1,2} \w+ \d{4}, 4 days ago\./);
+    expectWordedMail(sent[0]!.text);
+    expect(sent[0]!.text).toMatch(/It was due back on [A-Z][a-z]+day \d{1,2} [A-Z][a-z]+ \d{4} at \d{2}:\d{2}, London time \(4 days ago\)\./);
     await runOnce(first);
     await stop(first);
 

@@ -7,6 +7,7 @@ import { afterResponseSettled } from '../../api/http/after-response.ts';
 import { DEMO_PASSWORD } from '../../fake-idp/accounts.ts';
 import { type RunningIdp, startIdp } from '../../fake-idp/server.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
+import { expectWordedMail } from '../support/mail-wording.ts';
 import { signInAtIdp } from '../support/oidc-flow.ts';
 import { drawnSignature } from '../support/signature.ts';
 import { snapshotData } from '../fixtures/snapshot.ts';
@@ -134,6 +135,8 @@ describe('re-pointing the sign-in', () => {
     expect(toOld[0]!.text).toMatch(/changed the e-mail address/);
     const toLead = await mailsTo('lead@plinth.test');
     expect(toLead.some((m) => /contact address was changed/.test(m.subject ?? ''))).toBe(true);
+    // Each of the three names the production and its department head, with moments in words.
+    for (const m of [toNew[0]!, toOld[0]!, ...toLead]) expectWordedMail(m.text);
   });
 
   it("refuses a staff member's own sign-in address as a performer's contact address", async () => {
@@ -193,6 +196,7 @@ describe('invitations: the performer links a sign-in of their own', () => {
     const audit = await t.db.db.selectFrom('audit_log').select(['actor_user_id', 'details']).where('action', '=', 'performer.account_link').where('entity_id', '=', hal.id).executeTakeFirstOrThrow();
     expect(audit.actor_user_id).toBe(await t.userId('newcomer@plinth.test'));
     expect((await mailsTo('lead@plinth.test')).some((m) => /linked a sign-in/.test(m.subject ?? ''))).toBe(true);
+    for (const m of [...(await mailsTo('h.solberg@example.test')), ...(await mailsTo('lead@plinth.test'))]) expectWordedMail(m.text);
     expect((await api().post(`/api/account-invitations/${token}/accept`).set('Cookie', newcomer)).status).toBe(409);
   });
 
@@ -245,5 +249,22 @@ describe('re-pointing the mail', () => {
     await afterResponseSettled();
     expect((await mailsTo('marta.private@example.test')).every((m) => !/\/withdraw\//.test(m.text ?? ''))).toBe(true);
     expect(await t.db.db.selectFrom('withdrawal_links').select('id').execute()).toHaveLength(0);
+  });
+});
+
+describe('unlinking a sign-in', () => {
+  it('tells the performer at their confirmed address and the lead, naming the production, its head and the moment', async () => {
+    const juno = await performer('Juno Castellane');
+    await api().put(`/api/performers/${juno.id}/account`).set('Cookie', head).send({ userId: null, version: juno.version }).expect(200);
+    const own = (await mailsTo('performer@plinth.test')).filter((m) => m.subject === 'Your sign-in was unlinked from your record');
+    expect(own).toHaveLength(1);
+    expect(own[0]!.text).toContain('unlinked your sign-in from your record');
+    expectWordedMail(own[0]!.text);
+    const lead = (await mailsTo('lead@plinth.test')).filter((m) => m.subject === "Plinth: Juno Castellane's sign-in was unlinked");
+    expect(lead).toHaveLength(1);
+    expect(lead[0]!.text).toContain("Marta Oyelaran unlinked the sign-in from Juno Castellane's record.");
+    expectWordedMail(lead[0]!.text);
+    // Nothing about the performer's health travels with it.
+    for (const m of [...own, ...lead]) expect(m.text).not.toMatch(/allerg|consent answer|reaction/i);
   });
 });

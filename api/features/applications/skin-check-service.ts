@@ -7,8 +7,9 @@ import type { AppContext } from '../../context.ts';
 import { recordEvent, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { conflict, isUniqueViolation, notFound } from '../../http/errors.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { deliverAll } from '../../mail/deliver.ts';
-import { findCurrentLeads, findProductionName } from '../productions/index.ts';
+import { findCurrentLeads, findDepartment, mailFooter } from '../productions/index.ts';
 import { closeIncidentAtVersion, findIncident, insertIncident, listIncidents, type IncidentRow } from './incident-repo.ts';
 import { insertSkinCheck, listApplicationProducts, lockApplication } from './repo.ts';
 import { applicationById } from './service.ts';
@@ -40,13 +41,23 @@ export async function recordSkinCheck(ctx: AppContext, actor: Actor, application
       throw err;
     });
   if (incidentId) {
-    const [leads, productionName] = await Promise.all([findCurrentLeads(ctx.db, [incidentId.productionId]), findProductionName(ctx.db, incidentId.productionId)]);
+    const [leads, dep] = await Promise.all([findCurrentLeads(ctx.db, [incidentId.productionId]), findDepartment(ctx.db, incidentId.productionId)]);
+    const reportedAt = mailDateTime(new Date(), ctx.config.timeZone);
     await deliverAll(
       ctx,
       leads.map((l) => ({
         to: l.email,
         subject: 'Plinth: a skin check after an application needs your attention',
-        text: `Hello ${l.name},\n\nAn artist on ${productionName ?? 'your production'} has reported a skin check after an application that was not clear.\n\nOpen the report in Plinth: ${ctx.config.appOrigin}/incidents/${incidentId.id}\n\nThis message carries no health details; they are in Plinth only.`,
+        text: [
+          `Hello ${l.name},`,
+          '',
+          `An artist on ${dep.productionName ?? 'your production'} reported a skin check after an application that was not clear, on ${reportedAt}.`,
+          '',
+          `Open the report in Plinth: ${ctx.config.appOrigin}/incidents/${incidentId.id}`,
+          '',
+          'This message carries no health details; they are in Plinth only.',
+          ...mailFooter(dep),
+        ].join('\n'),
       })),
     );
   }

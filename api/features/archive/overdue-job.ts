@@ -1,9 +1,10 @@
 import { BODY_REGION_LABELS, CAST_KIND_LABELS } from '#shared/domain/archive-casts.ts';
 import { daysOverdue } from '#shared/domain/archive-movements.ts';
-import { formatDay } from '#shared/domain/archive-retention.ts';
 import { recordEvent } from '../../http/audit.ts';
 import { dayIn, defineJob } from '../../jobs/define.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { deliverAll } from '../../mail/deliver.ts';
+import { findDepartment, mailFooter } from '../productions/index.ts';
 import { findUserById } from '../users/index.ts';
 import { listOverdueCasts } from './repo-casts.ts';
 
@@ -25,6 +26,7 @@ export const overdueRemindersJob = defineJob({
       if (!holder) continue;
       const what = `${BODY_REGION_LABELS[cast.region].toLowerCase()} ${CAST_KIND_LABELS[cast.kind].toLowerCase()}`;
       const late = daysOverdue(cast, startedAt);
+      const dep = await findDepartment(ctx.db, cast.productionId);
       try {
         await once(`archive-overdue:${cast.id}:${day}`, async () => {
           const result = await deliverAll(ctx, [
@@ -34,10 +36,11 @@ export const overdueRemindersJob = defineJob({
               text: [
                 `Hello ${holder.displayName},`,
                 '',
-                `You checked out cast ${cast.labelCode} (${what}, ${cast.productionName}). It was due back on ${formatDay(cast.dueBackAt!)}${late > 0 ? `, ${late} day${late === 1 ? '' : 's'} ago` : ''}.`,
+                `You checked out cast ${cast.labelCode} (${what}, ${cast.productionName}). It was due back on ${mailDateTime(cast.dueBackAt!, timeZone)}${late > 0 ? ` (${late} day${late === 1 ? '' : 's'} ago)` : ''}.`,
                 'Please bring it back to the store, or ask the archivist for a new due-back date.',
                 '',
                 `The cast in Plinth: ${ctx.config.appOrigin}/archive/casts/${cast.id}`,
+                ...mailFooter(dep),
               ].join('\n'),
             },
           ]);

@@ -5,7 +5,7 @@ import { deliverAll } from '../../mail/deliver.ts';
 import { invitationIcs } from '../../mail/ical.ts';
 import type { OutgoingMail } from '../../mail/mailer.ts';
 import { findConfirmedEmail } from '../performers/index.ts';
-import { findCurrentLeads } from '../productions/index.ts';
+import { findCurrentLeads, findDepartment, mailFooter } from '../productions/index.ts';
 import { findBookingForInvitation } from './repo.ts';
 
 export type InvitationKind = 'request' | 'update' | 'cancel';
@@ -23,7 +23,7 @@ function parseAddress(from: string): { name: string; email: string } {
 export async function sessionInvitationMails(ctx: Pick<AppContext, 'db' | 'config'>, bookingId: string, kind: InvitationKind): Promise<OutgoingMail[]> {
   const b = await findBookingForInvitation(ctx.db, bookingId);
   if (!b) return [];
-  const [performer, leads] = await Promise.all([findConfirmedEmail(ctx.db, b.performerId), findCurrentLeads(ctx.db, [b.productionId])]);
+  const [performer, leads, dep] = await Promise.all([findConfirmedEmail(ctx.db, b.performerId), findCurrentLeads(ctx.db, [b.productionId]), findDepartment(ctx.db, b.productionId)]);
   const people = [...(performer ? [{ name: performer.name, email: performer.email }] : []), ...leads.map((l) => ({ name: l.name, email: l.email }))];
   const seen = new Set<string>();
   const attendees = people.filter((p) => !seen.has(p.email.toLowerCase()) && seen.add(p.email.toLowerCase()));
@@ -31,7 +31,8 @@ export async function sessionInvitationMails(ctx: Pick<AppContext, 'db' | 'confi
 
   const what = BOOKING_PURPOSE_LABELS[b.purpose];
   const start = b.startsAt;
-  const end = sessionEnd(b.purpose, start, null);
+  // DTEND is the end booked for the session; only a session booked without one gets its purpose's usual length.
+  const end = sessionEnd(b.purpose, start, b.endsAt);
   const when = mailDateTime(start, ctx.config.timeZone);
   const method = kind === 'cancel' ? 'cancel' : 'request';
   const summary = `${what} — ${b.productionName}`;
@@ -55,9 +56,11 @@ export async function sessionInvitationMails(ctx: Pick<AppContext, 'db' | 'confi
     '',
     `Production: ${b.productionName}`,
     `When: ${when}`,
+    `Ends: ${mailDateTime(end, ctx.config.timeZone)}`,
     `Where: ${b.location ?? 'to be confirmed'}`,
     '',
     'The attached calendar entry updates your calendar. Questions go to the prosthetics department of the production.',
+    ...mailFooter(dep),
   ];
   return attendees.map((a) => ({
     to: a.email,

@@ -141,6 +141,8 @@ export interface BookingForInvitation {
   productionName: string;
   purpose: BookingPurpose;
   startsAt: Date;
+  /** The end booked for the session, when one was. */
+  endsAt: Date | null;
   location: string | null;
   status: BookingRow['status'];
   invitationSequence: number;
@@ -151,11 +153,11 @@ export async function findBookingForInvitation(db: Db, id: string): Promise<Book
   const r = await db
     .selectFrom('bookings as b')
     .innerJoin('productions as pr', 'pr.id', 'b.production_id')
-    .select(['b.id', 'b.performer_id', 'b.production_id', 'pr.name as production_name', 'b.purpose', 'b.starts_at', 'b.location', 'b.status', 'b.invitation_sequence'])
+    .select(['b.id', 'b.performer_id', 'b.production_id', 'pr.name as production_name', 'b.purpose', 'b.starts_at', 'b.ends_at', 'b.location', 'b.status', 'b.invitation_sequence'])
     .where('b.id', '=', id)
     .executeTakeFirst();
   return r
-    ? { id: r.id, performerId: r.performer_id, productionId: r.production_id, productionName: r.production_name, purpose: r.purpose, startsAt: new Date(r.starts_at), location: r.location, status: r.status, invitationSequence: r.invitation_sequence }
+    ? { id: r.id, performerId: r.performer_id, productionId: r.production_id, productionName: r.production_name, purpose: r.purpose, startsAt: new Date(r.starts_at), endsAt: r.ends_at ? new Date(r.ends_at) : null, location: r.location, status: r.status, invitationSequence: r.invitation_sequence }
     : undefined;
 }
 

@@ -5,8 +5,9 @@ import type { AppContext } from '../../context.ts';
 import { recordEvent, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { conflict, forbidden, invalid, isUniqueViolation, notFound } from '../../http/errors.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { deliverAll } from '../../mail/deliver.ts';
-import { findCurrentLeads, findProductionName } from '../productions/index.ts';
+import { findCurrentLeads, findDepartment, mailFooter } from '../productions/index.ts';
 import { checkById } from './service.ts';
 import { decideRequest, findCheck, findRequest, insertRequest, listRequests, lockRequest, type RequestRow } from './repo.ts';
 
@@ -56,13 +57,23 @@ export async function askLead(ctx: AppContext, actor: Actor, checkId: string, fo
       if (isUniqueViolation(err, 'lead_requests_one_per_product')) throw conflict('The lead has already been asked about this product in this check.');
       throw err;
     });
-  const [leads, productionName] = await Promise.all([findCurrentLeads(ctx.db, [c.productionId]), findProductionName(ctx.db, c.productionId)]);
+  const [leads, dep] = await Promise.all([findCurrentLeads(ctx.db, [c.productionId]), findDepartment(ctx.db, c.productionId)]);
+  const askedAt = mailDateTime(new Date(), ctx.config.timeZone);
   await deliverAll(
     ctx,
     leads.map((l) => ({
       to: l.email,
       subject: 'Plinth: a question before an application is waiting for you',
-      text: `Hello ${l.name},\n\nAn artist on ${productionName ?? 'your production'} asks for your answer before an application.\n\nOpen it in Plinth: ${ctx.config.appOrigin}/requests/${id}\n\nThis message carries no health details; they are in Plinth only.`,
+      text: [
+        `Hello ${l.name},`,
+        '',
+        `An artist on ${dep.productionName ?? 'your production'} asked for your answer before an application, on ${askedAt}.`,
+        '',
+        `Open it in Plinth: ${ctx.config.appOrigin}/requests/${id}`,
+        '',
+        'This message carries no health details; they are in Plinth only.',
+        ...mailFooter(dep),
+      ].join('\n'),
     })),
   );
   return checkById(ctx, actor, checkId);
@@ -111,12 +122,21 @@ export async function decide(ctx: AppContext, actor: Actor, id: string, input: L
   const fresh = (await findRequest(ctx.db, id))!;
   // The artist who asked is told there is an answer; like the lead's message, it carries a link only.
   if (fresh.requestedByEmail) {
-    const productionName = await findProductionName(ctx.db, r.productionId);
+    const dep = await findDepartment(ctx.db, r.productionId);
     await deliverAll(ctx, [
       {
         to: fresh.requestedByEmail,
         subject: 'Plinth: the designated lead has answered your question',
-        text: `Hello ${fresh.requestedByName ?? ''},\n\nThe designated lead on ${productionName ?? 'your production'} has answered a question you asked before an application.\n\nOpen the check in Plinth: ${ctx.config.appOrigin}/check?checkId=${encodeURIComponent(fresh.checkId)}\n\nThis message carries no health details; they are in Plinth only.`,
+        text: [
+          `Hello ${fresh.requestedByName ?? ''},`,
+          '',
+          `The designated lead on ${dep.productionName ?? 'your production'} answered a question you asked before an application, on ${mailDateTime(fresh.decidedAt ?? new Date(), ctx.config.timeZone)}.`,
+          '',
+          `Open the check in Plinth: ${ctx.config.appOrigin}/check?checkId=${encodeURIComponent(fresh.checkId)}`,
+          '',
+          'This message carries no health details; they are in Plinth only.',
+          ...mailFooter(dep),
+        ].join('\n'),
       },
     ]);
   }

@@ -1,6 +1,6 @@
 import type { Request } from 'express';
 import { CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
-import { capitalised, dateTimeInWords } from '#shared/domain/words.ts';
+import { capitalised } from '#shared/domain/words.ts';
 import type { Actor } from '#shared/policy.ts';
 import type { BundleLinkView, CreateSigningBundleInput, SigningBundle } from '#shared/schemas/consent-bundles.ts';
 import type { SubmitSignatureInput } from '#shared/schemas/consents.ts';
@@ -12,7 +12,8 @@ import { hashToken, newToken } from '../../http/tokens.ts';
 import { deliverAll } from '../../mail/deliver.ts';
 import { findPerformerScope } from '../performers/index.ts';
 import { findBundle, findBundleByTokenHash, insertBundle } from './bundle-repo.ts';
-import { departmentInWords, findDepartment, signOff } from './department.ts';
+import { departmentInWords, findDepartment, mailFooter } from '../productions/index.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { insertRequest, listBundleRequests, markRequestOpened, type RequestRecord, toSigningRequest } from './request-repo.ts';
 import { asOpenRequest, lendTablet, signingForm } from './request-service.ts';
 import { submitSignature } from './signing-service.ts';
@@ -76,8 +77,8 @@ export async function createSigningBundle(ctx: AppContext, actor: Actor, input: 
           'One link opens them all, in this order:',
           `${ctx.config.appOrigin}/sign/bundle/${token}`,
           '',
-          `It works until ${dateTimeInWords(expiresAt, ctx.config.timeZone)}. Each form is its own consent: you are free to sign some and not others, and not signing one keeps those you signed. Ask the department if anything is unclear.`,
-          ...signOff(dep),
+          `It works until ${mailDateTime(expiresAt, ctx.config.timeZone)}. Each form is its own consent: you are free to sign some and not others, and not signing one keeps those you signed. Ask the department if anything is unclear.`,
+          ...mailFooter(dep),
         ].join('\n'),
       },
     ]);

@@ -24,8 +24,8 @@ import {
   lockConsentForWithdrawal,
   markConsentWithdrawn,
 } from './consent-repo.ts';
+import { departmentInWords, findDepartment, findDepartments, mailFooter } from '../productions/index.ts';
 import { sendWithdrawalNotices } from './notice-service.ts';
-import { departmentInWords, findDepartment, signOff } from './department.ts';
 import { countRecentWithdrawalLinks, findWithdrawalLinkByHash, insertWithdrawalLink, markWithdrawalLinkUsed } from './request-repo.ts';
 
 const WITHDRAWAL_LINK_HOURS = 24;
@@ -131,6 +131,8 @@ async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, 
   const p = await findConfirmedEmail(ctx.db, performerId);
   if (!p) return;
   const dep = await findDepartment(ctx.db, productionId);
+  // A consent naming no production was given to the department at large: every production the performer works on.
+  const footer = productionId ? mailFooter(dep) : mailFooter(await findDepartments(ctx.db, (await findPerformerScope(ctx.db, performerId))?.productionIds ?? []));
   await deliverAll(ctx, [
     {
       to: p.email,
@@ -142,7 +144,7 @@ async function sendWithdrawalConfirmation(ctx: AppContext, performerId: string, 
         ...withdrawalConsequences(kind),
         '',
         `If you did not ask for this, contact ${departmentInWords(dep)}.`,
-        ...signOff(dep),
+        ...footer,
       ].join('\n'),
     },
   ]);
@@ -179,6 +181,7 @@ export async function verifyPdf(ctx: AppContext, actor: Actor, bytes: Buffer, re
 /** Makes and mails a withdrawal link, only to a confirmed address and at most a few an hour; run after the reply. */
 export async function sendWithdrawalLink(ctx: AppContext, req: Request, email: string): Promise<void> {
   const token = newToken();
+  const expiresAt = new Date(Date.now() + WITHDRAWAL_LINK_HOURS * 3_600_000);
   const p = await ctx.db.transaction().execute(async (trx) => {
     // The row lock makes concurrent requests for one address count one after another.
     const p = await lockPerformerByConfirmedEmail(trx, email);
@@ -187,16 +190,26 @@ export async function sendWithdrawalLink(ctx: AppContext, req: Request, email: s
       await writeAudit(trx, { actorUserId: null, action: 'withdrawal_link.cap', entityType: 'performer', entityId: p.id, req });
       return null;
     }
-    await insertWithdrawalLink(trx, p.id, hashToken(token), new Date(Date.now() + WITHDRAWAL_LINK_HOURS * 3_600_000));
+    await insertWithdrawalLink(trx, p.id, hashToken(token), expiresAt);
     await writeAudit(trx, { actorUserId: null, action: 'withdrawal_link.create', entityType: 'performer', entityId: p.id, req });
     return p;
   });
   if (!p) return;
+  const deps = await findDepartments(ctx.db, (await findPerformerScope(ctx.db, p.id))?.productionIds ?? []);
   await deliverAll(ctx, [
     {
       to: p.email,
       subject: 'Your link to withdraw consents',
-    text: [`Hello ${p.name},`, '', 'You asked for a link to see and withdraw the consents you gave the make-up department:', '', `${ctx.config.appOrigin}/withdraw/${token}`, '', 'It works for 24 hours. If you did not ask for it, you can ignore this e-mail.'].join('\n'),
+      text: [
+        `Hello ${p.name},`,
+        '',
+        'You asked for a link to see and withdraw the consents you gave the make-up department:',
+        '',
+        `${ctx.config.appOrigin}/withdraw/${token}`,
+        '',
+        `It works for ${WITHDRAWAL_LINK_HOURS} hours, until ${mailDateTime(expiresAt, ctx.config.timeZone)}. If you did not ask for it, you can ignore this e-mail.`,
+        ...mailFooter(deps),
+      ].join('\n'),
     },
   ]);
 }

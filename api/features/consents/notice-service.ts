@@ -1,7 +1,6 @@
 import type { Request } from 'express';
 import { CONSENT_KIND_LABELS } from '#shared/domain/consent.ts';
 import { BOOKING_PURPOSE_LABELS } from '#shared/domain/bookings.ts';
-import { dateTimeInWords } from '#shared/domain/words.ts';
 import { can, type Actor } from '#shared/policy.ts';
 import type { Booking } from '#shared/schemas/bookings.ts';
 import type { WithdrawalNoticeList } from '#shared/schemas/consent-notices.ts';
@@ -9,13 +8,13 @@ import type { AppContext } from '../../context.ts';
 import { recordEvent, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { invalid } from '../../http/errors.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { deliverAll } from '../../mail/deliver.ts';
 import type { OutgoingMail } from '../../mail/mailer.ts';
 import { listBookings } from '../bookings/index.ts';
 import { findPerformerScope } from '../performers/index.ts';
-import { findCurrentLeads, findHeads, findProductionName } from '../productions/index.ts';
+import { findCurrentLeads, findDepartment, findHeads, findProductionName, mailFooter } from '../productions/index.ts';
 import { findConsentSummary } from './consent-repo.ts';
-import { findDepartment, signOff } from './department.ts';
 import { findSeenAt, listWithdrawalsForProduction, markSeen } from './notice-repo.ts';
 
 const DAY = 86_400_000;
@@ -23,7 +22,7 @@ const DAY = 86_400_000;
 const FIRST_LOOK_DAYS = 30;
 
 function sessionLine(b: Booking, timeZone: string): string {
-  return `- ${BOOKING_PURPOSE_LABELS[b.purpose]}, ${dateTimeInWords(new Date(b.startsAt), timeZone)}${b.location ? `, ${b.location}` : ''}`;
+  return `- ${BOOKING_PURPOSE_LABELS[b.purpose]}, ${mailDateTime(new Date(b.startsAt), timeZone)}${b.location ? `, ${b.location}` : ''}`;
 }
 
 /**
@@ -43,7 +42,7 @@ export async function sendWithdrawalNotices(ctx: AppContext, consentId: string):
     const [productionName, heads, dep] = await Promise.all([findProductionName(ctx.db, productionId), findHeads(ctx.db, productionId), findDepartment(ctx.db, productionId)]);
     const here = sessions.filter((s) => s.productionId === productionId);
     const leadsHere = leads.filter((l) => l.productionId === productionId);
-    const opening = `${c.performerName} withdrew their ${CONSENT_KIND_LABELS[c.kind].toLowerCase()} consent ("${c.title}") on ${productionName ?? 'the production'}, on ${dateTimeInWords(new Date(c.withdrawnAt), ctx.config.timeZone)}.`;
+    const opening = `${c.performerName} withdrew their ${CONSENT_KIND_LABELS[c.kind].toLowerCase()} consent ("${c.title}") on ${productionName ?? 'the production'}, on ${mailDateTime(new Date(c.withdrawnAt), ctx.config.timeZone)}.`;
     const sessionLines = here.length
       ? ['', `${here.length === 1 ? 'This upcoming session is' : `These ${here.length} upcoming sessions are`} now waiting for consent; do not go ahead until they sign again:`, ...here.map((s) => sessionLine(s, ctx.config.timeZone))]
       : ['', 'No upcoming session depends on it.'];
@@ -51,13 +50,13 @@ export async function sendWithdrawalNotices(ctx: AppContext, consentId: string):
     const subject = `Consent withdrawn: ${c.performerName} (${productionName ?? 'Plinth'})`;
     for (const h of heads) {
       if (leadsHere.some((l) => l.email === h.email)) continue;
-      messages.push({ to: h.email, subject, text: [`Hello ${h.name},`, '', opening, 'Any reason the performer gave stays with the designated lead.', ...sessionLines, ...link, ...signOff(dep)].join('\n') });
+      messages.push({ to: h.email, subject, text: [`Hello ${h.name},`, '', opening, 'Any reason the performer gave stays with the designated lead.', ...sessionLines, ...link, ...mailFooter(dep)].join('\n') });
     }
     for (const l of leadsHere) {
       messages.push({
         to: l.email,
         subject,
-        text: [`Hello ${l.name},`, '', opening, 'If the performer gave a reason, it is on your home in Plinth (each reading is logged).', ...sessionLines, '', `Your home: ${ctx.config.appOrigin}/`, ...signOff(dep)].join('\n'),
+        text: [`Hello ${l.name},`, '', opening, 'If the performer gave a reason, it is on your home in Plinth (each reading is logged).', ...sessionLines, '', `Your home: ${ctx.config.appOrigin}/`, ...mailFooter(dep)].join('\n'),
       });
     }
   }

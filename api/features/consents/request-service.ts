@@ -12,9 +12,8 @@ import { hashToken, newToken } from '../../http/tokens.ts';
 import { deliverAll } from '../../mail/deliver.ts';
 import { mailDateTime } from '../../mail/dates.ts';
 import { findPerformerScope } from '../performers/index.ts';
-import { findProductionName } from '../productions/index.ts';
+import { departmentInWords, findDepartment, findProductionName, mailFooter } from '../productions/index.ts';
 import { capitalised } from '#shared/domain/words.ts';
-import { departmentInWords, findDepartment, signOff } from './department.ts';
 import { cancelOpenRequest, findLinkRequestByTokenHash, findRequest, insertRequest, listRequests, markRequestOpened, type RequestRecord, toSigningRequest } from './request-repo.ts';
 import { submitSignature, type OpenRequest } from './signing-service.ts';
 import { findCurrentTemplateVersion, isTemplateSendable } from './template-repo.ts';
@@ -74,7 +73,7 @@ export async function createSigningRequest(ctx: AppContext, actor: Actor, input:
           `${ctx.config.appOrigin}/sign/${token}`,
           '',
           `The link works once and until ${mailDateTime(expiresAt, ctx.config.timeZone)}. You are free not to sign; ask the department if anything is unclear.`,
-          ...signOff(dep),
+          ...mailFooter(dep),
         ].join('\n'),
       },
     ]);

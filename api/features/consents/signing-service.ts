@@ -16,9 +16,8 @@ import { lockRequestStatus, markRequestSigned } from './request-repo.ts';
 import { findTemplateVersion, isTemplateSendable, type TemplateVersionRow } from './template-repo.ts';
 import { acceptSignature } from './signature.ts';
 import { findConfirmedEmail, findPerformerScope } from '../performers/index.ts';
-import { findProductionName } from '../productions/index.ts';
-import { dateInWords } from '#shared/domain/words.ts';
-import { departmentInWords, findDepartment, signOff } from './department.ts';
+import { departmentInWords, findDepartment, findProductionName, mailFooter } from '../productions/index.ts';
+import { mailDate } from '../../mail/dates.ts';
 
 export interface SignedConsentParams {
   performerId: string;
@@ -235,12 +234,12 @@ export async function sendConsentCopy(ctx: AppContext, performerId: string, temp
       text: [
         `Hello ${performer.name},`,
         '',
-        `Attached is your copy of the ${CONSENT_KIND_LABELS[template.kind].toLowerCase()} consent you signed with ${departmentInWords(dep)} on ${dateInWords(new Date(), ctx.config.timeZone)}.`,
+        `Attached is your copy of the ${CONSENT_KIND_LABELS[template.kind].toLowerCase()} consent you signed with ${departmentInWords(dep)} on ${mailDate(new Date(), ctx.config.timeZone)}.`,
         'You can withdraw it at any time, as easily as you gave it: ask the department, or sign in to Plinth, or request a withdrawal link at',
         `${ctx.config.appOrigin}/withdraw`,
         '',
         'Keep this e-mail: the PDF carries a fingerprint (SHA-256) that the department can check against its records.',
-        ...signOff(dep),
+        ...mailFooter(dep),
       ].join('\n'),
       attachments: [{ filename: `consent-${consentId}.pdf`, content: pdf, contentType: 'application/pdf' }],
     },

@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import { sessionsMissingConsent } from '#shared/domain/bookings.ts';
+import { sessionEnd, sessionsMissingConsent } from '#shared/domain/bookings.ts';
 import { lotRefusal } from '#shared/domain/catalogue.ts';
 import type { Protocol } from '#shared/domain/protocols.ts';
 import { checkRemovalTime, readingSchedule } from '#shared/domain/reading-schedule.ts';
@@ -18,6 +18,9 @@ import { isEngagedOn } from '../performers/index.ts';
 import { findCurrentProtocolVersion, findProtocolVersions } from '../protocols/index.ts';
 import { findTestRow, insertTest, insertTestedProducts, listTestRows, lockTest, updateTest, type TestRow } from './repo.ts';
 import { testDetail } from './view.ts';
+
+/** The longest one session may be booked for, as for any other session. */
+const MAX_TEST_SESSION_MS = 16 * 3_600_000;
 
 /** The time a test occupies its sites: from application (or the booked start) to the close of its last reading window. */
 export function testSpan(protocol: Protocol, start: Date, removedAt: Date | null): { from: Date; to: Date } {
@@ -75,6 +78,10 @@ export async function bookTest(ctx: AppContext, actor: Actor, input: BookPatchTe
     input.products.map((p) => p.lotId),
   );
   const fields: Record<string, string[]> = {};
+  // The session is booked with its end, so every calendar entry for it ends when it was booked to.
+  const endsAt = input.endsAt ? new Date(input.endsAt) : sessionEnd('patch_test', startsAt);
+  if (endsAt.getTime() <= startsAt.getTime()) fields.endsAt = ['The session must end after it starts'];
+  else if (endsAt.getTime() - startsAt.getTime() > MAX_TEST_SESSION_MS) fields.endsAt = ['A session lasts at most 16 hours'];
   input.products.forEach((p, i) => {
     const refusal = lotRefusal(lots.get(p.lotId), p.productId, startsAt);
     if (refusal) fields[`products.${i}.lotId`] = [refusal];
@@ -89,7 +96,7 @@ export async function bookTest(ctx: AppContext, actor: Actor, input: BookPatchTe
     null,
   );
   const id = await ctx.db.transaction().execute(async (trx) => {
-    const bookingId = await insertBooking(trx, { performerId: input.performerId, productionId: input.productionId, purpose: 'patch_test', startsAt, location: input.location, createdBy: actor.userId });
+    const bookingId = await insertBooking(trx, { performerId: input.performerId, productionId: input.productionId, purpose: 'patch_test', startsAt, endsAt, location: input.location, createdBy: actor.userId });
     await insertTest(trx, { bookingId, performerId: input.performerId, productionId: input.productionId, protocolVersionId: pv.versionId, createdBy: actor.userId });
     await insertTestedProducts(
       trx,

@@ -5,8 +5,9 @@ import type { Db } from '../../db/index.ts';
 import { type Trx, writeAudit } from '../../http/audit.ts';
 import { ApiError, conflict, forbidden, invalid, notFound } from '../../http/errors.ts';
 import { hashToken, newToken } from '../../http/tokens.ts';
+import { mailDateTime } from '../../mail/dates.ts';
 import { deliverAll } from '../../mail/deliver.ts';
-import { addPerformerMemberships, findCurrentLeads } from '../productions/index.ts';
+import { addPerformerMemberships, type Department, findCurrentLeads, findDepartment, findDepartments, mailFooter } from '../productions/index.ts';
 import { isStaffAddress } from '../users/index.ts';
 import type { OutgoingMail } from '../../mail/mailer.ts';
 import {
@@ -26,6 +27,7 @@ import {
   markInvitationAccepted,
   type PerformerIdentity,
 } from './identity-repo.ts';
+import { engagedProductionIds } from './repo.ts';
 
 const CONFIRMATION_DAYS = 7;
 const INVITATION_DAYS = 7;
@@ -45,7 +47,12 @@ export async function assertPerformerAddress(db: Db, email: string | null, field
   }
 }
 
-function confirmationMail(ctx: AppContext, p: { name: string }, email: string, token: string): OutgoingMail {
+/** The departments of every production a performer works on: a mail to a performer names them all. */
+async function performerDepartments(db: Db, performerId: string): Promise<Department[]> {
+  return findDepartments(db, await engagedProductionIds(db, performerId));
+}
+
+function confirmationMail(ctx: AppContext, p: { name: string }, email: string, token: string, expiresAt: Date, deps: readonly Department[]): OutgoingMail {
   return {
     to: email,
     subject: 'Please confirm your e-mail address for the make-up department',
@@ -57,33 +64,51 @@ function confirmationMail(ctx: AppContext, p: { name: string }, email: string, t
       'If this is your address, confirm it here:',
       `${ctx.config.appOrigin}/confirm-email/${token}`,
       '',
-      `The link works for ${CONFIRMATION_DAYS} days. If you are not ${p.name}, ignore this e-mail and nothing will be sent here again.`,
+      `The link works for ${CONFIRMATION_DAYS} days, until ${mailDateTime(expiresAt, ctx.config.timeZone)}. If you are not ${p.name}, ignore this e-mail and nothing will be sent here again.`,
+      ...mailFooter(deps),
     ].join('\n'),
   };
 }
 
-async function leadNotices(db: Db, p: PerformerIdentity, subject: string, lines: string[]): Promise<OutgoingMail[]> {
+/** Tells the designated lead of each of the performer's productions, naming that production and the moment of the change. */
+async function leadNotices(db: Db, timeZone: string, p: PerformerIdentity, subject: string, lines: string[]): Promise<OutgoingMail[]> {
   const leads = await findCurrentLeads(db, p.productionIds);
   const seen = new Set<string>();
-  return leads
-    .filter((l) => !seen.has(l.email) && seen.add(l.email))
-    .map((l) => ({ to: l.email, subject, text: [`Hello ${l.name},`, '', ...lines, '', 'You are told because you are the designated lead on a production this performer works on. If this change was not expected, check it with the department.'].join('\n') }));
+  const when = mailDateTime(new Date(), timeZone);
+  const mine = leads.filter((l) => !seen.has(l.email) && seen.add(l.email));
+  return Promise.all(
+    mine.map(async (l) => ({
+      to: l.email,
+      subject,
+      text: [
+        `Hello ${l.name},`,
+        '',
+        ...lines.filter(Boolean),
+        `This happened on ${when}.`,
+        '',
+        'You are told because you are the designated lead on a production this performer works on. If this change was not expected, check it with the department.',
+        ...mailFooter(await findDepartment(db, l.productionId)),
+      ].join('\n'),
+    })),
+  );
 }
 
 /** Starts confirming an address staff entered: a one-time link to it, and nothing else goes there until it is used. */
 export async function startConfirmation(trx: Db, ctx: AppContext, p: Pick<PerformerIdentity, 'id' | 'name'>, email: string, createdBy: string | null): Promise<OutgoingMail> {
   const token = newToken();
-  await insertConfirmation(trx, { performerId: p.id, email, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + CONFIRMATION_DAYS * 86_400_000), createdBy });
-  return confirmationMail(ctx, p, email, token);
+  const expiresAt = new Date(Date.now() + CONFIRMATION_DAYS * 86_400_000);
+  await insertConfirmation(trx, { performerId: p.id, email, tokenHash: hashToken(token), expiresAt, createdBy });
+  return confirmationMail(ctx, p, email, token, expiresAt, await performerDepartments(trx, p.id));
 }
 
-/** Confirmation requests for many new performers at once (an import): one insert, the mails returned. */
-export async function startConfirmations(trx: Db, ctx: AppContext, list: readonly { id: string; name: string; email: string }[], createdBy: string | null): Promise<OutgoingMail[]> {
+/** Confirmation requests for many new performers at once, all engaged on the same productions (an import): one insert, the mails returned. */
+export async function startConfirmations(trx: Db, ctx: AppContext, list: readonly { id: string; name: string; email: string }[], createdBy: string | null, productionIds: readonly string[]): Promise<OutgoingMail[]> {
   if (list.length === 0) return [];
   const expiresAt = new Date(Date.now() + CONFIRMATION_DAYS * 86_400_000);
   const withTokens = list.map((p) => ({ ...p, token: newToken() }));
   await insertConfirmations(trx, withTokens.map((p) => ({ performerId: p.id, email: p.email, tokenHash: hashToken(p.token), expiresAt, createdBy })));
-  return withTokens.map((p) => confirmationMail(ctx, p, p.email, p.token));
+  const deps = await findDepartments(trx, productionIds);
+  return withTokens.map((p) => confirmationMail(ctx, p, p.email, p.token, expiresAt, deps));
 }
 
 /**
@@ -109,21 +134,23 @@ export async function recordEmailChange(
   const mails: OutgoingMail[] = [];
   if (e.after) mails.push(await startConfirmation(trx, ctx, p, e.after, e.actor.userId));
   if (e.before.email && e.before.confirmed) {
+    const deps = await findDepartments(trx, p.productionIds);
     mails.push({
       to: e.before.email,
       subject: 'Your contact address at the make-up department was changed',
       text: [
         `Hello ${p.name},`,
         '',
-        e.after ? `The make-up department changed the e-mail address it holds for you to ${maskEmail(e.after)}.` : 'The make-up department removed the e-mail address it held for you.',
+        `${e.after ? `The make-up department changed the e-mail address it holds for you to ${maskEmail(e.after)}` : 'The make-up department removed the e-mail address it held for you'}, on ${mailDateTime(new Date(), ctx.config.timeZone)}.`,
         'Nothing more will be sent to this address.',
         '',
         'If you did not ask for this, tell the department or the production’s designated lead at once.',
+        ...mailFooter(deps),
       ].join('\n'),
     });
   }
   mails.push(
-    ...(await leadNotices(trx, p, `Plinth: ${p.name}'s contact address was changed`, [
+    ...(await leadNotices(trx, ctx.config.timeZone, p, `Plinth: ${p.name}'s contact address was changed`, [
       `The e-mail address held for ${p.name} was changed from ${e.before.email ?? '(none)'}${e.before.email ? (e.before.confirmed ? ' (confirmed)' : ' (not confirmed)') : ''} to ${e.after ?? '(none)'}.`,
       e.after ? 'The new address is unconfirmed until the performer confirms it from the e-mail Plinth sent there.' : '',
     ])),
@@ -187,7 +214,8 @@ export async function inviteToSignIn(ctx: AppContext, actor: Actor, performerId:
       throw new ApiError('rate_limited', 'Several invitations went to this performer in the last hour. Wait before sending another.');
     }
     const token = newToken();
-    await insertInvitation(trx, { performerId: p.id, email: p.email, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000), createdBy: actor.userId });
+    const expiresAt = new Date(Date.now() + INVITATION_DAYS * 86_400_000);
+    await insertInvitation(trx, { performerId: p.id, email: p.email, tokenHash: hashToken(token), expiresAt, createdBy: actor.userId });
     await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.account_invite', entityType: 'performer', entityId: p.id, req });
     const mail: OutgoingMail = {
       to: p.email,
@@ -200,7 +228,8 @@ export async function inviteToSignIn(ctx: AppContext, actor: Actor, performerId:
         'Open this link, sign in (or create a sign-in with your identity provider), and accept:',
         `${ctx.config.appOrigin}/join/${token}`,
         '',
-        `The link works once, for ${INVITATION_DAYS} days. If you did not expect it, ignore it: nothing is linked until you accept.`,
+        `The link works once, for ${INVITATION_DAYS} days, until ${mailDateTime(expiresAt, ctx.config.timeZone)}. If you did not expect it, ignore it: nothing is linked until you accept.`,
+        ...mailFooter(await findDepartments(trx, p.productionIds)),
       ].join('\n'),
     };
     return { mail, sentTo: p.email };
@@ -233,7 +262,7 @@ export async function acceptInvitation(ctx: AppContext, actor: Actor, token: str
     const added = await addPerformerMemberships(trx, actor.userId, p.productionIds, null);
     await markInvitationAccepted(trx, inv.id, actor.userId);
     await writeAudit(trx, { actorUserId: actor.userId, actorPerformerId: p.id, action: 'performer.account_link', entityType: 'performer', entityId: p.id, req, details: { userId: actor.userId, via: 'invitation', productions: added } });
-    return { performerId: p.id, mails: await leadNotices(trx, p, `Plinth: ${p.name} linked a sign-in`, [`${p.name} accepted the invitation and linked a sign-in of their own to their record.`]) };
+    return { performerId: p.id, mails: await leadNotices(trx, ctx.config.timeZone, p, `Plinth: ${p.name} linked a sign-in`, [`${p.name} accepted the invitation and linked a sign-in of their own to their record.`]) };
   });
   await deliverIdentityMail(ctx, mails);
   return { performerId };
@@ -253,7 +282,7 @@ export async function linkConfirmedPerformerAtSignIn(ctx: AppContext, userId: st
     await linkUserToPerformer(trx, performerId, userId);
     const added = await addPerformerMemberships(trx, userId, p.productionIds, null);
     await writeAudit(trx, { actorUserId: userId, actorPerformerId: performerId, action: 'performer.link_on_sign_in', entityType: 'performer', entityId: performerId, details: { productions: added.length } });
-    return { performerId, mails: await leadNotices(trx, p, `Plinth: ${p.name} linked a sign-in`, [`${p.name} signed in with the address they confirmed, and that sign-in is now linked to their record.`]) };
+    return { performerId, mails: await leadNotices(trx, ctx.config.timeZone, p, `Plinth: ${p.name} linked a sign-in`, [`${p.name} signed in with the address they confirmed, and that sign-in is now linked to their record.`]) };
   });
   if (!result) return null;
   await deliverIdentityMail(ctx, result.mails);
@@ -261,15 +290,20 @@ export async function linkConfirmedPerformerAtSignIn(ctx: AppContext, userId: st
 }
 
 /** A manager unlinks the sign-in: allowed (it only takes access away); the performer and the lead are told. */
-export async function unlinkNotices(db: Db, performerId: string, byName: string): Promise<OutgoingMail[]> {
+export async function unlinkNotices(db: Db, timeZone: string, performerId: string, byName: string): Promise<OutgoingMail[]> {
   const p = await findPerformerIdentity(db, performerId);
   if (!p) return [];
-  const mails = await leadNotices(db, p, `Plinth: ${p.name}'s sign-in was unlinked`, [`${byName} unlinked the sign-in from ${p.name}'s record.`]);
+  const mails = await leadNotices(db, timeZone, p, `Plinth: ${p.name}'s sign-in was unlinked`, [`${byName} unlinked the sign-in from ${p.name}'s record.`]);
   if (p.email && p.emailConfirmed) {
     mails.push({
       to: p.email,
       subject: 'Your sign-in was unlinked from your record',
-      text: [`Hello ${p.name},`, '', 'The make-up department unlinked your sign-in from your record in Plinth. Ask the department for a new invitation if you want to see your record again.'].join('\n'),
+      text: [
+        `Hello ${p.name},`,
+        '',
+        `The make-up department unlinked your sign-in from your record in Plinth on ${mailDateTime(new Date(), timeZone)}. Ask the department for a new invitation if you want to see your record again.`,
+        ...mailFooter(await findDepartments(db, p.productionIds)),
+      ].join('\n'),
     });
   }
   return mails;

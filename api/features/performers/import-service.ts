@@ -98,7 +98,7 @@ export async function commitImport(ctx: AppContext, actor: Actor, buf: Buffer, p
       });
       // Each imported address is unconfirmed: it gets its confirmation request, once committed.
       const toConfirm = creates.flatMap((c) => (c.fields.email ? [{ id: c.id, name: c.fields.preferredName ?? c.fields.legalName, email: c.fields.email }] : []));
-      return { result: importResult(plan, true), mails: await startConfirmations(trx, ctx, toConfirm, actor.userId) };
+      return { result: importResult(plan, true), mails: await startConfirmations(trx, ctx, toConfirm, actor.userId, [productionId]) };
     });
   } catch (err) {
     if (isUniqueViolation(err)) {

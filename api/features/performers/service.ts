@@ -275,7 +275,7 @@ export async function unlinkAccount(ctx: AppContext, actor: Actor, id: string, v
     await writeAudit(trx, { actorUserId: actor.userId, action: 'performer.account_unlink', entityType: 'performer', entityId: id, req, details: { before: previous, after: null } });
     await auditMemberships(trx, req, actor, previous, [], removed, id);
     const me = await findUserSummary(trx, actor.userId);
-    return unlinkNotices(trx, id, me?.displayName ?? 'A member of staff');
+    return unlinkNotices(trx, ctx.config.timeZone, id, me?.displayName ?? 'A member of staff');
   });
   await deliverAll(ctx, mails);
   return freshDetail(ctx.db, actor, id);

@@ -73,7 +73,7 @@ export async function addMembership(ctx: AppContext, actor: Actor, productionId:
     await writeAudit(trx, { actorUserId: actor.userId, action: 'membership.add', entityType: 'user', entityId: input.userId, productionId, req, details: { role: input.role } });
     return { user, productionName: production.name };
   });
-  await sendRoleNotice(ctx, { email: user.email, displayName: user.displayName }, input.role, productionName);
+  await sendRoleNotice(ctx, { email: user.email, displayName: user.displayName }, input.role, productionId, productionName);
   return productionDetail(ctx, productionId);
 }
 
@@ -109,7 +109,7 @@ export async function appointLead(ctx: AppContext, actor: Actor, productionId: s
     await writeAudit(trx, { actorUserId: actor.userId, action: 'lead.appoint', entityType: 'user', entityId: input.userId, productionId, req, details: { previousLead: open?.userId ?? null } });
     return { user, productionName: production.name };
   });
-  await sendRoleNotice(ctx, { email: user.email, displayName: user.displayName }, 'lead', productionName);
+  await sendRoleNotice(ctx, { email: user.email, displayName: user.displayName }, 'lead', productionId, productionName);
   await sendLeadChangeToHeads(ctx, productionId, productionName, `${user.displayName} is now the designated lead on ${productionName}, appointed by ${await displayNameOf(ctx.db, actor.userId)}.`);
   return productionDetail(ctx, productionId);
 }

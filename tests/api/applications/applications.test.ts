@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
+import { simpleParser } from 'mailparser';
 import { ApplicationSchema, IncidentListSchema, IncidentSchema, LotTraceSchema } from '#shared/schemas/applications.ts';
 import { CheckSchema } from '#shared/schemas/checks.ts';
+import { expectWordedMail } from '../../support/mail-wording.ts';
 import { sealJson } from '../../../api/crypto/medical.ts';
 import { api, applicationBody, as, caughtMail, HARBOUR, ids, logCounts, PIER, QUAYSIDE, runCheck, setClearance, t, useApplicationApp } from './setup.ts';
 
@@ -175,6 +177,7 @@ describe('removal and the skin check', () => {
     expect(mail).toHaveLength(1);
     expect(mail[0]).toContain('lead@plinth.test');
     for (const detail of ['weal', 'reaction', HARBOUR, 'HB-2603', 'Juno']) expect(mail[0]).not.toContain(detail);
+    expectWordedMail((await simpleParser(mail[0]!)).text);
 
     expect((await api().get('/api/incidents').query({ productionId: ids.lantern }).set('Cookie', as.artist)).status).toBe(403);
     expect((await api().get('/api/incidents').query({ productionId: ids.lantern }).set('Cookie', as.head)).status).toBe(403);

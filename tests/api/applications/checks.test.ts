@@ -5,6 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { CheckSchema, LeadRequestSchema } from '#shared/schemas/checks.ts';
 import { runCheck as runCheckService } from '../../../api/features/checks/service.ts';
 import type { Database } from '../../../api/db/schema.ts';
+import { expectWordedMail } from '../../support/mail-wording.ts';
 import { api, as, caughtMail, HARBOUR, ids, logCounts, MISTRAL, PIER, QUAYSIDE, runCheck, setClearance, t, useApplicationApp } from './setup.ts';
 
 useApplicationApp();
@@ -114,6 +115,7 @@ describe('asking the lead', () => {
     expect(mail).toHaveLength(1);
     expect(mail[0]).toContain('lead@plinth.test');
     for (const detail of [HARBOUR, 'Juno', 'Caution', 'set by the designated lead']) expect(mail[0]).not.toContain(detail);
+    expectWordedMail((await simpleParser(mail[0]!)).text);
 
     const again = await api().post(`/api/checks/${check.id}/requests`).set('Cookie', as.artist).send({ formulationId: check.items[0]!.formulationId });
     expect(again.status).toBe(409);
@@ -135,6 +137,7 @@ describe('asking the lead', () => {
     expect(answered.to && !Array.isArray(answered.to) ? answered.to.value.map((v) => v.address) : []).toEqual(['artist@plinth.test']);
     expect(answered.subject).toBe('Plinth: the designated lead has answered your question');
     expect(answered.text).toContain(`/check?checkId=${check.id}`);
+    expectWordedMail(answered.text);
     for (const detail of [HARBOUR, 'Juno', 'Small area only', 'approved', 'Caution']) expect(answered.text).not.toContain(detail);
     const twice = await api().post(`/api/lead-requests/${requestId}/decision`).set('Cookie', as.lead).send({ decision: 'refused', note: 'changed my mind', version: 2 });
     expect(twice.status).toBe(409);

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import { BundleLinkViewSchema, SigningBundleSchema } from '#shared/schemas/consent-bundles.ts';
 import { TabletStateSchema } from '#shared/schemas/consents.ts';
+import { expectWordedMail } from '../../support/mail-wording.ts';
 import { api, as, lantern, lastMailTo, mailsTo, performerId, submission, t, templateId, useConsentWorkApp } from './setup.ts';
 
 useConsentWorkApp();
@@ -89,6 +90,7 @@ describe('a bundle sent as one link', () => {
     // The mail names the production and its department head, and prints the date in words.
     expect(mail.subject).toContain('The Lantern Keeper');
     expect(mail.text).toContain('Marta Oyelaran');
+    expectWordedMail(mail.text);
     expect(mail.text).toMatch(/until (Monday|Tuesday|Wednesday|Thursday|Friday|Saturday|Sunday) \d{1,2} (January|February|March|April|May|June|July|August|September|October|November|December) \d{4} at \d{2}:\d{2}/);
     const tokens = [...(mail.text ?? '').matchAll(/\/sign\/bundle\/([A-Za-z0-9_-]{40,60})/g)].map((m) => m[1]);
     expect(tokens).toHaveLength(1);
@@ -119,6 +121,7 @@ describe('a bundle sent as one link', () => {
     for (const c of copies) {
       expect(c.subject).toContain('The Lantern Keeper');
       expect(c.text).toContain('department head: Marta Oyelaran');
+      expectWordedMail(c.text, undefined, undefined, { dateOnly: true });
       expect(c.attachments).toHaveLength(1);
     }
   });

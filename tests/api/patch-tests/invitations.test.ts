@@ -5,6 +5,7 @@ import path from 'node:path';
 import ICAL from 'ical.js';
 import { simpleParser, type ParsedMail } from 'mailparser';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { expectWordedMail } from '../../support/mail-wording.ts';
 import { HOUR, patchTestWorld, type PatchTestWorld } from './setup.ts';
 
 let w: PatchTestWorld;
@@ -88,5 +89,52 @@ describe('patch-test invitations', () => {
     expect(cancel.status).toBe(409);
     const row = await w.t.db.db.selectFrom('bookings').select(['status', 'invitation_sequence']).where('id', '=', id).executeTakeFirstOrThrow();
     expect(row).toEqual({ status: 'booked', invitation_sequence: 0 });
+  });
+
+  it('DTEND is the end the session was booked with, and keeps the booked length when the test moves', async () => {
+    const lot = await w.lot('QA-2602');
+    const startsAt = new Date(Date.now() + 120 * HOUR);
+    startsAt.setUTCSeconds(0, 0);
+    // Booked for 50 minutes, not the usual 30 of an application session.
+    const endsAt = new Date(startsAt.getTime() + 50 * 60_000);
+    let before = await mailFiles();
+    const booked = await w.book({ startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), products: [{ productId: lot.productId, lotId: lot.id, site: 'Right inner forearm 3' }] });
+    expect(booked.status).toBe(201);
+    const id = booked.body.id as string;
+    const row = await w.t.db.db.selectFrom('bookings').select('ends_at').where('id', '=', id).executeTakeFirstOrThrow();
+    expect(new Date(row.ends_at!).getTime()).toBe(endsAt.getTime());
+    const dtend = (cal: ICAL.Component) => (cal.getFirstSubcomponent('vevent')!.getFirstPropertyValue('dtend') as ICAL.Time).toJSDate().getTime();
+    let sent = await calendarsSince(before);
+    expect(sent).toHaveLength(2);
+    for (const { cal, mail } of sent) {
+      expect(dtend(cal)).toBe(endsAt.getTime());
+      expectWordedMail(mail.text);
+    }
+
+    before = await mailFiles();
+    const later = new Date(startsAt.getTime() + 24 * HOUR);
+    const moved = await w.api().post(`/api/patch-tests/${id}/reschedule`).set('Cookie', w.as.head).send({ startsAt: later.toISOString(), location: 'Studio 4', version: booked.body.version });
+    expect(moved.status).toBe(200);
+    sent = await calendarsSince(before);
+    expect(sent).toHaveLength(2);
+    for (const { cal, mail } of sent) {
+      expect(Number(cal.getFirstSubcomponent('vevent')!.getFirstPropertyValue('sequence'))).toBe(1);
+      expect(dtend(cal)).toBe(later.getTime() + 50 * 60_000);
+      expectWordedMail(mail.text);
+    }
+
+    before = await mailFiles();
+    await w.api().post(`/api/patch-tests/${id}/cancel`).set('Cookie', w.as.head).send({ version: moved.body.version }).expect(200);
+    sent = await calendarsSince(before);
+    expect(sent.map(({ cal }) => cal.getFirstPropertyValue('method'))).toEqual(['CANCEL', 'CANCEL']);
+    for (const { mail } of sent) expectWordedMail(mail.text);
+  });
+
+  it('refuses an end before the start', async () => {
+    const lot = await w.lot('QA-2602');
+    const startsAt = new Date(Date.now() + 200 * HOUR);
+    const res = await w.book({ startsAt: startsAt.toISOString(), endsAt: new Date(startsAt.getTime() - 60_000).toISOString(), products: [{ productId: lot.productId, lotId: lot.id, site: 'Right inner forearm 4' }] });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.fields.endsAt).toEqual(['The session must end after it starts']);
   });
 });

@@ -5,6 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readingRemindersJob } from '../../../api/features/patch-tests/reminder-job.ts';
 import { startJobRunner, type JobRunner } from '../../../api/jobs/runner.ts';
 import { createTestApp, type TestApp } from '../../support/app.ts';
+import { expectWordedMail, MOMENT_IN_WORDS } from '../../support/mail-wording.ts';
 
 /**
  * The lead's reading reminders on the demo tests (Juno's department use test applied 26 hours ago, its
@@ -67,6 +68,9 @@ describe('reading reminders to the lead', () => {
     for (const m of sent) {
       expect(m.text).toMatch(/\/patch-tests\/[0-9a-f-]{36}/);
       expect(m.text).not.toMatch(/\+|negative|positive|doubtful/i);
+      // The window's close is written in words on the studio's clock, like every mail's moments.
+      expect(m.text).toMatch(new RegExp(`(until|due by) ${MOMENT_IN_WORDS.source}`));
+      expectWordedMail(m.text);
     }
     await runOnce(first);
     await stop(first);

@@ -24,6 +24,7 @@ export interface BookBody {
   productionId: string;
   protocolId: string;
   startsAt: string;
+  endsAt?: string;
   location: string;
   products: { productId: string; lotId: string; site: string }[];
 }
