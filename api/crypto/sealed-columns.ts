@@ -25,6 +25,8 @@ export const SEALED_COLUMNS: readonly SealedColumn[] = [
   { table: 'skin_checks', key: 'application_id', column: 'outcome', jsonb: false },
   { table: 'skin_checks', key: 'application_id', column: 'observation', jsonb: false },
   { table: 'incidents', key: 'id', column: 'closing_note', jsonb: false },
+  // A message kept to send again may carry a signed copy with health answers.
+  { table: 'mail_failures', key: 'id', column: 'message', jsonb: true },
 ];
 
 /** The sealed columns grouped by table, in the order above (a rotation seals each table in one transaction). */

@@ -8,6 +8,7 @@ import { ICDRG_CODES } from '#shared/domain/icdrg.ts';
 import { installKeyring, keyringOf, openBytes, openJson, sealedWith } from '../../api/crypto/medical.ts';
 import { resealColumns } from '../../api/crypto/reseal.ts';
 import { SEALED_COLUMNS, type SealedColumn } from '../../api/crypto/sealed-columns.ts';
+import { findOpenMailFailure, recordMailFailure } from '../../api/mail/failures.ts';
 import { rotateMedicalKey, rotateMedicalKeyFromEnv } from '../../scripts/rotate-key-lib.ts';
 import { cameraJpeg } from '../fixtures/images.ts';
 import { createTestApp, TEST_MEDICAL_KEY, type TestApp } from '../support/app.ts';
@@ -18,7 +19,10 @@ let juno: string;
 let testId: string;
 let photoId: string;
 let uploaded: Buffer;
+let keptMail: string;
 const ALLERGY = 'Sticking plasters make my skin itch';
+/** A signed copy kept with a message that could not be sent: it carries the health answer. */
+const COPY = Buffer.from(`%PDF-1.7 signed copy: ${ALLERGY}`);
 /** Words of every health detail this file writes or the demo seeds; none may be found in a raw row. */
 const PLAIN = [ALLERGY, 'eczema', 'Weeping patch', 'production doctor', 'Blistered under occlusion', 'cool compress', 'Pink patch', 'No longer comfortable', 'Reviewed with the performer'];
 const OUTCOMES = ['clear', 'redness', 'reaction'];
@@ -61,6 +65,9 @@ beforeAll(async () => {
   await request(t.app).post(`/api/lead-requests/${waiting.id}/decision`).set('Cookie', lead).send({ decision: 'refused', note: 'Blistered under occlusion last season', version: waiting.version }).expect(200);
   const incident = await t.db.db.selectFrom('incidents').select(['id', 'version']).executeTakeFirstOrThrow();
   await request(t.app).post(`/api/incidents/${incident.id}/close`).set('Cookie', lead).send({ note: 'Settled with a cool compress', version: incident.version }).expect(200);
+  // A signed copy whose mail could not be sent is kept to send again.
+  await recordMailFailure(t.db.db, { to: 'performer@plinth.test', subject: 'Your signed form', text: 'Attached.', attachments: [{ filename: 'consent.pdf', content: COPY, contentType: 'application/pdf' }] }, 'connection refused');
+  keptMail = (await t.db.db.selectFrom('mail_failures').select('id').where('subject', '=', 'Your signed form').executeTakeFirstOrThrow()).id;
 });
 afterAll(async () => {
   await t?.close();
@@ -126,6 +133,10 @@ describe('health details at rest', () => {
     const outcomes = await rawColumn(SEALED_COLUMNS.find((c) => c.table === 'skin_checks' && c.column === 'outcome')!);
     for (const v of outcomes) expect(OUTCOMES).not.toContain(v);
     expect(outcomes.map((v) => openJson<string>(v))).toContain('redness');
+    // The kept message holds its attachment neither as text nor as base64.
+    const kept = (await rawColumn(SEALED_COLUMNS.find((c) => c.table === 'mail_failures')!)).join('\n');
+    expect(kept).not.toContain(COPY.toString('base64'));
+    expect(kept).not.toContain('Your signed form');
     // The seeded answer is among the sealed ones.
     const answers = await rawColumn(SEALED_COLUMNS.find((c) => c.table === 'consent_answers')!);
     expect(answers.map((v) => JSON.stringify(openJson(JSON.parse(v)))).join('\n')).toContain(ALLERGY);
@@ -152,6 +163,7 @@ describe('health details at rest', () => {
     expect(r.consent).toContain(ALLERGY);
     expect(r.reading).toMatchObject({ code: '+++', note: 'Weeping patch spreading past the edge' });
     expect(r.skinCheck).toMatchObject({ outcome: 'redness', observation: expect.stringContaining('Pink patch') });
+    expect((await findOpenMailFailure(t.db.db, keptMail))?.attachments?.[0]?.content).toEqual(COPY);
   });
 
   it('an outcome left in plain text by an earlier release still reads, and the start-up pass seals it', async () => {
@@ -219,6 +231,10 @@ describe('rotating the medical data key', () => {
     } finally {
       installKeyring(keyringOf(newKey));
     }
+    // The kept message still goes out as it was.
+    expect((await findOpenMailFailure(t.db.db, keptMail))?.attachments?.[0]?.content).toEqual(COPY);
+    const retry = await request(t.app).post(`/api/outbox/failures/${keptMail}/retry`).set('Cookie', await t.sessionFor('admin@plinth.test')).expect(200);
+    expect(retry.body).toEqual({ sent: true, error: null });
     // The same two keys again: nothing is left to do, and the same key twice is refused.
     expect(await rotateMedicalKeyFromEnv({ db: t.db.db, files: t.ctx.files, oldKey, newKey })).toMatchObject({ values: 0, files: 0 });
     await expect(rotateMedicalKeyFromEnv({ db: t.db.db, files: t.ctx.files, oldKey: newKey, newKey })).rejects.toThrow(/key in use/);
