@@ -1,11 +1,10 @@
-// Rotating the medical data key: a new key, every sealed value and file sealed again under it, the old key dropped.
+// Rotating the medical data key: every sealed value and file sealed again under the new key, the old key dropped.
 import { randomBytes } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import { readFile, rename, rm, writeFile } from 'node:fs/promises';
-import { sql } from 'kysely';
 import { previousKeyFile } from '../api/crypto/medical-keys.ts';
-import { installKeyring, isSealed, keyringOf, openBytes, openJson, sealBytes, sealedWith, sealJson } from '../api/crypto/medical.ts';
-import { SEALED_COLUMNS } from '../api/crypto/sealed-columns.ts';
+import { installKeyring, keyringOf } from '../api/crypto/medical.ts';
+import { resealAll } from '../api/crypto/reseal.ts';
 import type { Db } from '../api/db/index.ts';
 import type { FileStore } from '../api/files/store.ts';
 
@@ -22,45 +21,38 @@ async function writeSecret(file: string, text: string): Promise<void> {
 }
 
 /**
- * Run with the app stopped. The old key is kept beside the new one until everything is sealed
- * again, so a rotation cut short can be run once more and loses nothing.
+ * The key file (`.data/medical-data.key`): run with the app stopped. The new key is `newKey` when
+ * given, else drawn here. The old key is kept beside the new one (`<key file>.previous`) until
+ * everything is sealed again, so a rotation cut short can be run once more and loses nothing.
  */
-export async function rotateMedicalKey(opts: { db: Db; files: FileStore; keyFile: string }): Promise<RotationReport> {
+export async function rotateMedicalKey(opts: { db: Db; files: FileStore; keyFile: string; newKey?: string }): Promise<RotationReport> {
   const old = (await readFile(opts.keyFile, 'utf8')).trim();
   const prevFile = previousKeyFile(opts.keyFile);
   const previous = existsSync(prevFile) ? (await readFile(prevFile, 'utf8')).split('\n').map((l) => l.trim()).filter(Boolean) : [];
-  const next = randomBytes(32).toString('base64');
+  const next = opts.newKey?.trim() ?? randomBytes(32).toString('base64');
+  if (next === old) throw new Error('The new medical data key is the key in use: give another one.');
+  // Checked before anything is written: a malformed new key throws here.
+  const ring = keyringOf(next, [old, ...previous]);
   await writeSecret(prevFile, [...new Set([old, ...previous])].join('\n') + '\n');
   await writeSecret(opts.keyFile, `${next}\n`);
-  const ring = keyringOf(next, [old, ...previous]);
   installKeyring(ring);
-
-  let values = 0;
-  await opts.db.transaction().execute(async (trx) => {
-    for (const c of SEALED_COLUMNS) {
-      const { rows } = await sql<{ k: string; v: unknown }>`select ${sql.ref(c.key)}::text as k, ${sql.ref(c.column)} as v from ${sql.table(c.table)} where ${sql.ref(c.column)} is not null`.execute(trx);
-      for (const r of rows) {
-        if (!isSealed(r.v) || sealedWith(r.v) === ring.current.id) continue;
-        const resealed = sealJson(openJson(r.v));
-        await sql`update ${sql.table(c.table)} set ${sql.ref(c.column)} = ${c.jsonb ? JSON.stringify(resealed) : resealed}${sql.raw(c.jsonb ? '::jsonb' : '')} where ${sql.ref(c.key)}::text = ${r.k}`.execute(trx);
-        values++;
-      }
-    }
-  });
-
-  let files = 0;
-  const rows = await opts.db.selectFrom('files').select(['storage_path']).execute();
-  for (const f of rows) {
-    const bytes = await opts.files.get(f.storage_path);
-    if (!bytes) continue;
-    const id = sealedWith(bytes);
-    if (id === null || id === ring.current.id) continue;
-    // Each file is replaced whole (disk: renamed into place; bucket: one PUT), so a reader never sees half.
-    await opts.files.put(f.storage_path, sealBytes(openBytes(bytes)), 'application/octet-stream');
-    files++;
-  }
+  const report = await resealAll(opts.db, opts.files);
   // Everything is under the new key: the old one goes.
   await rm(prevFile, { force: true });
   installKeyring(keyringOf(next));
-  return { values, files, keyId: ring.current.id };
+  return { ...report, keyId: ring.current.id };
+}
+
+/**
+ * A key given in the environment (`MEDICAL_DATA_KEY`, the new one in `MEDICAL_DATA_KEY_NEW`): run
+ * with the app stopped, then start every process with MEDICAL_DATA_KEY set to the new key. Both keys
+ * open values while it runs, so a rotation cut short is run again with the same two keys.
+ */
+export async function rotateMedicalKeyFromEnv(opts: { db: Db; files: FileStore; oldKey: string; newKey: string }): Promise<RotationReport> {
+  if (opts.newKey.trim() === opts.oldKey.trim()) throw new Error('MEDICAL_DATA_KEY_NEW is the key in use: give another one.');
+  const ring = keyringOf(opts.newKey, [opts.oldKey]);
+  installKeyring(ring);
+  const report = await resealAll(opts.db, opts.files);
+  installKeyring(keyringOf(opts.newKey));
+  return { ...report, keyId: ring.current.id };
 }

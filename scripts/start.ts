@@ -12,6 +12,7 @@ import { migrateToLatest } from '../api/db/migrate.ts';
 import { seedDemo } from '../api/db/seed.ts';
 import { createFileStore } from '../api/files/store.ts';
 import { installMedicalKeys } from '../api/crypto/medical-keys.ts';
+import { resealColumns } from '../api/crypto/reseal.ts';
 import { ensureDefaultProtocols } from '../api/features/protocols/index.ts';
 import { startServer } from '../api/server.ts';
 import { DEMO_PASSWORD, demoAccounts } from '../fake-idp/accounts.ts';
@@ -95,6 +96,9 @@ async function main(): Promise<void> {
   try {
     const applied = await migrateToLatest(handle.db);
     if (applied.length) console.log(`Migrations applied: ${applied.join(', ')}`);
+    // A column that became sealed after it had rows holds them in plain text until they are sealed here.
+    const sealed = await resealColumns(handle.db, { onlyPlain: true });
+    if (sealed) console.log(`Sealed ${sealed} health details left in plain text by an earlier release.`);
     // Demo people and records never enter a production database.
     if (!config.isProduction && (await seedDemo(handle.db, { files }))) console.log('Loaded the demo scenario (The Lantern Keeper).');
     // The test protocols a studio starts with are not demo data: every database gets them once.

@@ -43,6 +43,11 @@ function ring(): Keyring {
   return installed;
 }
 
+/** The id of the key new seals are made with. */
+export function currentKeyId(): string {
+  return ring().current.id;
+}
+
 function keyFor(id: string): Buffer {
   const r = ring();
   if (r.current.id === id) return r.current.key;

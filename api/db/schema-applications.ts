@@ -86,7 +86,8 @@ export type SkinCheckOutcomeCol = 'clear' | 'redness' | 'reaction';
 
 export interface SkinChecksTable {
   application_id: string;
-  outcome: SkinCheckOutcomeCol;
+  /** sealJson(SkinCheckOutcomeCol): a health detail like the observation. */
+  outcome: string;
   /** Sealed (sealJson); null only when clear. */
   observation: string | null;
   checked_by: string | null;

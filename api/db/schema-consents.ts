@@ -155,7 +155,7 @@ export interface BookingsTable {
 
 export interface MailFailuresTable {
   id: Generated<string>;
-  /** The whole message (attachments base64-encoded), to send again as it was. */
+  /** The whole message (attachments base64-encoded), to send again as it was; sealed (sealJson) as a JSON string. */
   message: ColumnType<unknown, string, string>;
   recipients: string;
   subject: string;

@@ -1,3 +1,4 @@
+import { openJson, sealJson } from '../crypto/medical.ts';
 import type { Db } from '../db/index.ts';
 import type { OutgoingMail } from './mailer.ts';
 
@@ -20,11 +21,14 @@ function fromStored(raw: unknown): OutgoingMail {
   return { ...m, attachments: m.attachments?.map((a) => ({ filename: a.filename, contentType: a.contentType, content: Buffer.from(a.contentBase64, 'base64') })) };
 }
 
-/** Keeps a message that could not be sent, whole, so it can be sent again later. */
+/**
+ * Keeps a message that could not be sent, whole, so it can be sent again later. It is sealed: a
+ * signed copy attached to it carries health answers.
+ */
 export async function recordMailFailure(db: Db, mail: OutgoingMail, error: string): Promise<void> {
   await db
     .insertInto('mail_failures')
-    .values({ message: JSON.stringify(toStored(mail)), recipients: [mail.to].flat().join(', '), subject: mail.subject, error: error.slice(0, 500) })
+    .values({ message: JSON.stringify(sealJson(toStored(mail))), recipients: [mail.to].flat().join(', '), subject: mail.subject, error: error.slice(0, 500) })
     .execute();
 }
 
@@ -51,7 +55,7 @@ export async function listOpenMailFailures(db: Db): Promise<MailFailure[]> {
 
 export async function findOpenMailFailure(db: Db, id: string): Promise<OutgoingMail | undefined> {
   const r = await db.selectFrom('mail_failures').select('message').where('id', '=', id).where('sent_at', 'is', null).forUpdate().executeTakeFirst();
-  return r ? fromStored(r.message) : undefined;
+  return r ? fromStored(openJson(r.message)) : undefined;
 }
 
 export async function markMailFailure(db: Db, id: string, outcome: { sent: true } | { sent: false; error: string }): Promise<void> {

@@ -54,7 +54,7 @@ function toIncident(r: Selected): IncidentRow {
     reportedAt: new Date(r.reported_at),
     reportedByName: r.display_name ?? null,
     status: r.status,
-    outcome: r.outcome,
+    outcome: openJson<SkinCheckOutcome>(r.outcome),
     observation: r.observation ? openJson<string>(r.observation) : null,
     closedAt: r.closed_at ? new Date(r.closed_at) : null,
     closingNote: r.closing_note ? openJson<string>(r.closing_note) : null,

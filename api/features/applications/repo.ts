@@ -81,7 +81,7 @@ function toApplication(r: Selected): ApplicationRow {
     endedAt: r.ended_at ? new Date(r.ended_at) : null,
     notes: r.notes,
     check: SnapshotSchema.parse(r.check_snapshot),
-    skinCheck: r.outcome ? { outcome: r.outcome, observation: r.observation ? openJson<string>(r.observation) : null, checkedAt: new Date(r.checked_at!), checkedByName: r.checked_by_name ?? null } : null,
+    skinCheck: r.outcome ? { outcome: openJson<SkinCheckOutcome>(r.outcome), observation: r.observation ? openJson<string>(r.observation) : null, checkedAt: new Date(r.checked_at!), checkedByName: r.checked_by_name ?? null } : null,
     version: r.version,
   };
 }
@@ -189,6 +189,6 @@ export async function setEndedAtVersion(db: Db, id: string, endedAt: Date, versi
 export async function insertSkinCheck(db: Db, v: { applicationId: string; outcome: SkinCheckOutcome; observation: string | null; userId: string }): Promise<void> {
   await db
     .insertInto('skin_checks')
-    .values({ application_id: v.applicationId, outcome: v.outcome, observation: v.observation === null ? null : sealJson(v.observation), checked_by: v.userId })
+    .values({ application_id: v.applicationId, outcome: sealJson(v.outcome), observation: v.observation === null ? null : sealJson(v.observation), checked_by: v.userId })
     .execute();
 }

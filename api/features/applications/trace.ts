@@ -66,7 +66,7 @@ async function listLotUses(db: Db, lotId: string): Promise<TraceRow[]> {
     appliedOn: r.applied_on,
     use: r.use,
     artistName: r.display_name ?? null,
-    outcome: r.outcome ?? null,
+    outcome: r.outcome ? openJson<SkinCheckOutcome>(r.outcome) : null,
     observation: r.observation ? openJson<string>(r.observation) : null,
   }));
 }

@@ -180,7 +180,7 @@ export async function performerCasts(db: Db, actor: Actor, performerId: string, 
 }
 
 /** Where the performer's own cast is, without naming who in the department has it. */
-function ownWhere(c: CastRecord, tree: LocationSet): string {
+export function ownWhere(c: CastRecord, tree: LocationSet): string {
   switch (c.status) {
     case 'in_store':
       return placeText(placeOf(c), tree);

@@ -1,2 +1,2 @@
 // What other features may use of the audit log.
-export { listHealthReadsOf } from './repo.ts';
+export { listAuditAbout, listHealthReadsOf } from './repo.ts';

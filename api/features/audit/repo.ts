@@ -1,5 +1,6 @@
 import { sql } from 'kysely';
 import type { AuditPage, AuditQuery } from '#shared/schemas/audit.ts';
+import { auditActionLabel } from '#shared/domain/audit.ts';
 import type { Db } from '../../db/index.ts';
 
 /** Whose entries a reader may see: every one, or those of the productions they lead (see `auditPage`). */
@@ -107,4 +108,18 @@ export async function listHealthReadsOf(db: Db, performerId: string): Promise<Ac
     .limit(500)
     .execute();
   return rows.map((r) => ({ at: new Date(r.at).toISOString(), who: r.display_name, action: r.action, entityType: r.entity_type, route: r.route }));
+}
+
+/** Every audit entry about a performer, oldest first: who did or read what of their records, and when. */
+export async function listAuditAbout(db: Db, performerId: string) {
+  const rows = await db
+    .selectFrom('audit_log as a')
+    .leftJoin('users as u', 'u.id', 'a.actor_user_id')
+    .leftJoin('productions as pr', 'pr.id', 'a.production_id')
+    .select(['a.at', 'u.display_name', 'a.action', 'a.entity_type', 'a.route', 'a.details', 'pr.name as production_name'])
+    .where('a.subject_performer_id', '=', performerId)
+    .orderBy('a.at')
+    .orderBy('a.id')
+    .execute();
+  return rows.map((r) => ({ at: new Date(r.at).toISOString(), who: r.display_name, action: r.action, what: auditActionLabel(r.action), record: r.entity_type, production: r.production_name, route: r.route, details: r.details }));
 }

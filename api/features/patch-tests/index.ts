@@ -6,3 +6,6 @@ export { headPatchTestTasks, leadReadingTasks, readingLists, testsUnderReading, 
 // A performer's tests and clearances, and one test with its readings (their records export reads them).
 export { performerPatchTests } from './performer-service.ts';
 export { detailFor as patchTestDetail } from './service.ts';
+// The performer's records export: their reading photos, and the printable record of their tests.
+export { listReadingPhotosOfPerformer } from './records.ts';
+export { renderSummaryPdf as renderPatchTestRecordPdf } from './summary-pdf.ts';
