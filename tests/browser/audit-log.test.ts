@@ -33,12 +33,12 @@ describe('the audit log at 768 × 1024', () => {
       await page.getByRole('heading', { level: 1, name: /Today · Designated lead/ }).waitFor();
       // Two performers' health summaries read: an entry about each.
       await openPerformer(page, /Juno Castellane/);
-      await openPerformer(page, /Oz Parfitt/);
+      await openPerformer(page, /Cory Ashdown/);
 
       await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Audit log', exact: true }).click();
       await page.getByRole('heading', { level: 1, name: 'Audit log' }).waitFor();
       expect(new URL(page.url()).pathname).toBe('/audit');
-      await page.getByTestId('audit-table').getByText('of Oz Parfitt').first().waitFor();
+      await page.getByTestId('audit-table').getByText('of Cory Ashdown').first().waitFor();
       const before = await rowTexts(page);
       expect(before.some((r) => r.includes('Juno Castellane'))).toBe(true);
       // Words, never event codes.
@@ -55,7 +55,7 @@ describe('the audit log at 768 × 1024', () => {
       await expect
         .poll(async () => {
           const rows = await rowTexts(page);
-          return rows.length > 0 && rows.every((r) => r.includes('Juno Castellane')) && !rows.some((r) => r.includes('Oz Parfitt'));
+          return rows.length > 0 && rows.every((r) => r.includes('Juno Castellane')) && !rows.some((r) => r.includes('Cory Ashdown'));
         })
         .toBe(true);
       await expectAccessible(page, "the lead's audit log, one performer");
