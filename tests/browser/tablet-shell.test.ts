@@ -30,12 +30,20 @@ async function withPage(viewport: { width: number; height: number }, run: (page:
 }
 
 describe('homes offer the next step', () => {
+  // The artist's panels (today's applications, checks waiting on the lead) hold whatever the shared demo's
+  // day holds after other files ran, so this test sets their two lists itself; the rest of the page is real.
+  async function artistPanels(page: Page, applications: unknown[]) {
+    await page.route(/\/api\/applications\?/, (route) => route.fulfill({ json: { items: applications } }));
+    await page.route(/\/api\/checks\/waiting\?/, (route) => route.fulfill({ json: { items: [] } }));
+  }
+
   it('an artist with nothing to do today is offered where to start', async () => {
     await withPage(TABLET_PORTRAIT, async (page) => {
+      await artistPanels(page, []);
       await signInThroughIdp(page, appUrl, 'artist@plinth.test', DEMO_PASSWORD);
       await page.getByRole('heading', { level: 1, name: /Today · Artist/ }).waitFor();
-      const empty = page.getByTestId('empty-state');
-      await empty.getByText('Nothing needs doing today.').waitFor();
+      const empty = page.getByTestId('empty-state').filter({ hasText: 'Nothing needs doing today.' });
+      await empty.waitFor();
       const actions = empty.getByTestId('start-actions').getByRole('link');
       // The check comes first: nothing goes on the skin without one.
       expect(await actions.allTextContents()).toEqual(['Run a check', 'Find a performer']);
@@ -46,6 +54,19 @@ describe('homes offer the next step', () => {
       await page.goBack();
       await empty.getByTestId('start-actions').getByRole('link', { name: 'Find a performer' }).click();
       await page.getByRole('heading', { level: 1, name: /Performers/ }).waitFor();
+    });
+  });
+
+  it('an artist whose day has an application on is not told that nothing needs doing', async () => {
+    await withPage(TABLET_PORTRAIT, async (page) => {
+      const on = { id: '00000000-0000-4000-8000-0000000000a1', performerId: '00000000-0000-4000-8000-0000000000b1', performerName: 'Juno Castellane', artistName: 'Rafe Lindqvist', appliedOn: '2026-12-02', description: 'Scar appliance', startedAt: new Date().toISOString(), endedAt: null, skinChecked: false };
+      await artistPanels(page, [on]);
+      await signInThroughIdp(page, appUrl, 'artist@plinth.test', DEMO_PASSWORD);
+      await page.getByRole('heading', { level: 1, name: /Today · Artist/ }).waitFor();
+      await page.getByTestId('home-applications').getByText('Juno Castellane: Scar appliance').waitFor();
+      expect(await page.getByText('Nothing needs doing today.').count()).toBe(0);
+      // The next steps stay on the page, the check first.
+      expect((await page.getByTestId('start-actions').first().getByRole('link').allTextContents())[0]).toBe('Run a check');
     });
   });
 

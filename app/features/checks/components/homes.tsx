@@ -18,6 +18,25 @@ const runCheck = (
   </Link>
 );
 
+/**
+ * How many entries the role's own home panels hold (the artist's applications and waiting checks,
+ * the lead's incidents and requests), or undefined while they load: the home says "nothing needs
+ * doing" only when these are empty too. The queries are the panels' own, so they are fetched once.
+ */
+export function useHomePanelEntries(role: string, productionId: string | null | undefined): number | undefined {
+  const [today] = useState(() => localDate(new Date()));
+  const id = productionId ?? '';
+  const artist = role === 'artist' && id !== '';
+  const lead = role === 'lead' && id !== '';
+  const applications = useQuery({ ...applicationsQueryOptions(id, today), enabled: artist });
+  const waiting = useQuery({ ...waitingChecksQueryOptions(id), enabled: artist });
+  const incidents = useQuery({ ...incidentsQueryOptions(id, 'open'), enabled: lead });
+  const requests = useQuery({ ...leadRequestsQueryOptions(id, 'waiting'), enabled: lead });
+  const panels = artist ? [applications, waiting] : lead ? [incidents, requests] : [];
+  if (panels.some((q) => q.data === undefined)) return undefined;
+  return panels.reduce((sum, q) => sum + (q.data?.items.length ?? 0), 0);
+}
+
 /** The artist's home: today's applications on the production, and checks waiting on the lead. */
 export function ArtistHome({ productionId }: { productionId: string }) {
   const [today] = useState(() => localDate(new Date()));

@@ -9,7 +9,7 @@ import { homeQueryOptions } from '../api.ts';
 import { StartActions } from '../components/start-actions.tsx';
 import { TaskCard } from '../components/task-card.tsx';
 import { ConsentWorkPanels } from '../../consents/index.ts';
-import { ArtistHome, LeadHome } from '../../checks/index.ts';
+import { ArtistHome, LeadHome, useHomePanelEntries } from '../../checks/index.ts';
 
 /** One line on what this seat is for, so a person switching seats knows which hat they wear. */
 const ROLE_INTROS: Record<ActingRole, string> = {
@@ -32,6 +32,8 @@ export function HomePage() {
   const role: ActingRole = home.data?.role ?? session.current?.role ?? 'performer';
 
   const performer = role === 'performer';
+  // The artist's and the lead's panels below count as things to do: no "nothing needs doing" over them.
+  const panelEntries = useHomePanelEntries(role, session.current?.productionId);
 
   return (
     <>
@@ -52,7 +54,7 @@ export function HomePage() {
       <QueryView query={home} loadingLabel="Loading today’s tasks…">
         {(data) => (
           <>
-            {!performer && data.tasks.every((t) => t.count === 0) ? (
+            {!performer && panelEntries === 0 && data.tasks.every((t) => t.count === 0) ? (
               <EmptyState title="Nothing needs doing today." action={<StartActions />}>
                 Start from here:
               </EmptyState>
