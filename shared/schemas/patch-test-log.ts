@@ -4,7 +4,7 @@ import { ICDRG_CODES } from '../domain/icdrg.ts';
 import { TEST_STATUSES } from '../domain/reading-schedule.ts';
 import { READING_PATTERNS } from '../domain/test-outcome.ts';
 import { TEST_SITES } from '../domain/test-sites.ts';
-import { IdSchema, MomentInputSchema, VersionSchema } from './common.ts';
+import { IdSchema, MomentInputSchema, pagedSchema, VersionSchema } from './common.ts';
 import { IcdrgCodeSchema, TestKindSchema } from './patch-tests.ts';
 
 export const TestSiteSchema = z.enum(TEST_SITES, { message: 'Choose a test site from the list' });
@@ -147,9 +147,22 @@ export const ClearanceRowSchema = z.object({
 });
 export type ClearanceRow = z.infer<typeof ClearanceRowSchema>;
 
+/**
+ * Products that are Caution for this performer only because they share a non-trivial ingredient with a
+ * product that reacted: on a large catalogue these run to thousands, so they come a page at a time,
+ * by product name, apart from the table of what was tested, decided or declared.
+ */
+export const SHARED_CAUTIONS_PAGE_SIZE = 25;
+export const PerformerPatchTestsQuerySchema = z.object({
+  sharedPage: z.coerce.number({ error: 'Give a page number' }).int('Give a whole page number').min(1, 'Pages start at 1').max(100_000, 'No such page').default(1),
+});
+export type PerformerPatchTestsQuery = z.infer<typeof PerformerPatchTestsQuerySchema>;
+
 export const PerformerPatchTestsSchema = z.object({
   tests: z.array(PatchTestSummarySchema),
+  /** Every product tested on the performer, decided by the lead, or matching a declared allergy. */
   clearances: z.array(ClearanceRowSchema),
+  sharedCautions: pagedSchema(ClearanceRowSchema),
   medical: z.boolean(),
   canBook: z.boolean(),
   canOverride: z.boolean(),

@@ -106,7 +106,14 @@ describe('a performer’s patch tests and clearances (head, portrait tablet)', (
       // The demo's allergic result (+ then ++) reads as Do not use, "reacted in testing" (product brief §1 and §3).
       expect(await quayside.textContent()).toContain('Do not use');
       expect(await quayside.textContent()).toContain('reacted in testing');
-      expect(await table.getByRole('row', { name: /Breakwater acrylic sealer/ }).textContent()).toContain('shares an ingredient with a product that reacted');
+      // Breakwater is untested and shares Acrylates Copolymer with Quayside: listed apart, a page at a time, with the count in the heading.
+      const shared = section.getByTestId('shared-cautions');
+      const sharedTable = shared.getByRole('table', { name: 'Products sharing an ingredient with a product that reacted' });
+      expect(await sharedTable.getByRole('row', { name: /Breakwater acrylic sealer/ }).textContent()).toContain('shares an ingredient with a product that reacted');
+      expect(await table.getByRole('row', { name: /Breakwater acrylic sealer/ }).count()).toBe(0);
+      const listed = (await sharedTable.locator('tbody tr').count());
+      expect(await shared.getByRole('heading', { level: 3 }).textContent()).toContain(`${listed} more product`);
+      expect(await shared.getByRole('navigation', { name: 'Pages of products' }).textContent()).toContain(`of ${listed} products`);
       expect(await section.textContent()).not.toMatch(/\+\+|Strong positive/);
       await expectAccessible(page, 'a performer’s patch tests');
       await noSidewaysScroll(page, 'performer page');

@@ -53,10 +53,13 @@ describe('the performer page sums up clearances (head, portrait tablet)', () => 
       const summary = page.getByTestId('clearance-summary');
       await summary.waitFor();
 
-      // The counts on the line are the table's own rows, state by state.
+      // The counts on the line are the tables' own rows, state by state: the table proper and the
+      // products sharing an ingredient with a reaction (the demo's fit on one page).
       const table = page.getByTestId('patch-tests-section').getByRole('table', { name: 'Clearance per product' });
       await table.waitFor();
-      const rows = await table.locator('tbody tr').allTextContents();
+      const shared = page.getByTestId('shared-cautions').getByRole('table', { name: 'Products sharing an ingredient with a product that reacted' });
+      await shared.waitFor();
+      const rows = [...(await table.locator('tbody tr').allTextContents()), ...(await shared.locator('tbody tr').allTextContents())];
       expect(rows.length).toBeGreaterThan(0);
       const listed = (label: string) => rows.filter((r) => r.includes(label)).length;
       const shown = async (state: string) => {

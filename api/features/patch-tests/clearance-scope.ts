@@ -8,15 +8,25 @@ import { findProtocolVersions } from '../protocols/index.ts';
 import { decide, type ClearanceFacts } from './clearance-loader.ts';
 import { listOverrides, listTestedProducts } from './clearance-repo.ts';
 
+export interface TableFacts extends ClearanceFacts {
+  /**
+   * The products reached only through a non-trivial ingredient shared with a formulation that reacted
+   * (not tested, not decided, no declared allergy): how many, and the page asked for (all when none is).
+   */
+  shared: { total: number; results: ClearanceFacts['results'] };
+}
+
 /**
  * The clearance table of one performer: the same answers `loadClearanceFacts` gives for the whole
  * catalogue, for the products that can be anything but "not tested" for them, read without the catalogue.
  * Those are the products tested on this performer (any formulation), those whose current formulation
  * the lead overrode, and those whose current formulation lists an ingredient of a declared allergy or a
  * non-trivial ingredient of a formulation that reacted. Every other product is Untested for the reason
- * "not tested", which the table leaves out. A fixed number of queries in three rounds, whatever the counts.
+ * "not tested", which the table leaves out. The products reached only through a shared ingredient can run
+ * to thousands on a large catalogue: they are counted, and only the page asked for is read and decided.
+ * A fixed number of queries in four rounds, whatever the counts.
  */
-export async function loadTableFacts(db: Db, q: { performerId: string; now: Date }): Promise<ClearanceFacts> {
+export async function loadTableFacts(db: Db, q: { performerId: string; now: Date; sharedPage?: { page: number; pageSize: number } }): Promise<TableFacts> {
   const [tested, overrides, answers] = await Promise.all([listTestedProducts(db, q.performerId), listOverrides(db, q.performerId), listDeclaredAllergyAnswers(db, q.performerId)]);
   const testedIds = [...new Set(tested.map((t) => t.formulationId))];
   const reactedIds = new Set(tested.filter((t) => t.readings.some((r) => isPositive(r.code))).map((t) => t.formulationId));
@@ -34,29 +44,34 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   const allergies = answers.length > 0 ? declaredAllergiesFromAnswers(answers, buildVocabulary(vocabulary)) : [];
   const allergyKeys = new Set(allergies.flatMap((a) => (a.kind === 'ingredient' ? [a.key] : [])));
   const allergyGroups = new Set(allergies.flatMap((a) => (a.kind === 'group' ? [a.group] : [])));
-  const ingredientIds = vocabulary
-    .filter((v) => {
-      const key = normaliseInciName(v.inci);
-      return (!v.trivial && reactedKeys.has(key)) || allergyKeys.has(key) || allergyGroups.has(v.group);
-    })
-    .map((v) => v.id);
-  const byName = (name: string) => {
-    const key = normaliseInciName(name);
-    return reactedKeys.has(key) || allergyKeys.has(key);
-  };
+  const sharedIngredientIds = new Set(vocabulary.filter((v) => !v.trivial && reactedKeys.has(normaliseInciName(v.inci))).map((v) => v.id));
+  const allergyIngredientIds = new Set(vocabulary.filter((v) => allergyKeys.has(normaliseInciName(v.inci)) || allergyGroups.has(v.group)).map((v) => v.id));
   const [listing, overridden] = await Promise.all([
-    currentFormulationsListing(db, { ingredientIds, unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }),
+    currentFormulationsListing(db, { ingredientIds: [...sharedIngredientIds, ...allergyIngredientIds], unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }),
     productsWithCurrentFormulation(
       db,
       overrides.map((o) => o.formulationId),
     ),
   ]);
-  const products = new Set([...tested.map((t) => t.productId), ...overridden, ...listing.filter((r) => r.ingredientId !== null || byName(r.labelName)).map((r) => r.productId)]);
-  const current = await currentFormulationIds(db, [...products]);
+  // The table proper: what was tested, decided, or matches a declared allergy (which outranks sharing).
+  const core = new Set([...tested.map((t) => t.productId), ...overridden]);
+  const sharing = new Set<string>();
+  for (const r of listing) {
+    const key = r.ingredientId === null ? normaliseInciName(r.labelName) : '';
+    if (r.ingredientId === null ? allergyKeys.has(key) : allergyIngredientIds.has(r.ingredientId)) core.add(r.productId);
+    else if (r.ingredientId === null ? reactedKeys.has(key) : sharedIngredientIds.has(r.ingredientId)) sharing.add(r.productId);
+  }
+  // In the catalogue's order (by name), so a page is the same slice whichever way it is asked for.
+  const all = await currentFormulationIds(db, [...new Set([...core, ...sharing])]);
+  const sharedOnly = all.filter((c) => !core.has(c.productId));
+  const page = q.sharedPage ? sharedOnly.slice((q.sharedPage.page - 1) * q.sharedPage.pageSize, q.sharedPage.page * q.sharedPage.pageSize) : sharedOnly;
+  const current = [...all.filter((c) => core.has(c.productId)), ...page];
   const known = new Set(testedIds);
   const more = await loadFormulationsWithIngredients(
     db,
     current.map((c) => c.formulationId).filter((id) => !known.has(id)),
   );
-  return decide({ tested, overrides, answers, vocabulary, protocols, current, facts: [...testedFacts, ...more], now: q.now });
+  const facts = decide({ tested, overrides, answers, vocabulary, protocols, current, facts: [...testedFacts, ...more], now: q.now });
+  const paged = new Set(page.map((c) => c.productId));
+  return { ...facts, results: facts.results.filter((r) => !paged.has(r.productId)), shared: { total: sharedOnly.length, results: facts.results.filter((r) => paged.has(r.productId)) } };
 }

@@ -1,7 +1,7 @@
 import type { Request } from 'express';
 import { productOutcome } from '#shared/domain/test-outcome.ts';
 import { type Actor, can } from '#shared/policy.ts';
-import type { ClearanceRow, OverrideInput, PerformerPatchTests } from '#shared/schemas/patch-test-log.ts';
+import { type ClearanceRow, type OverrideInput, type PerformerPatchTests, SHARED_CAUTIONS_PAGE_SIZE } from '#shared/schemas/patch-test-log.ts';
 import type { AppContext } from '../../context.ts';
 import { recordEvent, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
@@ -26,7 +26,7 @@ async function scopeFor(ctx: AppContext, actor: Actor, performerId: string) {
  * reasons and validity only; the lead and the performer also get the latest outcome of each tested
  * product and the override notes, and that read is audited.
  */
-export async function performerPatchTests(ctx: AppContext, actor: Actor, performerId: string, req: Request): Promise<PerformerPatchTests> {
+export async function performerPatchTests(ctx: AppContext, actor: Actor, performerId: string, req: Request, shared: { page: number } | 'all' = { page: 1 }): Promise<PerformerPatchTests> {
   const { scope, resource } = await scopeFor(ctx, actor, performerId);
   const isSelf = actor.performerIds.includes(performerId);
   const visible = isSelf ? scope.productionIds : scope.productionIds.filter((productionId) => can(actor, 'patchtests.read', { productionId }));
@@ -34,44 +34,52 @@ export async function performerPatchTests(ctx: AppContext, actor: Actor, perform
   const now = new Date();
   const [tests, facts, notes] = await Promise.all([
     listTestSummaries(ctx.db, { performerId, productionIds: visible }),
-    loadTableFacts(ctx.db, { performerId, now }),
+    loadTableFacts(ctx.db, { performerId, now, sharedPage: shared === 'all' ? undefined : { page: shared.page, pageSize: SHARED_CAUTIONS_PAGE_SIZE } }),
     medical ? listOverrideNotes(ctx.db, performerId) : Promise.resolve(null),
   ]);
   const tested = new Set(facts.tested.map((t) => t.formulationId));
   // The latest tested product with readings per formulation, found once rather than once per row.
   const latestRead = new Map<string, (typeof facts.tested)[number]>();
   for (const t of facts.tested) if (t.readings.length > 0) latestRead.set(t.formulationId, t);
-  const clearances: ClearanceRow[] = facts.results
+  const toRow = (r: (typeof facts.results)[number]): ClearanceRow => {
+    const row: ClearanceRow = {
+      productId: r.productId,
+      productName: r.productName,
+      formulationId: r.formulationId,
+      state: r.state,
+      reasons: r.reasons,
+      validUntil: r.validUntil?.toISOString() ?? null,
+      retestAdvised: r.retestAdvised,
+      overridden: r.overridden,
+      override: r.override ? { state: r.override.state, by: r.override.by, at: r.override.at.toISOString(), ...(notes ? { note: notes.get(r.formulationId) ?? '' } : {}) } : null,
+      computedState: r.computedState,
+    };
+    if (medical) {
+      const latest = latestRead.get(r.formulationId);
+      if (latest) {
+        const o = productOutcome(latest.readings);
+        row.outcome = { strongest: o.strongest, final: o.final, pattern: o.pattern };
+      }
+    }
+    return row;
+  };
+  const clearances = facts.results
     // A table of what matters for this performer: products tested, or answered by something other than "not tested".
     .filter((r) => tested.has(r.formulationId) || r.overridden || r.reasons[0]?.code !== 'not_tested' || r.state !== 'untested')
-    .map((r) => {
-      const row: ClearanceRow = {
-        productId: r.productId,
-        productName: r.productName,
-        formulationId: r.formulationId,
-        state: r.state,
-        reasons: r.reasons,
-        validUntil: r.validUntil?.toISOString() ?? null,
-        retestAdvised: r.retestAdvised,
-        overridden: r.overridden,
-        override: r.override ? { state: r.override.state, by: r.override.by, at: r.override.at.toISOString(), ...(notes ? { note: notes.get(r.formulationId) ?? '' } : {}) } : null,
-        computedState: r.computedState,
-      };
-      if (medical) {
-        const latest = latestRead.get(r.formulationId);
-        if (latest) {
-          const o = productOutcome(latest.readings);
-          row.outcome = { strongest: o.strongest, final: o.final, pattern: o.pattern };
-        }
-      }
-      return row;
-    });
+    .map(toRow);
+  const sharedCautions = {
+    items: facts.shared.results.map(toRow),
+    total: facts.shared.total,
+    page: shared === 'all' ? 1 : shared.page,
+    pageSize: shared === 'all' ? Math.max(1, facts.shared.total) : SHARED_CAUTIONS_PAGE_SIZE,
+  };
   if (medical) {
     await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId, entityType: 'patch_tests', entityId: performerId, req, details: { performerId, fields: ['outcome', 'overrideNote'] } });
   }
   return {
     tests: tests.toReversed(),
     clearances,
+    sharedCautions,
     medical,
     canBook: scope.productionIds.some((productionId) => can(actor, 'patchtests.book', { productionId })),
     canOverride: scope.productionIds.some((productionId) => can(actor, 'clearance.override', { productionId })),
@@ -98,10 +106,10 @@ export async function overrideClearance(ctx: AppContext, actor: Actor, performer
 export async function performerSummaryPdf(ctx: AppContext, actor: Actor, performerId: string, req: Request): Promise<Buffer> {
   const { scope, resource } = await scopeFor(ctx, actor, performerId);
   authorize(actor, 'medical.read', resource);
-  const data = await performerPatchTests(ctx, actor, performerId, req);
+  const data = await performerPatchTests(ctx, actor, performerId, req, 'all');
   const rows = await listTestRows(ctx.db, { ids: data.tests.filter((t) => t.status !== 'cancelled').map((t) => t.id) });
   // One detail per test: a print, read once, not a list screen.
   const tests = [];
   for (const row of rows.toReversed()) tests.push(await testDetail(ctx.db, row, { medical: true, now: new Date(), timeZone: ctx.config.timeZone }));
-  return renderSummaryPdf({ performerName: scope.name, printedAt: new Date(), timeZone: ctx.config.timeZone, clearances: data.clearances, tests });
+  return renderSummaryPdf({ performerName: scope.name, printedAt: new Date(), timeZone: ctx.config.timeZone, clearances: data.clearances, sharedCautions: data.sharedCautions.items, tests });
 }

@@ -16,6 +16,8 @@ export interface SummaryDocument {
   printedAt: Date;
   timeZone: string;
   clearances: readonly ClearanceRow[];
+  /** Products Caution only because they share an ingredient with one that reacted: printed as one list of names. */
+  sharedCautions: readonly ClearanceRow[];
   tests: readonly PatchTestDetail[];
 }
 
@@ -48,6 +50,11 @@ export function renderSummaryPdf(doc: SummaryDocument): Promise<Buffer> {
       pdf.font('bold').fontSize(10).fillColor('#2b2420').text(`${c.productName}: ${CLEARANCE_STATE_LABELS[c.state]}${c.overridden ? ' (set by the designated lead)' : ''}`);
       const extra = [c.reasons.map((r) => r.text).join('; '), c.validUntil ? `valid until ${day(c.validUntil)}` : null, c.outcome ? `latest test: strongest ${c.outcome.strongest ?? '—'}, final ${c.outcome.final ?? '—'}, ${READING_PATTERN_LABELS[c.outcome.pattern].toLowerCase()}` : null, c.override?.note ? `lead’s note: ${c.override.note}` : null];
       pdf.font('body').fontSize(9).fillColor('#4a3f38').text(extra.filter(Boolean).join(' · '), { indent: 12 });
+    }
+    if (doc.sharedCautions.length > 0) {
+      pdf.moveDown(0.5);
+      pdf.font('bold').fontSize(10).fillColor('#2b2420').text(`${CLEARANCE_STATE_LABELS.caution}, sharing an ingredient with a product that reacted (${doc.sharedCautions.length}):`);
+      pdf.font('body').fontSize(9).fillColor('#4a3f38').text(doc.sharedCautions.map((c) => c.productName).join(', '), { indent: 12 });
     }
     pdf.moveDown();
 

@@ -54,7 +54,7 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
     if (file) pdfs.push({ name: `consents/${s.signedAt.slice(0, 10)}-${s.kind}-${s.id}.pdf`, bytes: file.bytes });
   }
   // The patch-test log, the application log and appliance builds: what touched their skin, and how it answered.
-  const patchTests = await performerPatchTests(ctx, actor, performerId, req);
+  const patchTests = await performerPatchTests(ctx, actor, performerId, req, 'all');
   const tests = [];
   for (const t of patchTests.tests) tests.push(await patchTestDetail(ctx, actor, t.id, req));
   // The reading photos, opened: the performer's own copy is the picture, not its sealed bytes.
@@ -76,6 +76,7 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
     printedAt: new Date(),
     timeZone: ctx.config.timeZone,
     clearances: patchTests.clearances,
+    sharedCautions: patchTests.sharedCautions.items,
     tests: tests.filter((t) => t.status !== 'cancelled'),
   });
   const applicationRows = await listApplicationRows(ctx.db, { productionIds: scope.productionIds, performerId });
@@ -101,7 +102,7 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
   zip.append(json(consents), { name: 'consents.json' });
   for (const p of pdfs) zip.append(p.bytes, { name: p.name });
   zip.append(json(casts), { name: 'casts.json' });
-  zip.append(json({ clearances: patchTests.clearances, tests: testsWithFiles }), { name: 'patch-tests.json' });
+  zip.append(json({ clearances: [...patchTests.clearances, ...patchTests.sharedCautions.items], tests: testsWithFiles }), { name: 'patch-tests.json' });
   zip.append(recordPdf, { name: 'patch-tests.pdf' });
   for (const p of photos) zip.append(p.bytes, { name: p.name });
   zip.append(json(applications), { name: 'applications.json' });

@@ -19,10 +19,11 @@ export function productionTestsQueryOptions(productionId: string) {
   });
 }
 
-export function performerPatchTestsQueryOptions(performerId: string) {
+/** A performer's tests and clearances, with one page of the products that are Caution for a shared ingredient. */
+export function performerPatchTestsQueryOptions(performerId: string, sharedPage = 1) {
   return queryOptions({
-    queryKey: [...patchTestsKey, 'performer', performerId] as const,
-    queryFn: ({ signal }) => api.get(`/api/performers/${encodeURIComponent(performerId)}/patch-tests`, PerformerPatchTestsSchema, signal),
+    queryKey: [...patchTestsKey, 'performer', performerId, sharedPage] as const,
+    queryFn: ({ signal }) => api.get(withQuery(`/api/performers/${encodeURIComponent(performerId)}/patch-tests`, sharedPage > 1 ? { sharedPage } : {}), PerformerPatchTestsSchema, signal),
   });
 }
 
@@ -61,7 +62,8 @@ export function useOverride(performerId: string) {
     mutationFn: (input: OverrideInput) => api.post(`/api/performers/${encodeURIComponent(performerId)}/clearance-overrides`, input, PerformerPatchTestsSchema),
     onSuccess: (data) => {
       queryClient.setQueryData(performerPatchTestsQueryOptions(performerId).queryKey, data);
-      return invalidate(queryClient, [homeKey]);
+      // A decided product leaves the shared-ingredient pages: the later pages are read again.
+      return invalidate(queryClient, [homeKey, [...patchTestsKey, 'performer', performerId]]);
     },
   });
 }

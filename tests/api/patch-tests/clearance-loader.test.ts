@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sealJson } from '../../../api/crypto/medical.ts';
 import type { Database } from '../../../api/db/schema.ts';
 import { performerClearances } from '../../../api/features/patch-tests/index.ts';
+import { loadTableFacts } from '../../../api/features/patch-tests/clearance-scope.ts';
 import { createTestApp, type TestApp } from '../../support/app.ts';
 
 /** The loader the artist's check and the clearance table read: real rows, a fixed number of queries. */
@@ -125,5 +126,47 @@ describe('performerClearances', () => {
     const [r] = await performerClearances(counted, { performerId: other, productIds: [tide], now: NOW });
     expect(r).toMatchObject({ state: 'untested', reasons: [{ code: 'not_tested' }] });
     expect(queries).toBeLessThanOrEqual(7);
+  });
+});
+
+describe('the clearance table of one performer', () => {
+  const view = (r: { productId: string; state: string; reasons: { code: string }[]; overridden: boolean }) => ({ productId: r.productId, state: r.state, reasons: r.reasons.map((x) => x.code), overridden: r.overridden });
+
+  it('gives what the whole-catalogue loader gives, with the shared-ingredient Cautions a page at a time by name', async () => {
+    // The independent path: every product of the catalogue answered, then the Untested "not tested" ones left out.
+    const everything = (await performerClearances(t.db.db, { performerId, now: NOW })).filter((r) => r.state !== 'untested' || r.reasons[0]?.code !== 'not_tested' || r.overridden);
+    const first = await loadTableFacts(t.db.db, { performerId, now: NOW, sharedPage: { page: 1, pageSize: 1 } });
+    const total = first.shared.total;
+    // Quayside reacted, and more than one untested product lists one of its non-trivial ingredients (catalogue seed INCI lists).
+    expect(total).toBeGreaterThan(1);
+    const pages = [first];
+    for (let page = 2; page <= total + 1; page++) pages.push(await loadTableFacts(t.db.db, { performerId, now: NOW, sharedPage: { page, pageSize: 1 } }));
+    const shared = pages.flatMap((p) => p.shared.results);
+    // One product a page, none after the last, none twice, in name order.
+    expect(pages.map((p) => p.shared.results.length)).toEqual([...Array.from({ length: total }, () => 1), 0]);
+    expect(new Set(shared.map((r) => r.productId)).size).toBe(total);
+    const names = shared.map((r) => r.productName.toLowerCase());
+    expect(names).toEqual(names.toSorted());
+    for (const r of shared) expect(view(r)).toEqual({ productId: r.productId, state: 'caution', reasons: ['shared_ingredient', 'not_tested'], overridden: false });
+    // The table proper and the pages together hold exactly what the whole-catalogue answer holds, state and reasons alike.
+    const table = first.results.filter((r) => r.state !== 'untested' || r.reasons[0]?.code !== 'not_tested' || r.overridden);
+    const byProduct = (rows: typeof everything) => rows.map(view).toSorted((a, b) => a.productId.localeCompare(b.productId));
+    expect(byProduct([...table, ...shared])).toEqual(byProduct(everything));
+    // Breakwater shares Acrylates Copolymer with Quayside: on a page, not in the table proper; the declared allergy's Tidewater in the table.
+    expect(shared.map((r) => r.productName)).toContain('Breakwater acrylic sealer');
+    expect(table.map((r) => r.productName)).toContain('Tidewater citrus remover');
+    expect(table.map((r) => r.productName)).not.toContain('Breakwater acrylic sealer');
+  });
+
+  it('reads a page in the same number of queries as the whole list', async () => {
+    queries = 0;
+    await loadTableFacts(counted, { performerId, now: NOW, sharedPage: { page: 1, pageSize: 1 } });
+    const paged = queries;
+    queries = 0;
+    await loadTableFacts(counted, { performerId, now: NOW });
+    expect(queries).toBe(paged);
+    // Tested products, overrides, declared answers, protocols, tested formulations and their ingredients, the vocabulary,
+    // the catalogue listing, overridden products, the current formulations, and theirs: a fixed count (as measured).
+    expect(paged).toBeLessThanOrEqual(12);
   });
 });

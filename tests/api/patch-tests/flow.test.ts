@@ -212,7 +212,8 @@ describe('application, removal and readings (lead)', () => {
     const head = await w.api().get(`/api/performers/${w.juno}/patch-tests`).set('Cookie', w.as.head);
     expect(head.status).toBe(200);
     expect(head.body.medical).toBe(false);
-    const byName = new Map(head.body.clearances.map((c: { productName: string }) => [c.productName, c]));
+    const rows: { productName: string }[] = [...head.body.clearances, ...head.body.sharedCautions.items];
+    const byName = new Map<string, unknown>(rows.map((c) => [c.productName, c]));
     // Any + or stronger: Do not use (product brief §3).
     expect(byName.get('Quayside acrylic emulsion adhesive')).toMatchObject({ state: 'do_not_use', reasons: [{ text: 'reacted in testing' }] });
     expect(byName.get('Quayside acrylic emulsion adhesive')).not.toHaveProperty('outcome');
@@ -225,6 +226,10 @@ describe('application, removal and readings (lead)', () => {
     const breakwater = byName.get('Breakwater acrylic sealer') as { state: string; reasons: { text: string }[] };
     expect(breakwater.state).toBe('caution');
     expect(breakwater.reasons[0]!.text).toBe('shares an ingredient with a product that reacted');
+    // Untested and reached only through that ingredient: on the first page of shared-ingredient Cautions, not in the table proper.
+    expect(head.body.sharedCautions).toMatchObject({ page: 1, pageSize: 25 });
+    expect(head.body.sharedCautions.total).toBe(head.body.sharedCautions.items.length);
+    expect(head.body.clearances.map((c: { productName: string }) => c.productName)).not.toContain('Breakwater acrylic sealer');
     expect(head.text).not.toContain('"++"');
     expect(head.body.tests.find((x: { id: string }) => x.id === testId)).toMatchObject({ status: 'applied' });
     const lead = await w.api().get(`/api/performers/${w.juno}/patch-tests`).set('Cookie', w.as.lead);

@@ -15,7 +15,7 @@ export function ClearanceSummaryLine({ performerId }: { performerId: string }) {
   const query = useQuery(performerPatchTestsQueryOptions(performerId));
   // The section below says why when the list cannot be read; the summary keeps quiet rather than guess.
   if (!query.data) return null;
-  const counts = countClearances(query.data.clearances);
+  const counts = countClearances(query.data.clearances, query.data.sharedCautions.total);
   return (
     <div className="flex flex-col gap-2" data-testid="clearance-summary">
       <p className="text-sm font-semibold text-graphite-700">Clearances</p>

@@ -11,10 +11,24 @@ import { OverrideForm } from './override-form.tsx';
  * The clearance of each product for one performer, what stops an application first. Staff see the
  * state, why and until when; the lead and the performer also see the latest grades and pattern.
  */
-export function ClearanceTable({ rows, medical, performerId, canOverride }: { rows: ClearanceRow[]; medical: boolean; performerId: string; canOverride: boolean }) {
+export function ClearanceTable({
+  rows,
+  medical,
+  performerId,
+  canOverride,
+  caption = 'Clearance per product',
+  testId = 'clearance-table',
+}: {
+  rows: ClearanceRow[];
+  medical: boolean;
+  performerId: string;
+  canOverride: boolean;
+  caption?: string;
+  testId?: string;
+}) {
   const sorted = rows.toSorted((a, b) => CLEARANCE_SEVERITY[a.state] - CLEARANCE_SEVERITY[b.state] || a.productName.localeCompare(b.productName));
   return (
-    <Table caption="Clearance per product" testId="clearance-table">
+    <Table caption={caption} testId={testId}>
       <Thead>
         <Tr>
           <Th>Product</Th>

@@ -1,12 +1,14 @@
-import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
+import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { TEST_STATUS_LABELS } from '#shared/domain/reading-schedule.ts';
 import { ButtonLink } from '../../../components/ui/button.tsx';
 import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { Pager } from '../../../components/ui/pager.tsx';
 import { QueryView } from '../../../components/ui/query-view.tsx';
 import { Section } from '../../../components/ui/section.tsx';
 import { StatusBadge } from '../../../components/ui/status-badge.tsx';
-import { formatDateTime } from '../../../lib/format.ts';
+import { formatDateTime, formatNumber } from '../../../lib/format.ts';
 import { paths } from '../../../lib/paths.ts';
 import { performerPatchTestsQueryOptions } from '../api.ts';
 import { ScreeningLabel } from './cautions.tsx';
@@ -18,7 +20,9 @@ import { ClearanceTable } from './clearance-table.tsx';
  * and the clearance of each product that matters for this performer.
  */
 export function PerformerPatchTests({ performerId, isSelf }: { performerId: string; isSelf: boolean }) {
-  const query = useQuery(performerPatchTestsQueryOptions(performerId));
+  // The page of shared-ingredient Cautions shown; the rest of the answer is the same on every page.
+  const [sharedPage, setSharedPage] = useState(1);
+  const query = useQuery({ ...performerPatchTestsQueryOptions(performerId, sharedPage), placeholderData: keepPreviousData });
   return (
     <QueryView query={query} loadingLabel="Loading patch tests…">
       {(data) => (
@@ -61,10 +65,29 @@ export function PerformerPatchTests({ performerId, isSelf }: { performerId: stri
           {data.clearances.length > 0 ? (
             <ClearanceTable rows={data.clearances} medical={data.medical} performerId={performerId} canOverride={data.canOverride} />
           ) : null}
+          {data.sharedCautions.total > 0 ? (
+            <div className="flex flex-col gap-2" data-testid="shared-cautions">
+              <h3 className="text-lg font-semibold text-graphite-900">
+                <ClearanceBadge state="caution" /> {formatNumber(data.sharedCautions.total)} more product{data.sharedCautions.total === 1 ? '' : 's'} share an ingredient with a product that reacted
+              </h3>
+              <p className="max-w-prose text-ink-700">
+                None of these has been tested on {isSelf ? 'you' : 'this performer'}. Each lists a non-trivial ingredient that a product which reacted also lists, so it may cause the same reaction: patch test it before use, and ask the designated lead.
+              </p>
+              <ClearanceTable
+                rows={data.sharedCautions.items}
+                medical={data.medical}
+                performerId={performerId}
+                canOverride={data.canOverride}
+                caption="Products sharing an ingredient with a product that reacted"
+                testId="shared-cautions-table"
+              />
+              <Pager page={data.sharedCautions.page} pageSize={data.sharedCautions.pageSize} total={data.sharedCautions.total} noun="products" onPage={setSharedPage} />
+            </div>
+          ) : null}
           {/* A product missing from the list is not a silence to read as "no problem". */}
           <p className="flex max-w-prose flex-wrap items-center gap-2 rounded-xl border-l-4 border-slate-700 bg-plaster-100 p-3 font-semibold text-graphite-900" data-testid="untested-note">
             <span>
-              {data.clearances.length > 0 ? 'Any product not listed here is' : 'No product has a clearance yet: every product is'} <ClearanceBadge state="untested" /> for {isSelf ? 'you' : 'this performer'}
+              {data.clearances.length + data.sharedCautions.total > 0 ? 'Any product not listed here is' : 'No product has a clearance yet: every product is'} <ClearanceBadge state="untested" /> for {isSelf ? 'you' : 'this performer'}
               {' '}and must be treated as untested: patch test it before first use.
             </span>
           </p>
