@@ -1,6 +1,7 @@
 import { createCipheriv, createDecipheriv, createHash, randomBytes } from 'node:crypto';
 import { chmodSync, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { LRUCache } from 'lru-cache';
 
 /**
  * Health details at rest: AES-256-GCM with a key that never enters the database or a backup.
@@ -33,9 +34,19 @@ export function keyringOf(current: string, previous: readonly string[] = []): Ke
 
 let installed: Keyring | null = null;
 
+/**
+ * Short sealed values opened before (a reading's code, a grade): a sealed text always opens to the same
+ * value, so a clearance over thousands of readings need not run the cipher for each one on every request.
+ * Only primitives are kept (nothing a caller could change under another), only in this process's memory,
+ * and all are forgotten when the keys change.
+ */
+const SHORT_SEALED = 200;
+const opened = new LRUCache<string, { value: string | number | boolean | null }>({ max: 100_000 });
+
 /** Sets the keys this process seals and opens health details with (once, at start-up). */
 export function installKeyring(ring: Keyring): void {
   installed = ring;
+  opened.clear();
 }
 
 function ring(): Keyring {
@@ -83,8 +94,13 @@ export function isSealed(value: unknown): value is string {
 /** Opens a sealed value; a value stored before sealing existed comes back as it is. */
 export function openJson<T = unknown>(value: unknown): T {
   if (!isSealed(value)) return value as T;
+  const short = value.length <= SHORT_SEALED;
+  const known = short ? opened.get(value) : undefined;
+  if (known) return known.value as T;
   const [id, iv, tag, data] = value.slice(TEXT_PREFIX.length).split(':');
-  return JSON.parse(open(id!, Buffer.from(iv!, 'base64url'), Buffer.from(tag!, 'base64url'), Buffer.from(data!, 'base64url')).toString('utf8')) as T;
+  const plain: unknown = JSON.parse(open(id!, Buffer.from(iv!, 'base64url'), Buffer.from(tag!, 'base64url'), Buffer.from(data!, 'base64url')).toString('utf8'));
+  if (short && (plain === null || typeof plain !== 'object')) opened.set(value, { value: plain as string | number | boolean | null });
+  return plain as T;
 }
 
 /** File bytes sealed: magic, key id (12 bytes), iv, tag, data. */

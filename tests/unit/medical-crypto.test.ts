@@ -54,4 +54,19 @@ describe('sealing health details (AES-256-GCM)', () => {
     expect(loadOrCreateKeyFile(file, true)).toBe(key);
     expect(loadOrCreateKeyFile(path.join(path.dirname(file), 'none.key'), false)).toBeNull();
   });
+
+  it('opens a short value once and answers it again from memory, but forgets everything when the keys change', () => {
+    installKeyring(keyringOf(A));
+    const code = sealJson('++');
+    expect(openJson(code)).toBe('++');
+    expect(openJson(code)).toBe('++');
+    // An object is opened afresh each time: a caller changing one cannot change what another reads.
+    const answers = sealJson({ allergies: 'latex' });
+    const first = openJson<{ allergies: string }>(answers);
+    first.allergies = 'changed';
+    expect(openJson(answers)).toEqual({ allergies: 'latex' });
+    // New keys without the old one: the value opened a moment ago no longer opens, from memory or otherwise.
+    installKeyring(keyringOf(B));
+    expect(() => openJson(code)).toThrow(/does not hold/);
+  });
 });
