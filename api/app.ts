@@ -66,7 +66,9 @@ export function createApp({ ctx, pool, serveClient = false, clientMiddleware }: 
     '/auth',
     rateLimiter({ name: 'sign-in', windowMs: 60_000, limit: 60, message: 'Too many sign-in attempts. Wait a minute and try again.' }),
   );
-  api.use(sessionMiddleware(config, pool));
+  const sessions = sessionMiddleware(config, pool);
+  const sessionless = new Set(allRoutes.filter((r) => r.sessionless).map((r) => r.path.replace(/^\/api/, '')));
+  api.use((req, res, next) => (sessionless.has(req.path) ? next() : sessions(req, res, next)));
   api.use((_req, res, next) => {
     res.set('Cache-Control', 'no-store');
     next();

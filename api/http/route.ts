@@ -30,6 +30,11 @@ export interface RouteSpec<P = unknown, Q = unknown, B = unknown, R = unknown, A
   tag: string;
   auth: Auth;
   /**
+   * A public route that never asks who is calling (the load balancer's liveness check): no session
+   * is read or touched for it, so polling it costs the database only what the route itself asks.
+   */
+  sessionless?: Auth extends 'public' ? boolean : never;
+  /**
    * A studio-wide permission checked before any input is read, so a person without it learns
    * nothing from validation messages. Production-scoped checks happen in the handler, once the
    * record (and so its production) is loaded.
@@ -87,7 +92,7 @@ export function mountRoutes(router: Router, routes: readonly AnyRoute[], ctx: Ap
     const handlers: express.RequestHandler[] = [...(route.before ?? [])];
     handlers.push(async (req: Request, res: Response, next: NextFunction) => {
       try {
-        const actor = await sessionActor(req, ctx.db, ctx.config.sessionMaxMs);
+        const actor = route.sessionless ? null : await sessionActor(req, ctx.db, ctx.config.sessionMaxMs);
         if (route.auth === 'session' && !actor) {
           if (req.session?.tablet) {
             throw new ApiError('unauthenticated', 'This tablet is lent to a performer for signing. Staff must sign in again.', { tablet: req.session.tablet.phase });

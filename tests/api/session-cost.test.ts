@@ -4,6 +4,7 @@ import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import { loadActor } from '../../api/http/actor.ts';
 import { SessionStore } from '../../api/http/session.ts';
+import { WORD_SIMILARITY_THRESHOLD } from '../../api/features/performers/list-repo.ts';
 import { allRoutes } from '../../api/routes.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
 
@@ -94,11 +95,17 @@ describe('round trips of a signed-in read', () => {
     expect(statements.filter(writes)).toEqual([]);
   });
 
-  it('GET /api/health with a signed-in session: the session read and the health check', async () => {
+  it('GET /api/health, even with a signed-in session: the health check alone, no session read or cookie', async () => {
     const cookie = await t.sessionFor('head@plinth.test');
     await request(t.app).get('/api/health').set('Cookie', cookie).expect(200);
-    const statements = await counter.during(() => request(t.app).get('/api/health').set('Cookie', cookie).expect(200));
-    expect(statements).toHaveLength(2);
+    let setCookie: unknown;
+    const statements = await counter.during(async () => {
+      setCookie = (await request(t.app).get('/api/health').set('Cookie', cookie).expect(200)).headers['set-cookie'];
+    });
+    expect(statements).toEqual(['select 1']);
+    expect(setCookie).toBeUndefined();
+    // The session itself is untouched: the next signed-in read still finds it.
+    expect((await request(t.app).get('/api/session').set('Cookie', cookie)).status).toBe(200);
   });
 
   it('GET /api/performers/:id: two statements in all, the session and the whole record', async () => {
@@ -120,8 +127,8 @@ describe('round trips of a signed-in read', () => {
 
   it('the first request reads the actor in one statement and keeps it with the session', async () => {
     const cookie = await t.sessionFor('lead@plinth.test');
-    const first = await counter.during(() => request(t.app).get('/api/health').set('Cookie', cookie).expect(200));
-    // session read, actor read, actor kept, health check
+    const first = await counter.during(() => request(t.app).get('/api/session').set('Cookie', cookie).expect(200));
+    // session read, actor read, actor kept, the session's own data
     expect(first).toHaveLength(4);
     expect(first.filter((s) => touchesSessions(s) && writes(s))).toHaveLength(1);
   });
@@ -301,5 +308,19 @@ describe('the lent tablet', () => {
     const res = await request(t.app).get('/api/session').set('Cookie', cookie);
     expect(res.status).toBe(401);
     expect(res.body.error.details.tablet).toBe('signing');
+  });
+});
+
+describe('what every connection starts with', () => {
+  it('JIT off and the name search’s trigram cut-off, so no search needs a transaction to set them', async () => {
+    const { rows } = await t.db.pool.query<{ jit: string; cutoff: string }>("select current_setting('jit') as jit, current_setting('pg_trgm.word_similarity_threshold') as cutoff");
+    expect(rows[0]).toEqual({ jit: 'off', cutoff: String(WORD_SIMILARITY_THRESHOLD) });
+  });
+
+  it('a cast search by name is its statements alone: no begin, set or commit around them', async () => {
+    const cookie = await t.sessionFor('archivist@plinth.test');
+    await request(t.app).get('/api/casts?q=castellane').set('Cookie', cookie).expect(200);
+    const statements = await counter.during(() => request(t.app).get('/api/casts?q=castellane').set('Cookie', cookie).expect(200));
+    expect(statements.filter((s) => /^\s*(begin|commit|set)\b/i.test(s))).toEqual([]);
   });
 });

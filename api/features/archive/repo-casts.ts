@@ -255,8 +255,6 @@ function ordering(s: CastSearch, ranked: boolean): RawBuilder<unknown> {
 /** One page of casts in scope matching the search, and how many match in all. */
 export async function searchCasts(db: Db, scope: CastScope, s: CastSearch, now: Date): Promise<{ items: CastRecord[]; total: number }> {
   return withNameSearch(db, async (trx) => {
-    // Short, index-backed queries: compiling them to machine code costs more than it saves.
-    await sql`set local jit = off`.execute(trx);
     const hits: TermHits[] = [];
     const score = new Map<string, number>();
     for (const t of s.terms ?? []) {

@@ -9,6 +9,7 @@ export const healthRoutes: AnyRoute[] = [
     summary: 'Liveness and database reachability (503 when the database is away)',
     tag: 'system',
     auth: 'public',
+    sessionless: true,
     response: HealthSchema,
     errors: [503],
     async handler({ ctx, res }) {

@@ -5,11 +5,11 @@ import { likePattern, SEARCH_NAME, WORD_SIMILARITY_THRESHOLD } from './list-repo
 // Performer lookups for other features' queries (the archive's cast search), on the registry's own name index.
 
 /**
- * Runs another feature's name search in a transaction of its own (so it may `set local` what it
- * needs); the trigram cut-off is the registry's, carried by every connection.
+ * Runs another feature's name search. The trigram cut-off is the registry's, and every connection
+ * carries it (and JIT off) from the pool's start-up options, so no transaction is needed to set it.
  */
 export function withNameSearch<T>(db: Db, fn: (db: Db) => Promise<T>): Promise<T> {
-  return db.transaction().execute(fn);
+  return fn(db);
 }
 
 /**
