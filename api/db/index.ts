@@ -1,4 +1,4 @@
-import { Kysely, PostgresDialect } from 'kysely';
+import { Kysely, PostgresDialect, type RawBuilder, sql } from 'kysely';
 import pg from 'pg';
 import type { Database } from './schema.ts';
 
@@ -14,6 +14,14 @@ export type Db = Kysely<Database>;
  * `<%` operator and an explicit word_similarity() comparison agree without a transaction per search.
  */
 export const WORD_SIMILARITY_THRESHOLD = 0.3;
+
+/**
+ * Ids as one uuid[] parameter, for `column = any(...)`: PostgreSQL plans one array far better than a
+ * list of thousands of parameters, and the statement's text stays the same whatever the count.
+ */
+export function idArray(ids: Iterable<string>): RawBuilder<string[]> {
+  return sql<string[]>`${[...new Set(ids)]}::uuid[]`;
+}
 
 export interface DbHandle {
   db: Db;

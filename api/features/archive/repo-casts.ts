@@ -1,7 +1,7 @@
 import { type Expression, type RawBuilder, type SqlBool, sql } from 'kysely';
 import type { BodyRegion, CastKind, CastStatus, ConditionGrade } from '#shared/domain/archive-casts.ts';
 import type { CastListQuery } from '#shared/schemas/archive.ts';
-import type { Db } from '../../db/index.ts';
+import { type Db, idArray } from '../../db/index.ts';
 import { performersEngagedOn, performersMatchingName, withNameSearch } from '../performers/index.ts';
 import { productionIdsMatchingName } from '../productions/index.ts';
 
@@ -209,7 +209,7 @@ interface TermHits {
   productionIds: string[];
 }
 
-const uuids = (ids: readonly string[]) => sql`${[...ids]}::uuid[]`;
+const uuids = idArray;
 
 function searchConditions(db: Db, scope: CastScope, s: CastSearch, hits: readonly TermHits[], now: Date): Expression<SqlBool>[] {
   const conds: Expression<SqlBool>[] = [inScope(db, scope)];

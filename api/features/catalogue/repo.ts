@@ -1,9 +1,9 @@
-import { type RawBuilder, sql } from 'kysely';
+import { type RawBuilder, sql, type SqlBool } from 'kysely';
 import type { ExposureType, ProductCategory } from '#shared/domain/catalogue.ts';
 import type { FormulationFacts } from '#shared/domain/clearance.ts';
 import { normaliseInciName, type AllergenGroup, type IngredientRef } from '#shared/domain/ingredients.ts';
 import type { ProductFields, ProductListQuery } from '#shared/schemas/catalogue.ts';
-import type { Db } from '../../db/index.ts';
+import { type Db, idArray } from '../../db/index.ts';
 
 /*
  * Products and their formulations. Every list function answers a whole list in one or two queries,
@@ -194,7 +194,7 @@ export async function listFormulationIngredients(db: Db, formulationIds: readonl
     .selectFrom('formulation_ingredients as fi')
     .leftJoin('ingredients as i', 'i.id', 'fi.ingredient_id')
     .select(['fi.formulation_id', 'fi.position', 'fi.label_name', 'fi.may_contain', 'i.id', 'i.inci', 'i.allergen_group', 'i.trivial'])
-    .where('fi.formulation_id', 'in', [...formulationIds])
+    .where(sql<SqlBool>`fi.formulation_id = any(${idArray(formulationIds)})`)
     .orderBy('fi.formulation_id')
     .orderBy('fi.position')
     .execute();
@@ -272,13 +272,15 @@ function refMaker(): (row: FormulationIngredientRow) => IngredientRef {
 export async function loadFormulationsWithIngredients(db: Db, formulationIds: readonly string[]): Promise<FormulationFacts[]> {
   const ids = [...new Set(formulationIds)];
   if (ids.length === 0) return [];
-  const heads = await db
-    .selectFrom('product_formulations as f')
-    .innerJoin('products as p', 'p.id', 'f.product_id')
-    .select(['f.id', 'f.product_id', 'f.inci_label', 'p.name'])
-    .where('f.id', 'in', ids)
-    .execute();
-  const rows = await listFormulationIngredients(db, ids);
+  const [heads, rows] = await Promise.all([
+    db
+      .selectFrom('product_formulations as f')
+      .innerJoin('products as p', 'p.id', 'f.product_id')
+      .select(['f.id', 'f.product_id', 'f.inci_label', 'p.name'])
+      .where(sql<SqlBool>`f.id = any(${idArray(ids)})`)
+      .execute(),
+    listFormulationIngredients(db, ids),
+  ]);
   const refOf = refMaker();
   const byId = new Map(
     heads.map((h) => {

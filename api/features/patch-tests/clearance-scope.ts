@@ -47,7 +47,7 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   const sharedIngredientIds = new Set(vocabulary.filter((v) => !v.trivial && reactedKeys.has(normaliseInciName(v.inci))).map((v) => v.id));
   const allergyIngredientIds = new Set(vocabulary.filter((v) => allergyKeys.has(normaliseInciName(v.inci)) || allergyGroups.has(v.group)).map((v) => v.id));
   const [listing, overridden] = await Promise.all([
-    currentFormulationsListing(db, { ingredientIds: [...sharedIngredientIds, ...allergyIngredientIds], unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }),
+    currentFormulationsListing(db, { allergyIds: [...allergyIngredientIds], sharedIds: [...sharedIngredientIds], unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }),
     productsWithCurrentFormulation(
       db,
       overrides.map((o) => o.formulationId),
@@ -55,17 +55,16 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   ]);
   // The table proper: what was tested, decided, or matches a declared allergy (which outranks sharing).
   const core = new Set([...tested.map((t) => t.productId), ...overridden]);
-  const sharing = new Set<string>();
+  const sharing: typeof listing = [];
   for (const r of listing) {
-    const key = r.ingredientId === null ? normaliseInciName(r.labelName) : '';
-    if (r.ingredientId === null ? allergyKeys.has(key) : allergyIngredientIds.has(r.ingredientId)) core.add(r.productId);
-    else if (r.ingredientId === null ? reactedKeys.has(key) : sharedIngredientIds.has(r.ingredientId)) sharing.add(r.productId);
+    const names = r.unlinkedNames.map(normaliseInciName);
+    if (r.allergy || names.some((k) => allergyKeys.has(k))) core.add(r.productId);
+    else if (r.shares || names.some((k) => reactedKeys.has(k))) sharing.push(r);
   }
-  // In the catalogue's order (by name), so a page is the same slice whichever way it is asked for.
-  const all = await currentFormulationIds(db, [...new Set([...core, ...sharing])]);
-  const sharedOnly = all.filter((c) => !core.has(c.productId));
+  // The listing comes in the catalogue's order (by name), so a page is the same slice however it is asked for.
+  const sharedOnly = sharing.filter((r) => !core.has(r.productId));
   const page = q.sharedPage ? sharedOnly.slice((q.sharedPage.page - 1) * q.sharedPage.pageSize, q.sharedPage.page * q.sharedPage.pageSize) : sharedOnly;
-  const current = [...all.filter((c) => core.has(c.productId)), ...page];
+  const current = [...(await currentFormulationIds(db, [...core])), ...page.map((r) => ({ productId: r.productId, formulationId: r.formulationId }))];
   const known = new Set(testedIds);
   const more = await loadFormulationsWithIngredients(
     db,
