@@ -19,13 +19,15 @@ export interface TestedProductRow {
   readings: { pointId: string; readAt: Date; code: IcdrgCode }[];
 }
 
-/** Every product ever put on this performer's skin in a test, any status, with every reading: one flat query, grouped here. */
+/**
+ * Every product ever put on this performer's skin in a test, any status, with every reading: one query,
+ * a row a tested product with its readings gathered in PostgreSQL (oldest first, times as epoch ms).
+ */
 export async function listTestedProducts(db: Db, performerId: string): Promise<TestedProductRow[]> {
   const rows = await db
     .selectFrom('patch_test_products as tp')
     .innerJoin('patch_tests as t', 't.booking_id', 'tp.test_id')
     .innerJoin('bookings as b', 'b.id', 't.booking_id')
-    .leftJoin('patch_test_readings as r', 'r.test_product_id', 'tp.id')
     .select([
       'tp.id',
       'tp.test_id',
@@ -37,9 +39,10 @@ export async function listTestedProducts(db: Db, performerId: string): Promise<T
       sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`.as('status'),
       't.applied_at',
       't.protocol_version_id',
-      'r.point_id',
-      'r.read_at',
-      'r.code',
+      sql<[string, number, string][] | null>`(
+        select json_agg(json_build_array(r.point_id, extract(epoch from r.read_at) * 1000, r.code) order by r.read_at)
+        from patch_test_readings r where r.test_product_id = tp.id
+      )`.as('readings'),
     ])
     .where('t.performer_id', '=', performerId)
     // The session is the same performer's: said here so their sessions are found by index, not scanned.
@@ -47,29 +50,19 @@ export async function listTestedProducts(db: Db, performerId: string): Promise<T
     .orderBy('t.created_at')
     .orderBy('tp.test_id')
     .orderBy('tp.position')
-    .orderBy('r.read_at')
     .execute();
-  const out = new Map<string, TestedProductRow>();
-  for (const r of rows) {
-    let row = out.get(r.id);
-    if (!row) {
-      row = {
-        testId: r.test_id,
-        testProductId: r.id,
-        productId: r.product_id,
-        formulationId: r.formulation_id,
-        lotId: r.lot_id,
-        site: r.site,
-        status: r.status,
-        appliedAt: r.applied_at ? new Date(r.applied_at) : null,
-        protocolVersionId: r.protocol_version_id,
-        readings: [],
-      };
-      out.set(r.id, row);
-    }
-    if (r.point_id !== null && r.read_at !== null && r.code !== null) row.readings.push({ pointId: r.point_id, readAt: new Date(r.read_at), code: openJson<IcdrgCode>(r.code) });
-  }
-  return [...out.values()];
+  return rows.map((r) => ({
+    testId: r.test_id,
+    testProductId: r.id,
+    productId: r.product_id,
+    formulationId: r.formulation_id,
+    lotId: r.lot_id,
+    site: r.site,
+    status: r.status,
+    appliedAt: r.applied_at ? new Date(r.applied_at) : null,
+    protocolVersionId: r.protocol_version_id,
+    readings: (r.readings ?? []).map(([pointId, ms, code]) => ({ pointId, readAt: new Date(Math.floor(ms)), code: openJson<IcdrgCode>(code) })),
+  }));
 }
 
 /** One override of the lead, without its note (the note stays sealed: clearance never reads it). */
