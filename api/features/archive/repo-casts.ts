@@ -106,7 +106,9 @@ function toRecord(r: Row): CastRecord {
 
 function inScope(db: Db, scope: CastScope): Expression<SqlBool> {
   const ids = scope.productionIds.length ? [...scope.productionIds] : ['00000000-0000-0000-0000-000000000000'];
-  return sql<SqlBool>`(casts.production_id in (${sql.join(ids)}) or casts.performer_id in (${performersEngagedOn(db, ids)}))`;
+  // The performers as one array (not a subquery to hash against every cast), so both arms are index lookups
+  // PostgreSQL ORs as bitmaps rather than a scan of the whole archive.
+  return sql<SqlBool>`(casts.production_id = any(${idArray(ids)}) or casts.performer_id = any(array(${performersEngagedOn(db, ids)})))`;
 }
 
 export async function findCast(db: Db, id: string): Promise<CastRecord | undefined> {
