@@ -1,7 +1,7 @@
 import { type RawBuilder, sql } from 'kysely';
 import { CONSENT_KINDS, type ConsentKind } from '#shared/domain/consent.ts';
 import type { PerformerListItem, PerformerListQuery } from '#shared/schemas/performers.ts';
-import { type Db, WORD_SIMILARITY_THRESHOLD } from '../../db/index.ts';
+import { type Db, idArray, WORD_SIMILARITY_THRESHOLD } from '../../db/index.ts';
 
 export { WORD_SIMILARITY_THRESHOLD };
 import { consentCoversSql, consentStateSql } from '../consents/index.ts';
@@ -37,7 +37,9 @@ type ListFilter = Pick<PerformerListQuery, 'q' | 'consent'> & { productionIds: r
 /** The WHERE of the list, its count and the export: in scope, matching the search, passing the consent filter. */
 function listConditions(f: ListFilter): RawBuilder<boolean> {
   const conds: RawBuilder<unknown>[] = [
-    sql`exists (select 1 from engagements e where e.performer_id = performers.id and e.production_id in (${sql.join([...f.productionIds])}))`,
+    // The performers engaged in scope as one array: PostgreSQL fetches them by primary key rather than
+    // hashing the whole registry against the engagements.
+    sql`performers.id = any(array(select e.performer_id from engagements e where e.production_id = any(${idArray(f.productionIds)})))`,
   ];
   if (f.q) {
     // `<%` lets PostgreSQL use the GIN trigram index; word_similarity() states the cut-off exactly.
@@ -93,9 +95,19 @@ export async function listPerformers(
   const now = new Date();
   const where = listConditions({ q: q.q, consent: q.consent, productionIds: scope.productionIds, now });
   // One statement for the page, its total and each row's engagements; every connection already
-  // carries the word-similarity cut-off (api/db/index.ts).
-  const rows = await db
+  // carries the word-similarity cut-off (api/db/index.ts). The page and the total are found first on
+  // the performers alone; the consents and engagements are then read for the page's rows only.
+  const page = db
     .selectFrom('performers')
+    .select(['performers.id', sql<number>`(count(*) over ())::int`.as('total')])
+    .where(where)
+    .orderBy(orderings(q))
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize)
+    .as('page');
+  const rows = await db
+    .selectFrom(page)
+    .innerJoin('performers', 'performers.id', 'page.id')
     .select([
       'performers.id',
       'performers.legal_name',
@@ -109,12 +121,9 @@ export async function listPerformers(
         select json_agg(json_build_object('production_id', e.production_id, 'production_name', pr.name, 'character_name', e.character_name, 'starts_on', e.starts_on, 'ends_on', e.ends_on) order by pr.name)
         from engagements e join productions pr on pr.id = e.production_id where e.performer_id = performers.id
       ), '[]'::json)`.as('engagements_json'),
-      sql<number>`(count(*) over ())::int`.as('total'),
+      'page.total',
     ])
-    .where(where)
     .orderBy(orderings(q))
-    .limit(q.pageSize)
-    .offset((q.page - 1) * q.pageSize)
     .execute();
   // Past the last page there is no row to carry the total: only then is it counted on its own.
   const total = rows[0]?.total ?? (q.page > 1 ? (await db.selectFrom('performers').select(sql<number>`count(*)::int`.as('n')).where(where).executeTakeFirstOrThrow()).n : 0);
