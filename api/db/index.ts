@@ -1,4 +1,5 @@
 import { Kysely, PostgresDialect, type RawBuilder, sql } from 'kysely';
+import { createHash } from 'node:crypto';
 import pg from 'pg';
 import type { Database } from './schema.ts';
 
@@ -23,6 +24,38 @@ export function idArray(ids: Iterable<string>): RawBuilder<string[]> {
   return sql<string[]>`${[...new Set(ids)]}::uuid[]`;
 }
 
+/** Statements with at most this many parameters are prepared on each connection; longer lists stay one-off. */
+export const PREPARE_MAX_PARAMS = 24;
+const statementNames = new Map<string, string>();
+
+function statementName(text: string): string {
+  let name = statementNames.get(text);
+  if (!name) {
+    name = `plinth_${createHash('sha1').update(text).digest('hex').slice(0, 24)}`;
+    // Bounded: a name costs a hash to work out again, never a wrong answer.
+    if (statementNames.size >= 5000) statementNames.clear();
+    statementNames.set(text, name);
+  }
+  return name;
+}
+
+/**
+ * A connection that prepares each parameterised statement once, by a hash of its text: PostgreSQL then
+ * parses and plans it once per connection (and settles on a generic plan when that is as good), where
+ * planning cost more than running for most of Plinth's short reads. Statements without parameters
+ * (which may hold several commands) and those with long parameter lists (a new text per length) go as
+ * before. The prototype's query is looked up on each call, so a wrapper installed later still sees it.
+ */
+class PreparingClient extends pg.Client {}
+(PreparingClient.prototype as unknown as { query: (...args: unknown[]) => unknown }).query = function (this: pg.Client, ...args: unknown[]) {
+  const base = pg.Client.prototype.query as unknown as (...a: unknown[]) => unknown;
+  const [text, values, callback] = args;
+  if (typeof text === 'string' && Array.isArray(values) && values.length > 0 && values.length <= PREPARE_MAX_PARAMS && callback === undefined) {
+    return base.call(this, { name: statementName(text), text, values });
+  }
+  return base.apply(this, args);
+};
+
 export interface DbHandle {
   db: Db;
   pool: pg.Pool;
@@ -36,6 +69,7 @@ export function createDb(databaseUrl: string, opts: { max?: number; log?: (msg: 
     // The trigram cut-off of name search, and no JIT: Plinth's queries are short and index-backed, and
     // compiling one to machine code costs more than it saves.
     options: `-c pg_trgm.word_similarity_threshold=${WORD_SIMILARITY_THRESHOLD} -c jit=off`,
+    Client: PreparingClient,
     max: opts.max ?? 10,
     connectionTimeoutMillis: 5000,
     idleTimeoutMillis: 30_000,

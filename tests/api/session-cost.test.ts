@@ -4,6 +4,7 @@ import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import { loadActor } from '../../api/http/actor.ts';
 import { SessionStore } from '../../api/http/session.ts';
+import { PREPARE_MAX_PARAMS } from '../../api/db/index.ts';
 import { WORD_SIMILARITY_THRESHOLD } from '../../api/features/performers/list-repo.ts';
 import { allRoutes } from '../../api/routes.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
@@ -322,5 +323,26 @@ describe('what every connection starts with', () => {
     await request(t.app).get('/api/casts?q=castellane').set('Cookie', cookie).expect(200);
     const statements = await counter.during(() => request(t.app).get('/api/casts?q=castellane').set('Cookie', cookie).expect(200));
     expect(statements.filter((s) => /^\s*(begin|commit|set)\b/i.test(s))).toEqual([]);
+  });
+});
+
+describe('statements prepared once per connection', () => {
+  it('a statement with parameters is prepared by its text; one without, or with a long list, goes as before', async () => {
+    const client = await t.db.pool.connect();
+    try {
+      await client.query('select $1::int as n', [1]);
+      expect((await client.query('select $1::int as n', [2])).rows).toEqual([{ n: 2 }]);
+      // Several commands in one text still run (no parameters: the simple protocol).
+      await client.query('select 1; select 2');
+      const long = Array.from({ length: PREPARE_MAX_PARAMS + 1 }, (_, i) => `$${i + 1}::int`).join(' + ');
+      await client.query(`select ${long} as n`, Array.from({ length: PREPARE_MAX_PARAMS + 1 }, () => 1));
+      const { rows } = await client.query<{ name: string; statement: string }>('select name, statement from pg_prepared_statements');
+      const ours = rows.filter((r) => r.name.startsWith('plinth_'));
+      expect(ours.filter((r) => r.statement === 'select $1::int as n')).toHaveLength(1);
+      expect(ours.some((r) => r.statement.includes('select 1; select 2'))).toBe(false);
+      expect(ours.some((r) => r.statement.includes(`$${PREPARE_MAX_PARAMS + 1}`))).toBe(false);
+    } finally {
+      client.release();
+    }
   });
 });
