@@ -6,7 +6,7 @@
 import type { Browser, Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../fake-idp/accounts.ts';
-import { expectAccessible, launchBrowser, signInThroughIdp, TABLET_PORTRAIT, tabletContext } from '../support/browser.ts';
+import { expectAccessible, launchBrowser, signInThroughIdp, TABLET_PORTRAIT, withTabletPage } from '../support/browser.ts';
 
 const appUrl = inject('appUrl');
 let browser: Browser;
@@ -18,15 +18,7 @@ afterAll(async () => {
   await browser?.close();
 });
 
-async function withPage(run: (page: Page) => Promise<void>) {
-  const context = await tabletContext(browser, TABLET_PORTRAIT);
-  const page = await context.newPage();
-  try {
-    await run(page);
-  } finally {
-    await context.close();
-  }
-}
+const withPage = (run: (page: Page) => Promise<void>) => withTabletPage(browser, TABLET_PORTRAIT, run);
 
 async function noSidewaysScroll(page: Page, label: string) {
   const width = await page.evaluate(() => document.documentElement.scrollWidth);

@@ -4,7 +4,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDb, type DbHandle } from '../../api/db/index.ts';
 import { DEMO_PASSWORD } from '../../fake-idp/accounts.ts';
-import { expectAccessible, launchBrowser, signInThroughIdp, TABLET_LANDSCAPE, TABLET_PORTRAIT, tabletContext } from '../support/browser.ts';
+import { expectAccessible, launchBrowser, signInThroughIdp, TABLET_LANDSCAPE, TABLET_PORTRAIT, withTabletPage } from '../support/browser.ts';
 
 const appUrl = inject('appUrl');
 let browser: Browser;
@@ -19,15 +19,7 @@ afterAll(async () => {
   await db?.close();
 });
 
-async function withPage(viewport: { width: number; height: number }, run: (page: Page) => Promise<void>) {
-  const context = await tabletContext(browser, viewport);
-  const page = await context.newPage();
-  try {
-    await run(page);
-  } finally {
-    await context.close();
-  }
-}
+const withPage = (viewport: { width: number; height: number }, run: (page: Page) => Promise<void>) => withTabletPage(browser, viewport, run);
 
 describe('homes offer the next step', () => {
   // The artist's panels (today's applications, checks waiting on the lead) hold whatever the shared demo's

@@ -27,6 +27,16 @@ export async function tabletContext(browser: Browser, viewport = TABLET_LANDSCAP
   return browser.newContext({ viewport, hasTouch: true, isMobile: false, deviceScaleFactor: 1, locale: options.locale ?? 'en-GB', timezoneId: 'Europe/London' });
 }
 
+/** Runs `run` on a fresh page in a tablet-sized context of its own, closed whatever happens. */
+export async function withTabletPage(browser: Browser, viewport: { width: number; height: number }, run: (page: Page) => Promise<void>): Promise<void> {
+  const context = await tabletContext(browser, viewport);
+  try {
+    await run(await context.newPage());
+  } finally {
+    await context.close();
+  }
+}
+
 export interface AxeViolation {
   id: string;
   impact: string | null;

@@ -68,7 +68,7 @@ export function PerformerPatchTests({ performerId, isSelf }: { performerId: stri
           {data.sharedCautions.total > 0 ? (
             <div className="flex flex-col gap-2" data-testid="shared-cautions">
               <h3 className="text-lg font-semibold text-graphite-900">
-                <ClearanceBadge state="caution" /> {formatNumber(data.sharedCautions.total)} more product{data.sharedCautions.total === 1 ? '' : 's'} share an ingredient with a product that reacted
+                <ClearanceBadge state="caution" /> {formatNumber(data.sharedCautions.total)} more {data.sharedCautions.total === 1 ? 'product shares' : 'products share'} an ingredient with a product that reacted
               </h3>
               <p className="max-w-prose text-ink-700">
                 None of these has been tested on {isSelf ? 'you' : 'this performer'}. Each lists a non-trivial ingredient that a product which reacted also lists, so it may cause the same reaction: patch test it before use, and ask the designated lead.
