@@ -25,6 +25,24 @@ export async function loadPatchTests(c: pg.ClientBase, opts: { readings: number;
      where p.legal_name = 'Juno Castellane' and pr.name = 'The Lantern Keeper'`,
   )).rows[0];
   if (!juno) throw new Error('The demo performer Juno Castellane is missing: seed the demo scenario first.');
+  // Bulk rows go in with the clearance stamps' row triggers off; every performer tested gets a stamp after.
+  const stamped = ['patch_tests', 'patch_test_products', 'patch_test_readings'];
+  for (const table of stamped) await c.query(`alter table ${table} disable trigger clearance_stamp`);
+  try {
+    return await insertTests(c, { protocol, points, offsets, perTest, tests, sealed, juno, kitSize: opts.kitSize, junoTests: opts.junoTests });
+  } finally {
+    for (const table of stamped) await c.query(`alter table ${table} enable trigger clearance_stamp`);
+    await c.query(
+      `insert into clearance_stamps (key, stamp) select 'performer:' || performer_id, nextval('clearance_stamp_seq') from (select distinct performer_id from patch_tests) p
+       on conflict (key) do update set stamp = excluded.stamp`,
+    );
+  }
+}
+
+async function insertTests(
+  c: pg.ClientBase,
+  { protocol, points, offsets, perTest, tests, sealed, juno, kitSize, junoTests }: { protocol: { id: string }; points: string[]; offsets: number[]; perTest: number; tests: number; sealed: string[]; juno: { id: string; production_id: string }; kitSize: number; junoTests: number },
+): Promise<{ tests: number; readings: number }> {
   await c.query(
     `with e as (select array_agg(performer_id order by id) as pids, array_agg(production_id order by id) as prids from engagements)
      insert into bookings (performer_id, production_id, purpose, starts_at, location, status)
@@ -32,7 +50,7 @@ export async function loadPatchTests(c: pg.ClientBase, opts: { readings: number;
             case when i <= $1 then $3::uuid else e.prids[1 + (i * 37) % cardinality(e.prids)] end,
             'patch_test', now() - (i % 700) * interval '1 day' - interval '10 days', 'Scale clinic', 'done'
      from e, generate_series(1, $4::int) i`,
-    [opts.junoTests, juno.id, juno.production_id, tests],
+    [junoTests, juno.id, juno.production_id, tests],
   );
   await c.query(
     `insert into patch_tests (booking_id, performer_id, production_id, protocol_version_id, status, applied_at, removed_at, closed_at, created_at)
@@ -51,7 +69,7 @@ export async function loadPatchTests(c: pg.ClientBase, opts: { readings: number;
      cross join lateral (select case when t.performer_id = $2::uuid then kit.ids[1 + ((t.n * ${perTest} + pos) % cardinality(kit.ids))::int]
                                      else everything.ids[1 + ((t.n * 7 + pos * 131) % cardinality(everything.ids))::int] end as product_id) pick
      cross join lateral (select l.id, l.formulation_id from product_lots l where l.product_id = pick.product_id order by l.code limit 1) lot`,
-    [protocol.id, juno.id, opts.kitSize],
+    [protocol.id, juno.id, kitSize],
   );
   const r = await c.query(
     `insert into patch_test_readings (test_product_id, point_id, read_at, code, read_by)

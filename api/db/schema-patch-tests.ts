@@ -75,3 +75,10 @@ export interface ClearanceOverridesTable {
   set_by: string | null;
   set_at: Timestamp;
 }
+
+/** Moved by triggers whenever a row clearance reads changes ('performer:<id>', 'catalogue'); read-only to the app. */
+export interface ClearanceStampsTable {
+  key: ColumnType<string, never, never>;
+  /** bigint, as a string. */
+  stamp: ColumnType<string, never, never>;
+}

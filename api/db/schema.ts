@@ -1,7 +1,7 @@
 // Database types, kept by hand in step with migrations/ (one interface per table).
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
 import type { ApplicationProductsTable, ApplicationsTable, ClearanceChecksTable, IncidentsTable, KitProductsTable, KitsTable, LeadRequestsTable, SkinChecksTable } from './schema-applications.ts';
-import type { ClearanceOverridesTable, PatchTestPhotosTable, PatchTestProductsTable, PatchTestReadingsTable, PatchTestsTable } from './schema-patch-tests.ts';
+import type { ClearanceOverridesTable, ClearanceStampsTable, PatchTestPhotosTable, PatchTestProductsTable, PatchTestReadingsTable, PatchTestsTable } from './schema-patch-tests.ts';
 import type { ConsentTemplatesTable, ConsentTemplateVersionsTable, SigningRequestsTable, SigningBundlesTable, StaffSeenTable, HealthReviewsTable, ConsentsTable, ConsentAnswersTable, WithdrawalLinksTable, EmailConfirmationsTable, AccountInvitationsTable, BookingsTable, MailFailuresTable } from './schema-consents.ts';
 import type { IngredientsTable, ProductsTable, ProductFormulationsTable, FormulationIngredientsTable, ProductLotsTable, ProtocolsTable, ProtocolVersionsTable } from './schema-catalogue.ts';
 import type { ArchiveLocationsTable, CastsTable, CastMovementsTable, CastConditionChecksTable, CastPhotosTable, JobOnceTable } from './schema-archive.ts';
@@ -191,6 +191,7 @@ export interface Database {
   patch_test_readings: PatchTestReadingsTable;
   patch_test_photos: PatchTestPhotosTable;
   clearance_overrides: ClearanceOverridesTable;
+  clearance_stamps: ClearanceStampsTable;
 }
 
 export type UserRow = Selectable<UsersTable>;

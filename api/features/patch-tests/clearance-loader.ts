@@ -1,12 +1,11 @@
 import { performerClearance, type ClearanceResult, type FormulationFacts, type TestedProduct } from '#shared/domain/clearance.ts';
 import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.ts';
 import { buildVocabulary, type Ingredient } from '#shared/domain/ingredients.ts';
-import { requiredPointIds } from '#shared/domain/protocols.ts';
 import type { Db } from '../../db/index.ts';
-import { currentFormulationIds, listVocabulary, loadFormulationsWithIngredients } from '../catalogue/index.ts';
+import { currentFormulationIds } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { findProtocolVersions } from '../protocols/index.ts';
-import { listOverrides, listTestedProducts, type OverrideRow, type TestedProductRow } from './clearance-repo.ts';
+import { formulationFactsOf, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
+import { listOverrides, type OverrideRow, type TestedProductRow } from './clearance-repo.ts';
 
 export interface PerformerClearancesQuery {
   performerId: string;
@@ -20,33 +19,36 @@ export interface PerformerClearancesQuery {
 /** What the loader read, for a caller that also shows the tests (the lead's view) without reading them again. */
 export interface ClearanceFacts {
   results: ClearanceResult[];
-  tested: TestedProductRow[];
+  tested: readonly TestedProductRow[];
   formulations: Map<string, FormulationFacts>;
 }
 
 /**
  * A performer's clearance for each product asked for, from a fixed number of queries whatever the number
- * of products or tests: the tested products with their readings, the overrides, the declared allergies
- * (and the vocabulary only when some were written), the protocol versions the tests were booked on, the
- * current formulations asked for, and the ingredients of those and of every tested formulation.
- * The answer holds states and reasons only; no code, note or photo.
+ * of products or tests: the stamps, the tested products with their readings, the overrides, the declared
+ * allergies (and the vocabulary only when some were written), the protocol versions the tests were booked
+ * on, the current formulations asked for, and the ingredients of those and of every tested formulation.
+ * What `clearance-cache.ts` keeps is read only when its stamp moved. The answer holds states and reasons
+ * only; no code, note or photo.
  */
 export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): Promise<ClearanceFacts> {
-  const [tested, overrides, answers, current] = await Promise.all([
-    listTestedProducts(db, q.performerId),
+  const [stamps, overrides, answers, current] = await Promise.all([
+    readClearanceStamps(db, q.performerId),
     listOverrides(db, q.performerId),
     listDeclaredAllergyAnswers(db, q.performerId),
     currentFormulationIds(db, q.productIds),
   ]);
-  const [vocabulary, protocols, facts] = await Promise.all([
-    answers.length > 0 ? listVocabulary(db) : Promise.resolve([]),
-    findProtocolVersions(
+  const tested = await testedProductsOf(db, q.performerId, stamps);
+  const [vocabulary, requiredPoints, facts] = await Promise.all([
+    answers.length > 0 ? vocabularyOf(db, stamps) : Promise.resolve([]),
+    requiredPointsOf(
       db,
       tested.map((t) => t.protocolVersionId),
+      stamps,
     ),
-    loadFormulationsWithIngredients(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)]),
+    formulationFactsOf(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)], stamps),
   ]);
-  return decide({ tested, overrides, answers, vocabulary, protocols, current, facts, extraFormulationIds: q.formulationIds, now: q.now });
+  return decide({ tested, overrides, answers, vocabulary, requiredPoints, current, facts, extraFormulationIds: q.formulationIds, now: q.now });
 }
 
 /** A performer's clearance for each product asked for (all products when none are named), from a fixed number of queries. */
@@ -55,11 +57,12 @@ export async function performerClearances(db: Db, q: PerformerClearancesQuery): 
 }
 
 interface Gathered {
-  tested: TestedProductRow[];
+  tested: readonly TestedProductRow[];
   overrides: OverrideRow[];
   answers: string[];
-  vocabulary: Ingredient[];
-  protocols: Awaited<ReturnType<typeof findProtocolVersions>>;
+  vocabulary: readonly Ingredient[];
+  /** The reading points each protocol version asks for, by version id. */
+  requiredPoints: ReadonlyMap<string, readonly string[]>;
   current: { productId: string; formulationId: string }[];
   facts: FormulationFacts[];
   /** Formulations asked for beyond the current ones (the exact formulation an appliance piece was made with). */
@@ -68,10 +71,9 @@ interface Gathered {
 }
 
 /** The clearance rule over what was read, in the order of `current`. */
-export function decide({ tested, overrides, answers, vocabulary, protocols, current, facts, extraFormulationIds = [], now }: Gathered): ClearanceFacts {
+export function decide({ tested, overrides, answers, vocabulary, requiredPoints, current, facts, extraFormulationIds = [], now }: Gathered): ClearanceFacts {
   const formulations = new Map(facts.map((f) => [f.formulationId, f]));
   const tests: TestedProduct[] = tested.map((t) => {
-    const protocol = protocols.get(t.protocolVersionId)?.protocol;
     return {
       testId: t.testId,
       productId: t.productId,
@@ -79,7 +81,7 @@ export function decide({ tested, overrides, answers, vocabulary, protocols, curr
       lotId: t.lotId,
       status: t.status,
       appliedAt: t.appliedAt,
-      requiredPointIds: protocol ? requiredPointIds(protocol) : [],
+      requiredPointIds: requiredPoints.get(t.protocolVersionId) ?? [],
       readings: t.readings,
     };
   });

@@ -2,11 +2,11 @@ import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.
 import { isPositive } from '#shared/domain/icdrg.ts';
 import { buildVocabulary, normaliseInciName } from '#shared/domain/ingredients.ts';
 import type { Db } from '../../db/index.ts';
-import { currentFormulationIds, currentFormulationsListing, listVocabularyWithIds, loadFormulationsWithIngredients, productsWithCurrentFormulation } from '../catalogue/index.ts';
+import { currentFormulationIds, productsWithCurrentFormulation } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { findProtocolVersions } from '../protocols/index.ts';
+import { formulationFactsOf, listingOf, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
 import { decide, type ClearanceFacts } from './clearance-loader.ts';
-import { listOverrides, listTestedProducts } from './clearance-repo.ts';
+import { listOverrides } from './clearance-repo.ts';
 
 export interface TableFacts extends ClearanceFacts {
   /**
@@ -24,19 +24,21 @@ export interface TableFacts extends ClearanceFacts {
  * non-trivial ingredient of a formulation that reacted. Every other product is Untested for the reason
  * "not tested", which the table leaves out. The products reached only through a shared ingredient can run
  * to thousands on a large catalogue: they are counted, and only the page asked for is read and decided.
- * A fixed number of queries in four rounds, whatever the counts.
+ * A fixed number of queries in at most five rounds, whatever the counts; fewer when `clearance-cache.ts` holds them.
  */
 export async function loadTableFacts(db: Db, q: { performerId: string; now: Date; sharedPage?: { page: number; pageSize: number } }): Promise<TableFacts> {
-  const [tested, overrides, answers] = await Promise.all([listTestedProducts(db, q.performerId), listOverrides(db, q.performerId), listDeclaredAllergyAnswers(db, q.performerId)]);
+  const [stamps, overrides, answers] = await Promise.all([readClearanceStamps(db, q.performerId), listOverrides(db, q.performerId), listDeclaredAllergyAnswers(db, q.performerId)]);
+  const tested = await testedProductsOf(db, q.performerId, stamps);
   const testedIds = [...new Set(tested.map((t) => t.formulationId))];
   const reactedIds = new Set(tested.filter((t) => t.readings.some((r) => isPositive(r.code))).map((t) => t.formulationId));
-  const [protocols, testedFacts, vocabulary] = await Promise.all([
-    findProtocolVersions(
+  const [requiredPoints, testedFacts, vocabulary] = await Promise.all([
+    requiredPointsOf(
       db,
       tested.map((t) => t.protocolVersionId),
+      stamps,
     ),
-    loadFormulationsWithIngredients(db, testedIds),
-    answers.length > 0 || reactedIds.size > 0 ? listVocabularyWithIds(db) : Promise.resolve([]),
+    formulationFactsOf(db, testedIds, stamps),
+    answers.length > 0 || reactedIds.size > 0 ? vocabularyOf(db, stamps) : Promise.resolve([]),
   ]);
 
   // What to look for in the catalogue: the non-trivial ingredients of what reacted, and the declared allergies.
@@ -47,7 +49,7 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   const sharedIngredientIds = new Set(vocabulary.filter((v) => !v.trivial && reactedKeys.has(normaliseInciName(v.inci))).map((v) => v.id));
   const allergyIngredientIds = new Set(vocabulary.filter((v) => allergyKeys.has(normaliseInciName(v.inci)) || allergyGroups.has(v.group)).map((v) => v.id));
   const [listing, overridden] = await Promise.all([
-    currentFormulationsListing(db, { allergyIds: [...allergyIngredientIds], sharedIds: [...sharedIngredientIds], unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }),
+    listingOf(db, { allergyIds: [...allergyIngredientIds], sharedIds: [...sharedIngredientIds], unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }, stamps),
     productsWithCurrentFormulation(
       db,
       overrides.map((o) => o.formulationId),
@@ -55,7 +57,7 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   ]);
   // The table proper: what was tested, decided, or matches a declared allergy (which outranks sharing).
   const core = new Set([...tested.map((t) => t.productId), ...overridden]);
-  const sharing: typeof listing = [];
+  const sharing: (typeof listing)[number][] = [];
   for (const r of listing) {
     const names = r.unlinkedNames.map(normaliseInciName);
     if (r.allergy || names.some((k) => allergyKeys.has(k))) core.add(r.productId);
@@ -66,11 +68,12 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   const page = q.sharedPage ? sharedOnly.slice((q.sharedPage.page - 1) * q.sharedPage.pageSize, q.sharedPage.page * q.sharedPage.pageSize) : sharedOnly;
   const current = [...(await currentFormulationIds(db, [...core])), ...page.map((r) => ({ productId: r.productId, formulationId: r.formulationId }))];
   const known = new Set(testedIds);
-  const more = await loadFormulationsWithIngredients(
+  const more = await formulationFactsOf(
     db,
     current.map((c) => c.formulationId).filter((id) => !known.has(id)),
+    stamps,
   );
-  const facts = decide({ tested, overrides, answers, vocabulary, protocols, current, facts: [...testedFacts, ...more], now: q.now });
+  const facts = decide({ tested, overrides, answers, vocabulary, requiredPoints, current, facts: [...testedFacts, ...more], now: q.now });
   const paged = new Set(page.map((c) => c.productId));
   return { ...facts, results: facts.results.filter((r) => !paged.has(r.productId)), shared: { total: sharedOnly.length, results: facts.results.filter((r) => paged.has(r.productId)) } };
 }

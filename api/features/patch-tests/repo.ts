@@ -1,8 +1,8 @@
-import { sql } from 'kysely';
+import { sql, type SqlBool } from 'kysely';
 import type { IcdrgCode } from '#shared/domain/icdrg.ts';
 import type { TestStatus } from '#shared/domain/reading-schedule.ts';
 import { openJson, sealJson } from '../../crypto/medical.ts';
-import type { Db } from '../../db/index.ts';
+import { idArray, type Db } from '../../db/index.ts';
 
 /** A booked test whose session was cancelled (from the sessions list) is cancelled too. */
 const STATUS = sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`;
@@ -115,13 +115,19 @@ async function sitesAndTaken(db: Db, testIds: readonly string[], withTaken: bool
   const taken = new Map<string, string[]>();
   if (testIds.length === 0) return { sites, taken };
   const [products, counts] = await Promise.all([
-    db.selectFrom('patch_test_products').select(['test_id', 'site']).where('test_id', 'in', [...testIds]).orderBy('test_id').orderBy('position').execute(),
+    db
+      .selectFrom('patch_test_products')
+      .select(['test_id', 'site'])
+      .where(sql<SqlBool>`test_id = any(${idArray(testIds)})`)
+      .orderBy('test_id')
+      .orderBy('position')
+      .execute(),
     withTaken
       ? db
           .selectFrom('patch_test_readings as r')
           .innerJoin('patch_test_products as tp', 'tp.id', 'r.test_product_id')
           .select(['tp.test_id', 'r.point_id', (e) => e.fn.countAll<string>().as('n')])
-          .where('tp.test_id', 'in', [...testIds])
+          .where(sql<SqlBool>`tp.test_id = any(${idArray(testIds)})`)
           .groupBy(['tp.test_id', 'r.point_id'])
           .execute()
       : Promise.resolve([]),

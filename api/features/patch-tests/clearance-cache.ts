@@ -1,0 +1,168 @@
+import { createHash } from 'node:crypto';
+import { LRUCache } from 'lru-cache';
+import type { FormulationFacts } from '#shared/domain/clearance.ts';
+import type { Ingredient } from '#shared/domain/ingredients.ts';
+import { requiredPointIds } from '#shared/domain/protocols.ts';
+import type { Db } from '../../db/index.ts';
+import { currentFormulationsListing, listVocabularyWithIds, loadFormulationsWithIngredients } from '../catalogue/index.ts';
+import { findProtocolVersions } from '../protocols/index.ts';
+import { listTestedProducts, type TestedProductRow } from './clearance-repo.ts';
+
+/**
+ * What clearance reads that changes seldom, kept in this process and checked against the stamps the
+ * database moves on every change (migration `clearance_stamps`): a performer's tested products with
+ * their readings, and the catalogue's formulations, vocabulary, protocol versions and the listings of
+ * products by ingredient the clearance table asks for. The stamps are read
+ * first, in their own round, and anything read after them is kept under them: it is at least as new as
+ * they say, so a change that lands meanwhile only makes the next request read again. Several API
+ * processes each keep their own and stay right, since the stamps live in PostgreSQL. A key with no stamp
+ * (rows written with triggers off) is read every time. Kept values are frozen: callers share them.
+ */
+export interface ClearanceStamps {
+  performer: string | null;
+  catalogue: string | null;
+}
+
+const CATALOGUE = 'catalogue';
+const performerKey = (performerId: string) => `performer:${performerId}`;
+
+/** The stamps of one performer's tests and of the catalogue: one query. */
+export async function readClearanceStamps(db: Db, performerId: string): Promise<ClearanceStamps> {
+  const rows = await db
+    .selectFrom('clearance_stamps')
+    .select(['key', 'stamp'])
+    .where('key', 'in', [performerKey(performerId), CATALOGUE])
+    .execute();
+  const of = (k: string) => rows.find((r) => r.key === k)?.stamp ?? null;
+  return { performer: of(performerKey(performerId)), catalogue: of(CATALOGUE) };
+}
+
+interface Kept {
+  tested: LRUCache<string, { stamp: string; rows: readonly TestedProductRow[] }>;
+  catalogue: {
+    stamp: string | null;
+    formulations: LRUCache<string, FormulationFacts>;
+    vocabulary: (Ingredient & { id: string })[] | null;
+    protocols: Map<string, readonly string[]>;
+    listings: LRUCache<string, readonly Listing[]>;
+  };
+}
+
+type Listing = Awaited<ReturnType<typeof currentFormulationsListing>>[number];
+type ListingQuery = Parameters<typeof currentFormulationsListing>[1];
+
+/** Rows kept across every performer, counted by tested product: a studio's heaviest performers fit many times over. */
+const TESTED_ROWS_KEPT = 200_000;
+const FORMULATIONS_KEPT = 50_000;
+/** Listing rows kept, counted by product. */
+const LISTING_ROWS_KEPT = 100_000;
+
+const kept = new WeakMap<Db, Kept>();
+
+function keptFor(db: Db): Kept {
+  let k = kept.get(db);
+  if (!k) {
+    k = {
+      tested: new LRUCache({ maxSize: TESTED_ROWS_KEPT, sizeCalculation: (v) => v.rows.length + 1 }),
+      catalogue: {
+        stamp: null,
+        formulations: new LRUCache({ max: FORMULATIONS_KEPT }),
+        vocabulary: null,
+        protocols: new Map(),
+        listings: new LRUCache({ maxSize: LISTING_ROWS_KEPT, sizeCalculation: (v) => v.length + 1 }),
+      },
+    };
+    kept.set(db, k);
+  }
+  return k;
+}
+
+function deepFreeze<T>(value: T): T {
+  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const v of Object.values(value)) deepFreeze(v);
+  }
+  return value;
+}
+
+/** The catalogue part, emptied when its stamp moved (or is gone). */
+function catalogueFor(db: Db, stamp: string | null): Kept['catalogue'] {
+  const c = keptFor(db).catalogue;
+  if (c.stamp !== stamp || stamp === null) {
+    c.stamp = stamp;
+    c.formulations.clear();
+    c.vocabulary = null;
+    c.protocols.clear();
+    c.listings.clear();
+  }
+  return c;
+}
+
+/** `listTestedProducts`, kept while the performer's stamp stands. */
+export async function testedProductsOf(db: Db, performerId: string, stamps: ClearanceStamps): Promise<readonly TestedProductRow[]> {
+  const tested = keptFor(db).tested;
+  const hit = tested.get(performerId);
+  if (hit && stamps.performer !== null && hit.stamp === stamps.performer) return hit.rows;
+  const rows = await listTestedProducts(db, performerId);
+  if (stamps.performer !== null) tested.set(performerId, { stamp: stamps.performer, rows: deepFreeze(rows) });
+  else tested.delete(performerId);
+  return rows;
+}
+
+/** `loadFormulationsWithIngredients`, reading only those not kept under the catalogue's stamp. */
+export async function formulationFactsOf(db: Db, formulationIds: readonly string[], stamps: ClearanceStamps): Promise<FormulationFacts[]> {
+  const c = catalogueFor(db, stamps.catalogue);
+  const ids = [...new Set(formulationIds)];
+  const missing = ids.filter((id) => !c.formulations.has(id));
+  const read = await loadFormulationsWithIngredients(db, missing);
+  const got = new Map(read.map((f) => [f.formulationId, f]));
+  if (stamps.catalogue !== null) for (const f of read) c.formulations.set(f.formulationId, deepFreeze(f));
+  return ids.flatMap((id) => {
+    const f = got.get(id) ?? c.formulations.get(id);
+    return f ? [f] : [];
+  });
+}
+
+/** The ingredient vocabulary with ids, kept under the catalogue's stamp. */
+export async function vocabularyOf(db: Db, stamps: ClearanceStamps): Promise<(Ingredient & { id: string })[]> {
+  const c = catalogueFor(db, stamps.catalogue);
+  if (c.vocabulary) return c.vocabulary;
+  const rows = await listVocabularyWithIds(db);
+  if (stamps.catalogue !== null) c.vocabulary = deepFreeze(rows);
+  return rows;
+}
+
+/** The reading points each protocol version requires (by version id), kept under the catalogue's stamp. */
+export async function requiredPointsOf(db: Db, versionIds: readonly string[], stamps: ClearanceStamps): Promise<Map<string, readonly string[]>> {
+  const c = catalogueFor(db, stamps.catalogue);
+  const ids = [...new Set(versionIds)];
+  const missing = ids.filter((id) => !c.protocols.has(id));
+  const out = new Map<string, readonly string[]>();
+  if (missing.length > 0) {
+    for (const [id, v] of await findProtocolVersions(db, missing)) {
+      const points = deepFreeze(requiredPointIds(v.protocol));
+      out.set(id, points);
+      if (stamps.catalogue !== null) c.protocols.set(id, points);
+    }
+  }
+  for (const id of ids) if (!out.has(id) && c.protocols.has(id)) out.set(id, c.protocols.get(id)!);
+  return out;
+}
+
+/** `currentFormulationsListing`, kept under the catalogue's stamp by the ingredients asked for (in any order). */
+export async function listingOf(db: Db, q: ListingQuery, stamps: ClearanceStamps): Promise<readonly Listing[]> {
+  const c = catalogueFor(db, stamps.catalogue);
+  const key = createHash('sha1')
+    .update(`${q.unlinked}|${[...new Set(q.allergyIds)].sort().join(',')}|${[...new Set(q.sharedIds)].sort().join(',')}`)
+    .digest('base64');
+  const hit = c.listings.get(key);
+  if (hit) return hit;
+  const rows = await currentFormulationsListing(db, q);
+  if (stamps.catalogue !== null) c.listings.set(key, deepFreeze(rows));
+  return rows;
+}
+
+/** Drops everything kept for this database handle, so the next read starts cold (for tests and the benchmark). */
+export function forgetClearanceKept(db: Db): void {
+  kept.delete(db);
+}
