@@ -1,7 +1,5 @@
-import type { Protocol } from '#shared/domain/protocols.ts';
 import { dueNowReadings, overdueReadings, readingsOpeningWithin, type ReadingTask } from '#shared/domain/reading-schedule.ts';
 import type { Db } from '../../db/index.ts';
-import { findProtocolVersions } from '../protocols/index.ts';
 import { listTestRows, type TestRow } from './repo.ts';
 import { listTestSummaries } from './view.ts';
 
@@ -18,16 +16,11 @@ interface HomeTask {
 }
 
 /** A test under reading with the protocol it was booked on, as the reading lists and the reminder job read it. */
-export type TestUnderReadingRow = TestRow & { protocol: Protocol };
+export type TestUnderReadingRow = TestRow;
 
-/** Every test under reading (of one production, or all), each with its protocol: two queries. */
+/** Every test under reading (of one production, or all), each with its protocol, sites and points read: three queries. */
 export async function testsUnderReading(db: Db, productionId?: string): Promise<TestUnderReadingRow[]> {
-  const rows = await listTestRows(db, { productionId, statuses: ['applied'] });
-  const protocols = await findProtocolVersions(
-    db,
-    rows.map((r) => r.protocolVersionId),
-  );
-  return rows.map((r) => ({ ...r, protocol: protocols.get(r.protocolVersionId)!.protocol }));
+  return listTestRows(db, { productionId, statuses: ['applied'] });
 }
 
 /** The lead's three reading lists: open now, opening within a day, and overdue. */

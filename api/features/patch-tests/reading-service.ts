@@ -10,7 +10,6 @@ import { recordEvent, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { conflict, invalid, isUniqueViolation, notFound } from '../../http/errors.ts';
 import { receiveFile } from '../../http/upload.ts';
-import { findProtocolVersions } from '../protocols/index.ts';
 import { findPhoto, findReading, findTestRow, insertPhoto, insertReadings, listTestProducts, lockTest, readSitesAtPoint, updateTest } from './repo.ts';
 import { detailFor } from './service.ts';
 
@@ -35,14 +34,13 @@ export async function recordReadings(ctx: AppContext, actor: Actor, id: string, 
     seen.add(s.testProductId);
   });
   if (Object.keys(fields).length > 0) throw invalid(fields);
-  const pv = (await findProtocolVersions(ctx.db, [row.protocolVersionId])).get(row.protocolVersionId)!;
   const readAt = new Date(input.readAt);
   try {
     await ctx.db.transaction().execute(async (trx) => {
       const locked = await lockTest(trx, id);
       if (!locked) throw notFound('That patch test');
       if (locked.version !== input.version) throw conflict('This test was changed by someone else. Reload it to see the change.');
-      const check = checkReadingTime(pv.protocol, { status: locked.status, appliedAt: locked.appliedAt, removedAt: locked.removedAt, pointId: input.pointId, at: readAt, now: new Date(), timeZone: ctx.config.timeZone });
+      const check = checkReadingTime(row.protocol, { status: locked.status, appliedAt: locked.appliedAt, removedAt: locked.removedAt, pointId: input.pointId, at: readAt, now: new Date(), timeZone: ctx.config.timeZone });
       if (!check.ok) {
         if (check.reason === 'unknown_point') throw invalid({ pointId: [check.message] });
         if (check.reason === 'in_future' || check.reason === 'before_window') throw invalid({ readAt: [check.message] });

@@ -1,5 +1,6 @@
 import { sql, type SqlBool } from 'kysely';
 import type { IcdrgCode } from '#shared/domain/icdrg.ts';
+import type { Protocol } from '#shared/domain/protocols.ts';
 import type { TestStatus } from '#shared/domain/reading-schedule.ts';
 import { openJson, sealJson } from '../../crypto/medical.ts';
 import { idArray, type Db } from '../../db/index.ts';
@@ -19,6 +20,8 @@ export interface TestRow {
   performerName: string;
   productionId: string;
   protocolVersionId: string;
+  /** The protocol version it was booked on (published versions never change). */
+  protocol: Protocol;
   status: TestStatus;
   startsAt: Date;
   location: string | null;
@@ -26,7 +29,9 @@ export interface TestRow {
   removedAt: Date | null;
   closedAt: Date | null;
   productCount: number;
+  /** Empty when the list asked for counts only. */
   sites: string[];
+  /** Empty when the list asked for counts only. */
   takenPointIds: string[];
   version: number;
 }
@@ -39,22 +44,33 @@ export interface TestFilter {
   statuses?: readonly TestStatus[];
   startsFrom?: Date;
   startsBefore?: Date;
-  /** Lists that show only counts leave out which points were read at every site (one read fewer). */
-  withoutTaken?: boolean;
+  /** Lists that show only how many products leave out the sites and which points were read at each (one query in all). */
+  countsOnly?: boolean;
 }
 
-/** Tests in start order (at most 500), each with its product count, sites and the points read at every site: one query. */
+/**
+ * Tests in start order (at most 500), each with its protocol, product count, sites and the points read at
+ * every site: three queries, or one for counts only.
+ */
 export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]> {
   let q = db
     .selectFrom('patch_tests as t')
     .innerJoin('bookings as b', 'b.id', 't.booking_id')
     .innerJoin('performers as p', 'p.id', 't.performer_id')
+    .innerJoin('protocol_versions as v', 'v.id', 't.protocol_version_id')
     .select([
       't.booking_id',
       't.performer_id',
       sql<string>`coalesce(p.preferred_name, p.legal_name)`.as('performer_name'),
       't.production_id',
       't.protocol_version_id',
+      'v.protocol_id',
+      'v.name as protocol_name',
+      'v.kind as protocol_kind',
+      'v.description as protocol_description',
+      'v.occlusion_minutes',
+      'v.applications',
+      'v.readings',
       STATUS.as('status'),
       'b.starts_at',
       'b.location',
@@ -62,6 +78,7 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
       't.removed_at',
       't.closed_at',
       't.version',
+      sql<number>`(select count(*)::int from patch_test_products tp where tp.test_id = t.booking_id)`.as('product_count'),
     ]);
   if (where.ids) {
     if (where.ids.length === 0) return [];
@@ -82,35 +99,42 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
   if (where.startsFrom) q = q.where('b.starts_at', '>=', where.startsFrom);
   if (where.startsBefore) q = q.where('b.starts_at', '<', where.startsBefore);
   const rows = await q.orderBy('b.starts_at').orderBy('t.booking_id').limit(500).execute();
-  const { sites, taken } = await sitesAndTaken(
-    db,
-    rows.map((r) => r.booking_id),
-    !where.withoutTaken,
-  );
+  const { sites, taken } = where.countsOnly
+    ? { sites: new Map<string, string[]>(), taken: new Map<string, string[]>() }
+    : await sitesAndTaken(
+        db,
+        rows.map((r) => r.booking_id),
+      );
   return rows.map((r) => ({
     id: r.booking_id,
     performerId: r.performer_id,
     performerName: r.performer_name,
     productionId: r.production_id,
     protocolVersionId: r.protocol_version_id,
+    protocol: {
+      id: r.protocol_id,
+      name: r.protocol_name,
+      kind: r.protocol_kind,
+      description: r.protocol_description,
+      occlusionMinutes: r.occlusion_minutes,
+      applications: r.applications as Protocol['applications'],
+      readings: r.readings as Protocol['readings'],
+    },
     status: r.status,
     startsAt: new Date(r.starts_at),
     location: r.location,
     appliedAt: r.applied_at ? new Date(r.applied_at) : null,
     removedAt: r.removed_at ? new Date(r.removed_at) : null,
     closedAt: r.closed_at ? new Date(r.closed_at) : null,
-    productCount: sites.get(r.booking_id)?.length ?? 0,
+    productCount: r.product_count,
     sites: sites.get(r.booking_id) ?? [],
     takenPointIds: taken.get(r.booking_id) ?? [],
     version: r.version,
   }));
 }
 
-/**
- * The sites of each test, and the points read at every one of its sites ("taken"): two flat queries for
- * any number of tests (one when the points are not wanted).
- */
-async function sitesAndTaken(db: Db, testIds: readonly string[], withTaken: boolean): Promise<{ sites: Map<string, string[]>; taken: Map<string, string[]> }> {
+/** The sites of each test, and the points read at every one of its sites ("taken"): two flat queries for any number of tests. */
+async function sitesAndTaken(db: Db, testIds: readonly string[]): Promise<{ sites: Map<string, string[]>; taken: Map<string, string[]> }> {
   const sites = new Map<string, string[]>();
   const taken = new Map<string, string[]>();
   if (testIds.length === 0) return { sites, taken };
@@ -122,15 +146,13 @@ async function sitesAndTaken(db: Db, testIds: readonly string[], withTaken: bool
       .orderBy('test_id')
       .orderBy('position')
       .execute(),
-    withTaken
-      ? db
-          .selectFrom('patch_test_readings as r')
-          .innerJoin('patch_test_products as tp', 'tp.id', 'r.test_product_id')
-          .select(['tp.test_id', 'r.point_id', (e) => e.fn.countAll<string>().as('n')])
-          .where(sql<SqlBool>`tp.test_id = any(${idArray(testIds)})`)
-          .groupBy(['tp.test_id', 'r.point_id'])
-          .execute()
-      : Promise.resolve([]),
+    db
+      .selectFrom('patch_test_readings as r')
+      .innerJoin('patch_test_products as tp', 'tp.id', 'r.test_product_id')
+      .select(['tp.test_id', 'r.point_id', (e) => e.fn.countAll<string>().as('n')])
+      .where(sql<SqlBool>`tp.test_id = any(${idArray(testIds)})`)
+      .groupBy(['tp.test_id', 'r.point_id'])
+      .execute(),
   ]);
   for (const p of products) (sites.get(p.test_id) ?? sites.set(p.test_id, []).get(p.test_id)!).push(p.site);
   for (const c of counts) {

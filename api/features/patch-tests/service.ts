@@ -15,7 +15,7 @@ import { bumpInvitationSequence, type InvitationKind, insertBooking, sendSession
 import { findLotsForTest } from '../catalogue/index.ts';
 import { listConsentsForGate } from '../consents/index.ts';
 import { isEngagedOn } from '../performers/index.ts';
-import { findCurrentProtocolVersion, findProtocolVersions } from '../protocols/index.ts';
+import { findCurrentProtocolVersion } from '../protocols/index.ts';
 import { findTestRow, insertTest, insertTestedProducts, listTestRows, lockTest, updateTest, type TestRow } from './repo.ts';
 import { testDetail } from './view.ts';
 
@@ -33,15 +33,11 @@ export function testSpan(protocol: Protocol, start: Date, removedAt: Date | null
 async function refuseOverlap(db: Db, performerId: string, protocol: Protocol, start: Date, sites: readonly string[], exceptId: string | null): Promise<void> {
   const others = (await listTestRows(db, { performerId, statuses: ['booked', 'applied'] })).filter((t) => t.id !== exceptId);
   if (others.length === 0) return;
-  const protocols = await findProtocolVersions(
-    db,
-    others.map((o) => o.protocolVersionId),
-  );
   const span = testSpan(protocol, start, null);
   for (const o of others) {
     const shared = sharedSites(sites, o.sites);
     if (shared.length === 0) continue;
-    const theirs = testSpan(protocols.get(o.protocolVersionId)!.protocol, o.appliedAt ?? o.startsAt, o.removedAt);
+    const theirs = testSpan(o.protocol, o.appliedAt ?? o.startsAt, o.removedAt);
     if (spansOverlap(span, theirs)) {
       throw invalid({ products: [`${shared.join(', ')} ${shared.length === 1 ? 'is' : 'are'} already in use by another test of this performer at that time. Choose other sites or another time.`] });
     }
@@ -139,8 +135,7 @@ export function rescheduleTest(ctx: AppContext, actor: Actor, id: string, v: { s
     if (locked.status !== 'booked') throw conflict('Only a test not yet applied can be moved.');
     const startsAt = new Date(v.startsAt);
     if (startsAt.getTime() < Date.now() - 60_000) throw invalid({ startsAt: ['Choose a time that has not passed'] });
-    const pv = (await findProtocolVersions(trx, [row.protocolVersionId])).get(row.protocolVersionId)!;
-    await refuseOverlap(trx, row.performerId, pv.protocol, startsAt, row.sites, id);
+    await refuseOverlap(trx, row.performerId, row.protocol, startsAt, row.sites, id);
     await setBookingTime(trx, id, startsAt, v.location);
     await bumpInvitationSequence(trx, id);
     await updateTest(trx, id, {});

@@ -2,43 +2,35 @@ import { sessionsMissingConsent } from '#shared/domain/bookings.ts';
 import { readingSchedule } from '#shared/domain/reading-schedule.ts';
 import { productOutcome } from '#shared/domain/test-outcome.ts';
 import type { PatchTestDetail, PatchTestSummary } from '#shared/schemas/patch-test-log.ts';
-import type { ProtocolVersion } from '#shared/schemas/protocols.ts';
 import type { Db } from '../../db/index.ts';
 import { listConsentsForGate } from '../consents/index.ts';
-import { findProtocolVersions } from '../protocols/index.ts';
 import { listReadPoints, listTestProducts, listTestReadings, listTestRows, type TestFilter, type TestRow } from './repo.ts';
 
-/** Tests as lists show them, each with whether it waits for a consent: one query for the tests, one for consents, one for protocols. */
+/** Tests as lists show them, each with whether it waits for a consent: one query for the tests (with their protocols), one for consents. */
 export async function listTestSummaries(db: Db, where: TestFilter): Promise<PatchTestSummary[]> {
-  // A summary shows how many products, not which points were read.
-  const rows = await listTestRows(db, { ...where, withoutTaken: true });
+  // A summary shows how many products, not where they went or which points were read.
+  const rows = await listTestRows(db, { ...where, countsOnly: true });
   return summariesOf(db, rows);
 }
 
 async function summariesOf(db: Db, rows: readonly TestRow[]): Promise<PatchTestSummary[]> {
   if (rows.length === 0) return [];
-  const [consents, protocols] = await Promise.all([
-    listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]),
-    findProtocolVersions(
-      db,
-      rows.map((r) => r.protocolVersionId),
-    ),
-  ]);
+  const consents = await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
   const missing = sessionsMissingConsent(
     rows.map((r) => ({ id: r.id, performerId: r.performerId, productionId: r.productionId, purpose: 'patch_test' as const, startsAt: r.startsAt, status: r.status })),
     consents,
   );
-  return rows.map((r) => summaryOf(r, protocols.get(r.protocolVersionId)!, missing.has(r.id)));
+  return rows.map((r) => summaryOf(r, missing.has(r.id)));
 }
 
-function summaryOf(r: TestRow, pv: ProtocolVersion, consentMissing: boolean): PatchTestSummary {
+function summaryOf(r: TestRow, consentMissing: boolean): PatchTestSummary {
   return {
     id: r.id,
     performerId: r.performerId,
     performerName: r.performerName,
     productionId: r.productionId,
-    protocolName: pv.protocol.name,
-    testKind: pv.protocol.kind,
+    protocolName: r.protocol.name,
+    testKind: r.protocol.kind,
     status: r.status,
     startsAt: r.startsAt.toISOString(),
     location: r.location,
@@ -56,16 +48,14 @@ function summaryOf(r: TestRow, pv: ProtocolVersion, consentMissing: boolean): Pa
  * only when `medical` is true; otherwise each site says only which readings were taken.
  */
 export async function testDetail(db: Db, row: TestRow, opts: { medical: boolean; now: Date; timeZone: string }): Promise<PatchTestDetail> {
-  const [[summary], products, protocols, readings] = await Promise.all([
+  const [[summary], products, readings] = await Promise.all([
     summariesOf(db, [row]),
     listTestProducts(db, row.id),
-    findProtocolVersions(db, [row.protocolVersionId]),
     // The medical flag decides whether the sealed readings are opened at all.
     opts.medical ? listTestReadings(db, row.id) : Promise.resolve(null),
   ]);
-  const pv = protocols.get(row.protocolVersionId)!;
   const start = row.appliedAt ?? row.startsAt;
-  const schedule = readingSchedule(pv.protocol, { appliedAt: start, removedAt: row.removedAt, now: opts.now, timeZone: opts.timeZone }).map((s) => ({
+  const schedule = readingSchedule(row.protocol, { appliedAt: start, removedAt: row.removedAt, now: opts.now, timeZone: opts.timeZone }).map((s) => ({
     ...s,
     dueAt: s.dueAt.toISOString(),
     opensAt: s.opensAt.toISOString(),
