@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { LRUCache } from 'lru-cache';
 import type { FormulationFacts } from '#shared/domain/clearance.ts';
-import type { Ingredient } from '#shared/domain/ingredients.ts';
+import { buildVocabulary, normaliseInciName, type Ingredient, type IngredientVocabulary } from '#shared/domain/ingredients.ts';
 import { requiredPointIds } from '#shared/domain/protocols.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationsListing, listVocabularyWithIds, loadFormulationsWithIngredients } from '../catalogue/index.ts';
@@ -42,11 +42,22 @@ interface Kept {
   catalogue: {
     stamp: string | null;
     formulations: LRUCache<string, FormulationFacts>;
-    vocabulary: (Ingredient & { id: string })[] | null;
+    vocabulary: KeptVocabulary | null;
     protocols: Map<string, readonly string[]>;
     listings: LRUCache<string, readonly Listing[]>;
   };
 }
+
+/** The ingredient vocabulary with ids, each row's INCI name normalised, and the index by every name. */
+export interface KeptVocabulary {
+  rows: readonly (Ingredient & { id: string })[];
+  /** `normaliseInciName(rows[i].inci)`. */
+  keys: readonly string[];
+  index: IngredientVocabulary;
+}
+
+/** What a loader uses when it needs no vocabulary (no declared allergy, nothing reacted). */
+export const NO_VOCABULARY: KeptVocabulary = Object.freeze({ rows: [], keys: [], index: buildVocabulary([]) });
 
 type Listing = Awaited<ReturnType<typeof currentFormulationsListing>>[number];
 type ListingQuery = Parameters<typeof currentFormulationsListing>[1];
@@ -123,13 +134,14 @@ export async function formulationFactsOf(db: Db, formulationIds: readonly string
   });
 }
 
-/** The ingredient vocabulary with ids, kept under the catalogue's stamp. */
-export async function vocabularyOf(db: Db, stamps: ClearanceStamps): Promise<(Ingredient & { id: string })[]> {
+/** The ingredient vocabulary with ids, normalised names and its index, kept under the catalogue's stamp. */
+export async function vocabularyOf(db: Db, stamps: ClearanceStamps): Promise<KeptVocabulary> {
   const c = catalogueFor(db, stamps.catalogue);
   if (c.vocabulary) return c.vocabulary;
   const rows = await listVocabularyWithIds(db);
-  if (stamps.catalogue !== null) c.vocabulary = deepFreeze(rows);
-  return rows;
+  const kept: KeptVocabulary = { rows: deepFreeze(rows), keys: Object.freeze(rows.map((r) => normaliseInciName(r.inci))), index: buildVocabulary(rows) };
+  if (stamps.catalogue !== null) c.vocabulary = kept;
+  return kept;
 }
 
 /** The reading points each protocol version requires (by version id), kept under the catalogue's stamp. */

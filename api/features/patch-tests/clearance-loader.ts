@@ -1,10 +1,10 @@
 import { performerClearance, type ClearanceResult, type FormulationFacts, type TestedProduct } from '#shared/domain/clearance.ts';
 import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.ts';
-import { buildVocabulary, type Ingredient } from '#shared/domain/ingredients.ts';
+import type { DeclaredAllergy } from '#shared/domain/ingredients.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationIds } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { formulationFactsOf, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
+import { formulationFactsOf, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
 import { listOverrides, type OverrideRow, type TestedProductRow } from './clearance-repo.ts';
 
 export interface PerformerClearancesQuery {
@@ -40,7 +40,7 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
   ]);
   const tested = await testedProductsOf(db, q.performerId, stamps);
   const [vocabulary, requiredPoints, facts] = await Promise.all([
-    answers.length > 0 ? vocabularyOf(db, stamps) : Promise.resolve([]),
+    answers.length > 0 ? vocabularyOf(db, stamps) : Promise.resolve(NO_VOCABULARY),
     requiredPointsOf(
       db,
       tested.map((t) => t.protocolVersionId),
@@ -48,7 +48,8 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
     ),
     formulationFactsOf(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)], stamps),
   ]);
-  return decide({ tested, overrides, answers, vocabulary, requiredPoints, current, facts, extraFormulationIds: q.formulationIds, now: q.now });
+  const declaredAllergies = answers.length > 0 ? declaredAllergiesFromAnswers(answers, vocabulary.index) : [];
+  return decide({ tested, overrides, declaredAllergies, requiredPoints, current, facts, extraFormulationIds: q.formulationIds, now: q.now });
 }
 
 /** A performer's clearance for each product asked for (all products when none are named), from a fixed number of queries. */
@@ -59,8 +60,8 @@ export async function performerClearances(db: Db, q: PerformerClearancesQuery): 
 interface Gathered {
   tested: readonly TestedProductRow[];
   overrides: OverrideRow[];
-  answers: string[];
-  vocabulary: readonly Ingredient[];
+  /** What the performer's own forms declare, resolved against the vocabulary. */
+  declaredAllergies: readonly DeclaredAllergy[];
   /** The reading points each protocol version asks for, by version id. */
   requiredPoints: ReadonlyMap<string, readonly string[]>;
   current: { productId: string; formulationId: string }[];
@@ -71,7 +72,7 @@ interface Gathered {
 }
 
 /** The clearance rule over what was read, in the order of `current`. */
-export function decide({ tested, overrides, answers, vocabulary, requiredPoints, current, facts, extraFormulationIds = [], now }: Gathered): ClearanceFacts {
+export function decide({ tested, overrides, declaredAllergies, requiredPoints, current, facts, extraFormulationIds = [], now }: Gathered): ClearanceFacts {
   const formulations = new Map(facts.map((f) => [f.formulationId, f]));
   const tests: TestedProduct[] = tested.map((t) => {
     return {
@@ -90,7 +91,7 @@ export function decide({ tested, overrides, answers, vocabulary, requiredPoints,
     formulations: [...new Set([...current.map((c) => c.formulationId), ...extraFormulationIds])].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     testedFormulations: [...testedIds].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     tests,
-    declaredAllergies: answers.length > 0 ? declaredAllergiesFromAnswers(answers, buildVocabulary(vocabulary)) : [],
+    declaredAllergies,
     overrides: overrides.map((o) => ({ formulationId: o.formulationId, state: o.state, by: o.by, at: o.at, expiresAt: o.expiresAt, note: '' })),
     now,
   });

@@ -1,10 +1,10 @@
 import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.ts';
 import { isPositive } from '#shared/domain/icdrg.ts';
-import { buildVocabulary, normaliseInciName } from '#shared/domain/ingredients.ts';
+import { normaliseInciName } from '#shared/domain/ingredients.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationIds, productsWithCurrentFormulation } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { formulationFactsOf, listingOf, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
+import { formulationFactsOf, listingOf, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
 import { decide, type ClearanceFacts } from './clearance-loader.ts';
 import { listOverrides } from './clearance-repo.ts';
 
@@ -38,16 +38,16 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
       stamps,
     ),
     formulationFactsOf(db, testedIds, stamps),
-    answers.length > 0 || reactedIds.size > 0 ? vocabularyOf(db, stamps) : Promise.resolve([]),
+    answers.length > 0 || reactedIds.size > 0 ? vocabularyOf(db, stamps) : Promise.resolve(NO_VOCABULARY),
   ]);
 
   // What to look for in the catalogue: the non-trivial ingredients of what reacted, and the declared allergies.
   const reactedKeys = new Set(testedFacts.filter((f) => reactedIds.has(f.formulationId)).flatMap((f) => (f.ingredients ?? []).filter((r) => !r.trivial).map((r) => r.key)));
-  const allergies = answers.length > 0 ? declaredAllergiesFromAnswers(answers, buildVocabulary(vocabulary)) : [];
+  const allergies = answers.length > 0 ? declaredAllergiesFromAnswers(answers, vocabulary.index) : [];
   const allergyKeys = new Set(allergies.flatMap((a) => (a.kind === 'ingredient' ? [a.key] : [])));
   const allergyGroups = new Set(allergies.flatMap((a) => (a.kind === 'group' ? [a.group] : [])));
-  const sharedIngredientIds = new Set(vocabulary.filter((v) => !v.trivial && reactedKeys.has(normaliseInciName(v.inci))).map((v) => v.id));
-  const allergyIngredientIds = new Set(vocabulary.filter((v) => allergyKeys.has(normaliseInciName(v.inci)) || allergyGroups.has(v.group)).map((v) => v.id));
+  const sharedIngredientIds = new Set(vocabulary.rows.filter((v, i) => !v.trivial && reactedKeys.has(vocabulary.keys[i]!)).map((v) => v.id));
+  const allergyIngredientIds = new Set(vocabulary.rows.filter((v, i) => allergyKeys.has(vocabulary.keys[i]!) || allergyGroups.has(v.group)).map((v) => v.id));
   const [listing, overridden] = await Promise.all([
     listingOf(db, { allergyIds: [...allergyIngredientIds], sharedIds: [...sharedIngredientIds], unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }, stamps),
     productsWithCurrentFormulation(
@@ -73,7 +73,7 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
     current.map((c) => c.formulationId).filter((id) => !known.has(id)),
     stamps,
   );
-  const facts = decide({ tested, overrides, answers, vocabulary, requiredPoints, current, facts: [...testedFacts, ...more], now: q.now });
+  const facts = decide({ tested, overrides, declaredAllergies: allergies, requiredPoints, current, facts: [...testedFacts, ...more], now: q.now });
   const paged = new Set(page.map((c) => c.productId));
   return { ...facts, results: facts.results.filter((r) => !paged.has(r.productId)), shared: { total: sharedOnly.length, results: facts.results.filter((r) => paged.has(r.productId)) } };
 }
