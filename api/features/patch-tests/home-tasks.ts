@@ -18,7 +18,7 @@ interface HomeTask {
 /** A test under reading with the protocol it was booked on, as the reading lists and the reminder job read it. */
 export type TestUnderReadingRow = TestRow;
 
-/** Every test under reading (of one production, or all), each with its protocol, sites and points read: three queries. */
+/** Every test under reading (of one production, or all), each with its protocol, sites and points read: one query. */
 export async function testsUnderReading(db: Db, productionId?: string): Promise<TestUnderReadingRow[]> {
   return listTestRows(db, { productionId, statuses: ['applied'] });
 }

@@ -1,9 +1,10 @@
-import { sql, type SqlBool } from 'kysely';
+import { sql } from 'kysely';
 import type { IcdrgCode } from '#shared/domain/icdrg.ts';
 import type { Protocol } from '#shared/domain/protocols.ts';
 import type { TestStatus } from '#shared/domain/reading-schedule.ts';
 import { openJson, sealJson } from '../../crypto/medical.ts';
-import { idArray, type Db } from '../../db/index.ts';
+import type { Db } from '../../db/index.ts';
+import { protocolOfRow } from '../protocols/index.ts';
 
 /** A booked test whose session was cancelled (from the sessions list) is cancelled too. */
 const STATUS = sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`;
@@ -44,13 +45,13 @@ export interface TestFilter {
   statuses?: readonly TestStatus[];
   startsFrom?: Date;
   startsBefore?: Date;
-  /** Lists that show only how many products leave out the sites and which points were read at each (one query in all). */
+  /** Lists that show only how many products leave out the sites and which points were read at each. */
   countsOnly?: boolean;
 }
 
 /**
  * Tests in start order (at most 500), each with its protocol, product count, sites and the points read at
- * every site: three queries, or one for counts only.
+ * every site: one query.
  */
 export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]> {
   let q = db
@@ -65,9 +66,9 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
       't.production_id',
       't.protocol_version_id',
       'v.protocol_id',
-      'v.name as protocol_name',
-      'v.kind as protocol_kind',
-      'v.description as protocol_description',
+      'v.name',
+      'v.kind',
+      'v.description',
       'v.occlusion_minutes',
       'v.applications',
       'v.readings',
@@ -79,6 +80,16 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
       't.closed_at',
       't.version',
       sql<number>`(select count(*)::int from patch_test_products tp where tp.test_id = t.booking_id)`.as('product_count'),
+      // The sites in order, and the points read at every site, unless the list wants counts only.
+      (where.countsOnly ? sql<string[]>`'{}'::text[]` : sql<string[]>`array(select tp.site from patch_test_products tp where tp.test_id = t.booking_id order by tp.position)`).as('sites'),
+      (where.countsOnly
+        ? sql<string[]>`'{}'::text[]`
+        : sql<string[]>`array(
+            select r.point_id from patch_test_readings r join patch_test_products tp on tp.id = r.test_product_id
+            where tp.test_id = t.booking_id group by r.point_id
+            having count(*) >= (select count(*) from patch_test_products tp2 where tp2.test_id = t.booking_id)
+            order by r.point_id)`
+      ).as('taken'),
     ]);
   if (where.ids) {
     if (where.ids.length === 0) return [];
@@ -99,27 +110,13 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
   if (where.startsFrom) q = q.where('b.starts_at', '>=', where.startsFrom);
   if (where.startsBefore) q = q.where('b.starts_at', '<', where.startsBefore);
   const rows = await q.orderBy('b.starts_at').orderBy('t.booking_id').limit(500).execute();
-  const { sites, taken } = where.countsOnly
-    ? { sites: new Map<string, string[]>(), taken: new Map<string, string[]>() }
-    : await sitesAndTaken(
-        db,
-        rows.map((r) => r.booking_id),
-      );
   return rows.map((r) => ({
     id: r.booking_id,
     performerId: r.performer_id,
     performerName: r.performer_name,
     productionId: r.production_id,
     protocolVersionId: r.protocol_version_id,
-    protocol: {
-      id: r.protocol_id,
-      name: r.protocol_name,
-      kind: r.protocol_kind,
-      description: r.protocol_description,
-      occlusionMinutes: r.occlusion_minutes,
-      applications: r.applications as Protocol['applications'],
-      readings: r.readings as Protocol['readings'],
-    },
+    protocol: protocolOfRow(r),
     status: r.status,
     startsAt: new Date(r.starts_at),
     location: r.location,
@@ -127,38 +124,10 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
     removedAt: r.removed_at ? new Date(r.removed_at) : null,
     closedAt: r.closed_at ? new Date(r.closed_at) : null,
     productCount: r.product_count,
-    sites: sites.get(r.booking_id) ?? [],
-    takenPointIds: taken.get(r.booking_id) ?? [],
+    sites: r.sites,
+    takenPointIds: r.taken,
     version: r.version,
   }));
-}
-
-/** The sites of each test, and the points read at every one of its sites ("taken"): two flat queries for any number of tests. */
-async function sitesAndTaken(db: Db, testIds: readonly string[]): Promise<{ sites: Map<string, string[]>; taken: Map<string, string[]> }> {
-  const sites = new Map<string, string[]>();
-  const taken = new Map<string, string[]>();
-  if (testIds.length === 0) return { sites, taken };
-  const [products, counts] = await Promise.all([
-    db
-      .selectFrom('patch_test_products')
-      .select(['test_id', 'site'])
-      .where(sql<SqlBool>`test_id = any(${idArray(testIds)})`)
-      .orderBy('test_id')
-      .orderBy('position')
-      .execute(),
-    db
-      .selectFrom('patch_test_readings as r')
-      .innerJoin('patch_test_products as tp', 'tp.id', 'r.test_product_id')
-      .select(['tp.test_id', 'r.point_id', (e) => e.fn.countAll<string>().as('n')])
-      .where(sql<SqlBool>`tp.test_id = any(${idArray(testIds)})`)
-      .groupBy(['tp.test_id', 'r.point_id'])
-      .execute(),
-  ]);
-  for (const p of products) (sites.get(p.test_id) ?? sites.set(p.test_id, []).get(p.test_id)!).push(p.site);
-  for (const c of counts) {
-    if (Number(c.n) >= (sites.get(c.test_id)?.length ?? Infinity)) (taken.get(c.test_id) ?? taken.set(c.test_id, []).get(c.test_id)!).push(c.point_id);
-  }
-  return { sites, taken };
 }
 
 export async function findTestRow(db: Db, id: string): Promise<TestRow | undefined> {

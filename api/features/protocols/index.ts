@@ -1,3 +1,3 @@
 // What other features may use of the test protocols: the version a test is booked on, read back by its id.
-export { findCurrentProtocolVersion, findProtocolVersions } from './repo.ts';
+export { findCurrentProtocolVersion, findProtocolVersions, protocolOfRow } from './repo.ts';
 export { ensureDefaultProtocols } from './service.ts';

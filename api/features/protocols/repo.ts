@@ -17,19 +17,24 @@ function versionQuery(db: Db) {
 }
 type VersionSelected = Awaited<ReturnType<ReturnType<typeof versionQuery>['executeTakeFirstOrThrow']>>;
 
+/** The protocol a `protocol_versions` row holds, for a query of another feature that joins the row. */
+export function protocolOfRow(r: Pick<VersionSelected, 'protocol_id' | 'name' | 'kind' | 'description' | 'occlusion_minutes' | 'applications' | 'readings'>): Protocol {
+  return {
+    id: r.protocol_id,
+    name: r.name,
+    kind: r.kind,
+    description: r.description,
+    occlusionMinutes: r.occlusion_minutes,
+    applications: r.applications as Protocol['applications'],
+    readings: r.readings as Protocol['readings'],
+  };
+}
+
 function toVersion(r: VersionSelected): ProtocolVersion {
   return {
     versionId: r.id,
     version: r.version,
-    protocol: {
-      id: r.protocol_id,
-      name: r.name,
-      kind: r.kind,
-      description: r.description,
-      occlusionMinutes: r.occlusion_minutes,
-      applications: r.applications as Protocol['applications'],
-      readings: r.readings as Protocol['readings'],
-    },
+    protocol: protocolOfRow(r),
     createdAt: new Date(r.created_at).toISOString(),
     createdBy: r.display_name,
   };
