@@ -49,3 +49,17 @@ export function chooseSeat(seats: readonly Seat[], wanted: { productionId: strin
   }
   return null;
 }
+
+/**
+ * The seat chooseSeat picks, worked out from the actor alone when production names cannot change the
+ * answer: a held seat asked for, the best seat on a production asked for, or a best role held on one
+ * production only. Undefined when two productions tie and their names (the order seats are listed in)
+ * decide; null when the person has no seat. The seat carries no production name.
+ */
+export function chooseSeatByRoles(actor: Actor, wanted: { productionId: string | null; role?: string } | undefined): Seat | null | undefined {
+  const seats = seatsFor(actor, new Map());
+  const chosen = chooseSeat(seats, wanted);
+  if (!chosen) return null;
+  if (wanted && chosen.productionId === wanted.productionId) return chosen;
+  return seats.filter((s) => s.role === chosen.role).length === 1 ? chosen : undefined;
+}

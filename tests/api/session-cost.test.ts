@@ -126,6 +126,25 @@ describe('round trips of a signed-in read', () => {
     expect(viaHttp.filter(touchesSessions)).toHaveLength(1);
   });
 
+  it("the lead's home: its counts in one statement, and each list of sessions brings the consents its gate reads", async () => {
+    const cookie = await t.sessionFor('lead@plinth.test');
+    await request(t.app).get('/api/home').set('Cookie', cookie).expect(200);
+    const statements = await counter.during(() => request(t.app).get('/api/home').set('Cookie', cookie).expect(200));
+    // Expiring consents, open signing links, withdrawals not yet seen (with the last look) and performers engaged.
+    const counts = statements.filter((s) => /\bsigning_requests\b/.test(s));
+    expect(counts).toHaveLength(1);
+    expect(counts[0]).toMatch(/\bstaff_seen\b/);
+    expect(counts[0]).toMatch(/\bengagements\b/);
+    expect(statements.filter((s) => /\bstaff_seen\b/.test(s))).toHaveLength(1);
+    // No read of consents by performer ids after the sessions and tests are listed.
+    expect(statements.filter((s) => s.trim().startsWith('select "performer_id", "production_id", "kind"'))).toEqual([]);
+    // The session, the counts, the sessions, the tests under reading, the booked tests, and the appliance
+    // outlook (at most three); the seat comes from the kept roles, with no read of production names.
+    expect(statements.length).toBeLessThanOrEqual(8);
+    expect(statements.filter((s) => /\bproductions\b/.test(s) && /json_agg/.test(s))).toEqual([]);
+    expect(statements.filter(writes)).toEqual([]);
+  });
+
   it('the first request reads the actor in one statement and keeps it with the session', async () => {
     const cookie = await t.sessionFor('lead@plinth.test');
     const first = await counter.during(() => request(t.app).get('/api/session').set('Cookie', cookie).expect(200));

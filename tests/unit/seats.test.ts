@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { chooseSeat, seatsFor } from '#shared/domain/seats.ts';
+import { chooseSeat, chooseSeatByRoles, seatsFor } from '#shared/domain/seats.ts';
 import type { Actor } from '#shared/policy.ts';
 
 const A = 'aaaaaaaa-aaaa-4aaa-8aaa-aaaaaaaaaaaa';
@@ -45,5 +45,49 @@ describe('chooseSeat with only a production (the one last worked on)', () => {
   });
   it('falls back to the most responsible seat overall when the person no longer works on it', () => {
     expect(chooseSeat(seats, { productionId: 'cccccccc-cccc-4ccc-8ccc-cccccccccccc' })).toMatchObject({ role: 'artist' });
+  });
+});
+
+describe('chooseSeatByRoles (no production names read)', () => {
+  const C = 'cccccccc-cccc-4ccc-8ccc-cccccccccccc';
+  const actors = [
+    actor({ memberships: [{ productionId: B, role: 'artist' }, { productionId: A, role: 'head' }] }),
+    actor({ memberships: [{ productionId: A, role: 'archivist' }, { productionId: B, role: 'archivist' }, { productionId: B, role: 'artist' }] }),
+    actor({ memberships: [{ productionId: A, role: 'head' }, { productionId: B, role: 'head' }], leadOf: [C] }),
+    actor({ isAdmin: true, memberships: [{ productionId: A, role: 'head' }] }),
+    actor({ memberships: [{ productionId: A, role: 'head' }, { productionId: B, role: 'head' }] }),
+    actor({}),
+  ];
+  const wants = [undefined, { productionId: A }, { productionId: B, role: 'head' }, { productionId: B, role: 'artist' }, { productionId: C }, { productionId: null, role: 'admin' }];
+  // Both orders of the names: whatever the names say, a seat answered without them is the one chooseSeat picks.
+  const namings = [names, new Map([[A, 'Amber Tide'], [B, 'Zephyr Row'], [C, 'Mid Harbour']])];
+
+  it('answers a seat only where every naming of the productions picks that same seat', () => {
+    let answered = 0;
+    let undecided = 0;
+    for (const a of actors) {
+      for (const w of wants) {
+        const quick = chooseSeatByRoles(a, w);
+        const picks = namings.map((n) => chooseSeat(seatsFor(a, n), w));
+        if (quick === undefined) {
+          // Names only break a tie between productions: the role is the same under every naming.
+          expect(new Set(picks.map((p) => p?.role)).size).toBe(1);
+          undecided += 1;
+          continue;
+        }
+        answered += 1;
+        for (const p of picks) expect(quick ? { productionId: quick.productionId, role: quick.role } : null).toEqual(p ? { productionId: p.productionId, role: p.role } : null);
+      }
+    }
+    expect(answered).toBeGreaterThan(20);
+    expect(undecided).toBeGreaterThan(0);
+  });
+
+  it('leaves the choice to the names when the best role is held on two productions and none was asked for', () => {
+    const twoHeads = actor({ memberships: [{ productionId: A, role: 'head' }, { productionId: B, role: 'head' }] });
+    expect(chooseSeatByRoles(twoHeads, undefined)).toBeUndefined();
+    expect(chooseSeat(seatsFor(twoHeads, names), undefined)?.productionId).toBe(B);
+    expect(chooseSeatByRoles(twoHeads, { productionId: A, role: 'head' })).toMatchObject({ productionId: A, role: 'head' });
+    expect(chooseSeatByRoles(actor({}), undefined)).toBeNull();
   });
 });

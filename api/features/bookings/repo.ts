@@ -1,6 +1,7 @@
 import { type RawBuilder, sql } from 'kysely';
 import type { BookingPurpose } from '#shared/domain/bookings.ts';
 import type { Db } from '../../db/index.ts';
+import { type GateConsentJson, gateConsentsJsonSql } from '../consents/index.ts';
 
 export interface BookingRow {
   id: string;
@@ -15,6 +16,8 @@ export interface BookingRow {
   sequence: number;
   endsAt?: Date | null;
   artist?: { id: string; name: string } | null;
+  /** The consents that can cover it, for the session gate (read in the same statement). */
+  gateConsents: GateConsentJson[];
 }
 
 export interface BookingFilter {
@@ -47,6 +50,7 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
       'a.id as artist_id',
       'a.display_name as artist_name',
       'b.invitation_sequence',
+      gateConsentsJsonSql(sql.ref('b.performer_id'), sql.ref('b.production_id')).as('gate_consents'),
     ]);
   if (where.productionId) q = q.where('b.production_id', '=', where.productionId);
   if (where.productionIds) {
@@ -74,6 +78,7 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
     sequence: r.invitation_sequence,
     endsAt: r.ends_at ? new Date(r.ends_at) : null,
     artist: r.artist_id && r.artist_name ? { id: r.artist_id, name: r.artist_name } : null,
+    gateConsents: r.gate_consents,
   }));
 }
 

@@ -1,5 +1,6 @@
 import type { Request } from 'express';
 import { BODY_REGION_LABELS } from '#shared/domain/archive-casts.ts';
+import { piecesRemaining, piecesShortfall } from '#shared/domain/pieces.ts';
 import { can, type Actor } from '#shared/policy.ts';
 import type { ApplianceOutlook, BuildDetail, MarkPieceValues, SetPlanValues } from '#shared/schemas/builds.ts';
 import type { Home } from '#shared/schemas/session.ts';
@@ -10,7 +11,7 @@ import { authorize } from '../../http/authorize.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
 import { findCastsByIds } from '../archive/index.ts';
 import { findBuild, lockBuild } from './repo.ts';
-import { findPiece, insertPlan, listPlans, lockPlan, setPieceStatusAtVersion, tallyByMold, updatePlanAtVersion } from './repo-pieces.ts';
+import { findPiece, insertPlan, listPlans, listPlansWithTally, lockPlan, setPieceStatusAtVersion, tallyByMold, updatePlanAtVersion } from './repo-pieces.ts';
 import { checkMold } from './rules.ts';
 import { buildDetail } from './service.ts';
 import { outlookView } from './view.ts';
@@ -58,9 +59,12 @@ export async function markPiece(ctx: AppContext, actor: Actor, pieceId: string, 
 export async function outlooksOf(db: Db, productionId: string): Promise<ApplianceOutlook[]> {
   const [counts, plans] = await Promise.all([tallyByMold(db, productionId), listPlans(db, productionId)]);
   const molds = await findCastsByIds(db, [...new Set([...counts.keys(), ...plans.keys()])]);
-  return molds
-    .map((m) => outlookView(productionId, m, counts.get(m.id), plans.get(m.id)))
-    .toSorted((a, b) => a.performer.name.localeCompare(b.performer.name) || a.mold.labelCode.localeCompare(b.mold.labelCode));
+  return sortOutlooks(molds.map((m) => outlookView(productionId, m, counts.get(m.id), plans.get(m.id))));
+}
+
+/** By performer, then by the mold's label code. */
+function sortOutlooks(outlooks: ApplianceOutlook[]): ApplianceOutlook[] {
+  return outlooks.toSorted((a, b) => a.performer.name.localeCompare(b.performer.name) || a.mold.labelCode.localeCompare(b.mold.labelCode));
 }
 
 export async function listOutlooks(ctx: AppContext, actor: Actor, productionId: string) {
@@ -99,7 +103,11 @@ export async function setPlan(ctx: AppContext, actor: Actor, input: SetPlanValue
 
 /** The head's warning: appliances whose pieces left will not cover the shoot days planned plus spares. */
 export async function piecesShortTask(db: Db, productionId: string): Promise<Task> {
-  const short = (await outlooksOf(db, productionId)).filter((o) => o.shortfall?.short);
+  // Only a planned appliance can fall short: its plan and tally in one statement, its mold read only when short.
+  const planned = await listPlansWithTally(db, productionId);
+  const shortIds = [...planned].filter(([, { plan, tally }]) => piecesShortfall(piecesRemaining(tally), plan.shootDaysPlanned, plan.spares, plan.piecesPerDay).short).map(([id]) => id);
+  const molds = shortIds.length ? await findCastsByIds(db, shortIds) : [];
+  const short = sortOutlooks(molds.map((m) => outlookView(productionId, m, planned.get(m.id)!.tally, planned.get(m.id)!.plan)));
   const line = (o: ApplianceOutlook) =>
     `${o.performer.name}’s ${BODY_REGION_LABELS[o.mold.region].toLowerCase()} (${o.mold.labelCode}): ${o.tally.remaining} left for ${o.shortfall!.needed} needed, short by ${o.shortfall!.shortBy}`;
   return {

@@ -88,9 +88,9 @@ export async function setPieceStatusAtVersion(
 }
 
 /** Pieces made, used and spoiled per mold on a production, across all its builds, and how many builds. */
-export async function tallyByMold(db: Db, productionId: string, moldIds?: readonly string[]): Promise<Map<string, { builds: number; made: number; used: number; spoiled: number }>> {
-  if (moldIds && moldIds.length === 0) return new Map();
-  let q = db
+/** Builds and pieces per mold of a production: made, used and spoiled across its builds. */
+function tallyQuery(db: Db, productionId: string) {
+  return db
     .selectFrom('appliance_builds as b')
     .leftJoin('appliance_pieces as ap', 'ap.build_id', 'b.id')
     .select([
@@ -102,6 +102,18 @@ export async function tallyByMold(db: Db, productionId: string, moldIds?: readon
     ])
     .where('b.production_id', '=', productionId)
     .groupBy('b.mold_id');
+}
+
+export interface MoldTally {
+  builds: number;
+  made: number;
+  used: number;
+  spoiled: number;
+}
+
+export async function tallyByMold(db: Db, productionId: string, moldIds?: readonly string[]): Promise<Map<string, MoldTally>> {
+  if (moldIds && moldIds.length === 0) return new Map();
+  let q = tallyQuery(db, productionId);
   if (moldIds) q = q.where('b.mold_id', 'in', [...moldIds]);
   const rows = await q.execute();
   return new Map(rows.map((r) => [r.mold_id, { builds: r.builds, made: r.made, used: r.used, spoiled: r.spoiled }]));
@@ -149,6 +161,21 @@ export async function listPlans(db: Db, productionId: string, moldIds?: readonly
   let q = planQuery(db).where('pl.production_id', '=', productionId);
   if (moldIds) q = q.where('pl.mold_id', 'in', [...moldIds]);
   return new Map((await q.execute()).map((r) => [r.mold_id, toPlan(r)]));
+}
+
+/** The planned appliances of a production, each with its tally (zeros before any build): one statement. */
+export async function listPlansWithTally(db: Db, productionId: string): Promise<Map<string, { plan: PlanRow; tally: MoldTally }>> {
+  const rows = await planQuery(db)
+    .leftJoin(tallyQuery(db, productionId).as('t'), 't.mold_id', 'pl.mold_id')
+    .select([
+      sql<number>`coalesce(t.builds, 0)`.as('t_builds'),
+      sql<number>`coalesce(t.made, 0)`.as('t_made'),
+      sql<number>`coalesce(t.used, 0)`.as('t_used'),
+      sql<number>`coalesce(t.spoiled, 0)`.as('t_spoiled'),
+    ])
+    .where('pl.production_id', '=', productionId)
+    .execute();
+  return new Map(rows.map((r) => [r.mold_id, { plan: toPlan(r), tally: { builds: r.t_builds, made: r.t_made, used: r.t_used, spoiled: r.t_spoiled } }]));
 }
 
 /** Locks one appliance's plan for a change to it. */

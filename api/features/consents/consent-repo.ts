@@ -180,17 +180,18 @@ export async function listConsentsForGate(db: Db, performerIds: readonly string[
   }));
 }
 
-/** Active consents of a production's performers (given to it or to none) whose expiry falls in the window. */
-export async function countExpiringForProduction(db: Db, productionId: string, now: Date, until: Date): Promise<number> {
-  const row = await db
+/**
+ * Active consents of a production's performers (given to it or to none) whose expiry falls in the
+ * window, counted as a one-column query (`n`) for a counts statement to select.
+ */
+export function expiringForProductionCount(db: Db, productionId: string, now: Date, until: Date) {
+  return db
     .selectFrom('consents as c')
     .innerJoin('engagements as e', (j) => j.onRef('e.performer_id', '=', 'c.performer_id').on('e.production_id', '=', productionId))
     .select((eb) => eb.fn.count<string>('c.id').distinct().as('n'))
     .where((eb) => eb.or([eb('c.production_id', '=', productionId), eb('c.production_id', 'is', null)]))
     .where(consentCoversSql('c', now))
-    .where('c.expires_at', '<=', until)
-    .executeTakeFirstOrThrow();
-  return Number(row.n);
+    .where('c.expires_at', '<=', until);
 }
 
 /** How many of a performer's consents are in force now. */
@@ -333,6 +334,52 @@ export interface ConsentJsonRow {
   signer_name: string;
   signing_method: 'tablet' | 'link';
   version: number;
+}
+
+/** A consent as the session gate reads it, in a listed row's JSON column. */
+export interface GateConsentJson {
+  id: string;
+  performer_id: string;
+  production_id: string | null;
+  kind: ConsentKind;
+  signed_at: string;
+  expires_at: string | null;
+  withdrawn_at: string | null;
+}
+
+/**
+ * The consents that can cover a session of performer `performerId` on production `productionId` (both
+ * column references): those given to that production or naming none. A JSON column of the statement that
+ * lists the sessions, so the gate needs no read of its own.
+ */
+export function gateConsentsJsonSql(performerId: RawBuilder<string>, productionId: RawBuilder<string>): RawBuilder<GateConsentJson[]> {
+  return sql<GateConsentJson[]>`coalesce((
+    select json_agg(json_build_object(
+      'id', c.id, 'performer_id', c.performer_id, 'production_id', c.production_id, 'kind', c.kind,
+      'signed_at', c.signed_at, 'expires_at', c.expires_at, 'withdrawn_at', c.withdrawn_at
+    ))
+    from consents c
+    where c.performer_id = ${performerId} and (c.production_id = ${productionId} or c.production_id is null)
+  ), '[]'::json)`;
+}
+
+/** The gate's consents from listed rows' JSON columns, each consent once. */
+export function gateConsentsFromJson(lists: readonly (readonly GateConsentJson[])[]): ConsentForGate[] {
+  const byId = new Map<string, ConsentForGate>();
+  for (const list of lists) {
+    for (const c of list) {
+      if (byId.has(c.id)) continue;
+      byId.set(c.id, {
+        performerId: c.performer_id,
+        productionId: c.production_id,
+        kind: c.kind,
+        signedAt: new Date(c.signed_at),
+        expiresAt: c.expires_at ? new Date(c.expires_at) : null,
+        withdrawnAt: c.withdrawn_at ? new Date(c.withdrawn_at) : null,
+      });
+    }
+  }
+  return [...byId.values()];
 }
 
 /** The consents of the performer whose id is `performerId` (a column reference), newest first, as a JSON array. */

@@ -1,9 +1,10 @@
 // What other features may use of consents; everything else here is the feature's own.
-export { consentFromJson, consentsJsonSql, consentCoversSql, consentStateSql, countActiveConsents, countExpiringForProduction, listConsentSummaries, listConsentsForGate, storageConsentTimes } from './consent-repo.ts';
-export { countOpenLinkRequests, listOpenRequestsForPerformer } from './request-repo.ts';
+export { consentFromJson, consentsJsonSql, gateConsentsFromJson, gateConsentsJsonSql, type GateConsentJson, consentCoversSql, consentStateSql, countActiveConsents, expiringForProductionCount, listConsentSummaries, listConsentsForGate, storageConsentTimes } from './consent-repo.ts';
+export { listOpenRequestsForPerformer, openLinkRequestsCount } from './request-repo.ts';
 export { writeSignedConsent } from './signing-service.ts';
 export { findCurrentTemplateVersion } from './template-repo.ts';
 export { findConsentDetailRow, listConsentAnswers } from './consent-repo.ts';
 // The clearance loader reads declared allergies from the performer's own answers.
 export { listDeclaredAllergyAnswers } from './allergy-repo.ts';
-export { countNewWithdrawals } from './notice-service.ts';
+// The home's counts, each a one-column query its counts statement selects.
+export { newWithdrawalsCount } from './notice-service.ts';

@@ -15,7 +15,7 @@ import { listBookings } from '../bookings/index.ts';
 import { findPerformerScope } from '../performers/index.ts';
 import { findCurrentLeads, findDepartment, findHeads, findProductionName, mailFooter } from '../productions/index.ts';
 import { findConsentSummary } from './consent-repo.ts';
-import { findSeenAt, listWithdrawalsForProduction, markSeen } from './notice-repo.ts';
+import { findSeenAt, listWithdrawalsForProduction, markSeen, unseenWithdrawalsCount } from './notice-repo.ts';
 
 const DAY = 86_400_000;
 /** With nothing marked seen yet, the card looks this far back. */
@@ -107,7 +107,7 @@ export async function markWithdrawalsSeen(ctx: AppContext, actor: Actor, product
   return { ok: true };
 }
 
-export async function countNewWithdrawals(ctx: AppContext, userId: string, productionId: string): Promise<number> {
-  const since = (await findSeenAt(ctx.db, userId, productionId, 'withdrawals')) ?? new Date(Date.now() - FIRST_LOOK_DAYS * DAY);
-  return (await listWithdrawalsForProduction(ctx.db, productionId, since, { withReasons: false })).length;
+/** The home's count of withdrawals the user has not seen, as a one-column query for its counts statement. */
+export function newWithdrawalsCount(ctx: AppContext, userId: string, productionId: string, now: Date) {
+  return unseenWithdrawalsCount(ctx.db, userId, productionId, new Date(now.getTime() - FIRST_LOOK_DAYS * DAY));
 }

@@ -154,16 +154,15 @@ export async function markRequestSigned(db: Db, id: string, at: Date): Promise<v
   await db.updateTable('signing_requests').set({ status: 'signed', signed_at: at }).where('id', '=', id).execute();
 }
 
-export async function countOpenLinkRequests(db: Db, productionId: string, now: Date): Promise<number> {
-  const row = await db
+/** Link requests of the production still open, as a one-column query (`n`) for a counts statement. */
+export function openLinkRequestsCount(db: Db, productionId: string, now: Date) {
+  return db
     .selectFrom('signing_requests')
     .select((eb) => eb.fn.countAll<string>().as('n'))
     .where('production_id', '=', productionId)
     .where('status', '=', 'open')
     .where('mode', '=', 'link')
-    .where('expires_at', '>', now)
-    .executeTakeFirstOrThrow();
-  return Number(row.n);
+    .where('expires_at', '>', now);
 }
 
 // ---- withdrawal links

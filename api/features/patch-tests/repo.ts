@@ -5,6 +5,7 @@ import type { TestStatus } from '#shared/domain/reading-schedule.ts';
 import { openJson, sealJson } from '../../crypto/medical.ts';
 import type { Db } from '../../db/index.ts';
 import { protocolOfRow } from '../protocols/index.ts';
+import { type GateConsentJson, gateConsentsJsonSql } from '../consents/index.ts';
 
 /** A booked test whose session was cancelled (from the sessions list) is cancelled too. */
 const STATUS = sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`;
@@ -34,6 +35,8 @@ export interface TestRow {
   sites: string[];
   /** Empty when the list asked for counts only. */
   takenPointIds: string[];
+  /** The consents that can cover it, for the session gate; null unless the list asked for counts only. */
+  gateConsents: GateConsentJson[] | null;
   version: number;
 }
 
@@ -51,7 +54,7 @@ export interface TestFilter {
 
 /**
  * Tests in start order (at most 500), each with its protocol, product count, sites and the points read at
- * every site: one query.
+ * every site (or, for counts only, the consents the gate reads): one query.
  */
 export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]> {
   let q = db
@@ -90,6 +93,8 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
             having count(*) >= (select count(*) from patch_test_products tp2 where tp2.test_id = t.booking_id)
             order by r.point_id)`
       ).as('taken'),
+      // Lists (counts only) say whether each test waits for a consent: its consents come along.
+      (where.countsOnly ? gateConsentsJsonSql(sql.ref('t.performer_id'), sql.ref('t.production_id')) : sql<GateConsentJson[] | null>`null`).as('gate_consents'),
     ]);
   if (where.ids) {
     if (where.ids.length === 0) return [];
@@ -126,6 +131,7 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
     productCount: r.product_count,
     sites: r.sites,
     takenPointIds: r.taken,
+    gateConsents: r.gate_consents,
     version: r.version,
   }));
 }

@@ -3,10 +3,10 @@ import { readingSchedule } from '#shared/domain/reading-schedule.ts';
 import { productOutcome } from '#shared/domain/test-outcome.ts';
 import type { PatchTestDetail, PatchTestSummary } from '#shared/schemas/patch-test-log.ts';
 import type { Db } from '../../db/index.ts';
-import { listConsentsForGate } from '../consents/index.ts';
+import { gateConsentsFromJson, listConsentsForGate } from '../consents/index.ts';
 import { listReadPoints, listTestProducts, listTestReadings, listTestRows, type TestFilter, type TestRow } from './repo.ts';
 
-/** Tests as lists show them, each with whether it waits for a consent: one query for the tests (with their protocols), one for consents. */
+/** Tests as lists show them, each with whether it waits for a consent: one query, tests with their protocols and consents. */
 export async function listTestSummaries(db: Db, where: TestFilter): Promise<PatchTestSummary[]> {
   // A summary shows how many products, not where they went or which points were read.
   const rows = await listTestRows(db, { ...where, countsOnly: true });
@@ -15,7 +15,9 @@ export async function listTestSummaries(db: Db, where: TestFilter): Promise<Patc
 
 async function summariesOf(db: Db, rows: readonly TestRow[]): Promise<PatchTestSummary[]> {
   if (rows.length === 0) return [];
-  const consents = await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
+  // Counts-only lists brought the gate's consents along; a single test read whole asks for them.
+  const brought = rows.every((r) => r.gateConsents !== null);
+  const consents = brought ? gateConsentsFromJson(rows.map((r) => r.gateConsents!)) : await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
   const missing = sessionsMissingConsent(
     rows.map((r) => ({ id: r.id, performerId: r.performerId, productionId: r.productionId, purpose: 'patch_test' as const, startsAt: r.startsAt, status: r.status })),
     consents,

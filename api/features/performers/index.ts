@@ -2,7 +2,7 @@
 export { performerAccess, productionsWhere } from './access.ts';
 export { findConfirmedEmail, lockPerformerByConfirmedEmail } from './identity-repo.ts';
 export { linkConfirmedPerformerAtSignIn } from './identity-service.ts';
-export { countEngagedNow, findPerformerScope, isEngagedOn, type PerformerScope } from './repo.ts';
+export { engagedNowCount, findPerformerScope, isEngagedOn, type PerformerScope } from './repo.ts';
 export { engagedProductionIds, findPerformer } from './repo.ts';
 export { performersEngagedOn, performersMatchingName, withNameSearch } from './repo-search.ts';
 export { listEngagementsOf } from './repo.ts';

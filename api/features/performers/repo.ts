@@ -320,16 +320,16 @@ export async function deleteFileRows(db: Db, ids: readonly string[]): Promise<{ 
   return rows.map((r) => ({ storagePath: r.storage_path }));
 }
 
-
-/** Performers whose engagement on the production has not ended. */
-export async function countEngagedNow(db: Db, productionId: string): Promise<number> {
-  const row = await db
+/**
+ * Performers whose engagement on the production has not ended by `today` (YYYY-MM-DD, the studio's day),
+ * as a one-column query (`n`) for a counts statement.
+ */
+export function engagedNowCount(db: Db, productionId: string, today: string) {
+  return db
     .selectFrom('engagements')
     .select((eb) => eb.fn.countAll<string>().as('n'))
     .where('production_id', '=', productionId)
-    .where((eb) => eb.or([eb('ends_on', 'is', null), eb('ends_on', '>=', sql<string>`current_date`)]))
-    .executeTakeFirstOrThrow();
-  return Number(row.n);
+    .where((eb) => eb.or([eb('ends_on', 'is', null), eb('ends_on', '>=', today)]));
 }
 
 /** Linked sign-ins of these performers (those without one are left out). */

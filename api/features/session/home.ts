@@ -2,29 +2,41 @@ import type { Seat } from '#shared/domain/seats.ts';
 import type { Actor } from '#shared/policy.ts';
 import type { Home } from '#shared/schemas/session.ts';
 import type { AppContext } from '../../context.ts';
+import { dayIn } from '../../jobs/define.ts';
 import { archivistTasks } from '../archive/index.ts';
 import { listBookings } from '../bookings/index.ts';
 import { piecesShortTask } from '../builds/index.ts';
 import { BOOKING_PURPOSE_LABELS } from '#shared/domain/bookings.ts';
-import { countActiveConsents, countExpiringForProduction, countNewWithdrawals, countOpenLinkRequests, listOpenRequestsForPerformer } from '../consents/index.ts';
+import { countActiveConsents, expiringForProductionCount, listOpenRequestsForPerformer, newWithdrawalsCount, openLinkRequestsCount } from '../consents/index.ts';
 import { headPatchTestTasks, leadReadingTasks } from '../patch-tests/index.ts';
-import { countEngagedNow } from '../performers/index.ts';
+import { engagedNowCount } from '../performers/index.ts';
 import { countProductionsWithoutLead } from '../productions/index.ts';
 import { countUsersWithoutAccess } from '../users/index.ts';
 
 const DAY = 86_400_000;
 type Task = Home['tasks'][number];
 
-async function consentTasks(ctx: AppContext, actor: Actor, productionId: string): Promise<Task[]> {
-  const now = new Date();
+/**
+ * The head's and lead's counts in one statement: each feature gives its count as a one-column query,
+ * selected here side by side, so a home costs one round trip for all of them.
+ */
+async function productionCounts(ctx: AppContext, actor: Actor, productionId: string, now: Date) {
   const until = new Date(now.getTime() + 30 * DAY);
-  const [expiring, upcoming, waiting, withdrawn] = await Promise.all([
-    countExpiringForProduction(ctx.db, productionId, now, until),
-    // Every upcoming session waiting for consent stays listed until it is signed (or the session is cancelled).
-    listBookings(ctx.db, { productionId, from: now }),
-    countOpenLinkRequests(ctx.db, productionId, now),
-    countNewWithdrawals(ctx, actor.userId, productionId),
-  ]);
+  const row = await ctx.db
+    .selectNoFrom([
+      expiringForProductionCount(ctx.db, productionId, now, until).as('expiring'),
+      openLinkRequestsCount(ctx.db, productionId, now).as('waiting'),
+      newWithdrawalsCount(ctx, actor.userId, productionId, now).as('withdrawn'),
+      engagedNowCount(ctx.db, productionId, dayIn(ctx.config.timeZone, now)).as('engaged'),
+    ])
+    .executeTakeFirstOrThrow();
+  return { expiring: Number(row.expiring), waiting: Number(row.waiting), withdrawn: Number(row.withdrawn), engaged: Number(row.engaged) };
+}
+
+type ProductionCounts = Awaited<ReturnType<typeof productionCounts>>;
+
+function consentTasks(counts: ProductionCounts, upcoming: Awaited<ReturnType<typeof listBookings>>): Task[] {
+  const { expiring, waiting, withdrawn } = counts;
   const missing = upcoming.filter((b) => b.status === 'booked' && b.consentMissing);
   return [
     {
@@ -118,17 +130,18 @@ export async function homeTasks(ctx: AppContext, actor: Actor, seat: Seat): Prom
   if (seat.role === 'head' || seat.role === 'lead') {
     const now = new Date();
     // The lists are independent reads: asked for together, not one after another.
-    const [consent, engaged, pieces, readings, patchTests] = await Promise.all([
-      consentTasks(ctx, actor, seat.productionId),
-      countEngagedNow(ctx.db, seat.productionId),
+    const [counts, upcoming, pieces, readings, patchTests] = await Promise.all([
+      productionCounts(ctx, actor, seat.productionId, now),
+      // Every upcoming session waiting for consent stays listed until it is signed (or the session is cancelled).
+      listBookings(ctx.db, { productionId: seat.productionId, from: now }),
       piecesShortTask(ctx.db, seat.productionId),
       seat.role === 'lead' ? leadReadingTasks(ctx.db, seat.productionId, now, ctx.config.timeZone) : Promise.resolve([]),
       headPatchTestTasks(ctx.db, seat.productionId, now),
     ]);
     return [
       ...readings,
-      ...consent,
-      { id: 'performers-engaged', title: 'Performers engaged', detail: 'Performers currently engaged on this production.', count: engaged, href: '/performers' },
+      ...consentTasks(counts, upcoming),
+      { id: 'performers-engaged', title: 'Performers engaged', detail: 'Performers currently engaged on this production.', count: counts.engaged, href: '/performers' },
       pieces,
       ...patchTests,
     ];

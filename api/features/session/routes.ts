@@ -1,7 +1,7 @@
 import type { Request } from 'express';
 import type { Actor } from '#shared/policy.ts';
 import { HomeSchema, SelectSeatInputSchema, SessionSchema } from '#shared/schemas/session.ts';
-import { chooseSeat, seatsFor } from '#shared/domain/seats.ts';
+import { chooseSeat, chooseSeatByRoles, seatsFor } from '#shared/domain/seats.ts';
 import type { AppContext } from '../../context.ts';
 import { invalid, notFound } from '../../http/errors.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
@@ -62,8 +62,9 @@ export const sessionRoutes: AnyRoute[] = [
     auth: 'session',
     response: HomeSchema,
     async handler({ ctx, actor, req }) {
-      const session = await buildSession(ctx, actor, req);
-      const seat = session.current;
+      // The seat from the roles alone where production names cannot change it; otherwise as the session reads it.
+      const quick = chooseSeatByRoles(actor, req.session.current);
+      const seat = quick === undefined ? (await buildSession(ctx, actor, req)).current : quick;
       if (!seat) return { role: 'performer' as const, productionId: null, tasks: [] };
       return { role: seat.role, productionId: seat.productionId, tasks: await homeTasks(ctx, actor, seat) };
     },
