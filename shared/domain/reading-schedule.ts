@@ -54,14 +54,36 @@ export interface TestTimes {
 const MINUTE_MS = 60_000;
 const dayFormatters = new Map<string, Intl.DateTimeFormat>();
 
-function calendarDay(at: Date, timeZone: string): number {
+function formattedDay(ms: number, timeZone: string): number {
   let f = dayFormatters.get(timeZone);
   if (!f) {
     f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
     dayFormatters.set(timeZone, f);
   }
-  const parts = Object.fromEntries(f.formatToParts(at).map((p) => [p.type, p.value]));
+  const parts = Object.fromEntries(f.formatToParts(ms).map((p) => [p.type, p.value]));
   return Date.UTC(Number(parts.year), Number(parts.month) - 1, Number(parts.day)) / 86_400_000;
+}
+
+/** Days are looked up by quarter hour: zones move midnight by whole quarter hours today. */
+const QUARTER_MS = 15 * MINUTE_MS;
+const DAYS_KEPT = 20_000;
+const keptDays = new Map<string, number>();
+
+/**
+ * The calendar day of a moment in a zone, as days since 1970-01-01. A quarter hour whose first and last
+ * millisecond fall on the same day is kept, since every moment in it does too; one a midnight cuts
+ * (an old zone's odd offset) is worked out each time.
+ */
+function calendarDay(at: Date, timeZone: string): number {
+  const quarter = Math.floor(at.getTime() / QUARTER_MS);
+  const key = `${timeZone}|${quarter}`;
+  const kept = keptDays.get(key);
+  if (kept !== undefined) return kept;
+  const first = formattedDay(quarter * QUARTER_MS, timeZone);
+  if (formattedDay((quarter + 1) * QUARTER_MS - 1, timeZone) !== first) return formattedDay(at.getTime(), timeZone);
+  if (keptDays.size >= DAYS_KEPT) keptDays.clear();
+  keptDays.set(key, first);
+  return first;
 }
 
 /**

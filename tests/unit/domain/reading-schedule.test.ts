@@ -94,6 +94,32 @@ describe('dayLabel', () => {
     const r = readingSchedule(useTest, { appliedAt: applied, now: applied });
     expect(r.map((x) => x.dayLabel)).toEqual(['D1', 'D2']);
   });
+  it('agrees with the zone’s own calendar at every minute around midnight, in zones off the hour and an old odd offset', () => {
+    // Reference: Intl.DateTimeFormat (ECMA-402) asked directly for each moment's calendar day, no day kept.
+    const dayOf = (at: Date, timeZone: string) => {
+      const p = Object.fromEntries(new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at).map((x) => [x.type, x.value]));
+      return Date.UTC(Number(p.year), Number(p.month) - 1, Number(p.day)) / 86_400_000;
+    };
+    const cases: [string, string][] = [
+      ['Asia/Kathmandu', '2026-06-10T18:15:00Z'], // +05:45
+      ['Australia/Eucla', '2026-06-10T15:15:00Z'], // +08:45
+      ['America/St_Johns', '2026-11-01T03:30:00Z'], // −03:30, the night its clocks go back
+      ['Europe/London', '2026-03-29T00:00:00Z'],
+      ['Africa/Monrovia', '1970-06-11T00:44:30Z'], // −00:44:30 then: midnight falls inside a quarter hour
+    ];
+    let checked = 0;
+    for (const [zone, midnightish] of cases) {
+      const applied = new Date(Date.parse(midnightish) - 5 * HOUR);
+      for (let m = -90; m <= 90; m++) {
+        const at = new Date(Date.parse(midnightish) + m * 60_000 + 17_000);
+        const days = dayOf(at, zone) - dayOf(applied, zone);
+        const minutes = Math.floor((at.getTime() - applied.getTime()) / 60_000);
+        expect(dayLabel(applied, at, zone)).toBe(days === 0 ? `${Math.floor(minutes / 60)} h` : `D${days}`);
+        checked += 1;
+      }
+    }
+    expect(checked).toBe(5 * 181);
+  });
 });
 
 describe('checkReadingTime', () => {
