@@ -35,7 +35,7 @@ export interface TestRow {
   sites: string[];
   /** Empty when the list asked for counts only. */
   takenPointIds: string[];
-  /** The consents that can cover it, for the session gate; null unless the list asked for counts only. */
+  /** The consents that can cover it, for the session gate; null unless a list across performers asked for counts only. */
   gateConsents: GateConsentJson[] | null;
   version: number;
 }
@@ -54,7 +54,7 @@ export interface TestFilter {
 
 /**
  * Tests in start order (at most 500), each with its protocol, product count, sites and the points read at
- * every site (or, for counts only, the consents the gate reads): one query.
+ * every site (or, for counts only across performers, the consents the gate reads): one query.
  */
 export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]> {
   let q = db
@@ -93,8 +93,9 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
             having count(*) >= (select count(*) from patch_test_products tp2 where tp2.test_id = t.booking_id)
             order by r.point_id)`
       ).as('taken'),
-      // Lists (counts only) say whether each test waits for a consent: its consents come along.
-      (where.countsOnly ? gateConsentsJsonSql(sql.ref('t.performer_id'), sql.ref('t.production_id')) : sql<GateConsentJson[] | null>`null`).as('gate_consents'),
+      // Lists (counts only) across performers say whether each test waits for a consent: its consents come
+      // along. One performer's list reads that performer's consents once instead (summariesOf).
+      (where.countsOnly && !where.performerId ? gateConsentsJsonSql(sql.ref('t.performer_id'), sql.ref('t.production_id')) : sql<GateConsentJson[] | null>`null`).as('gate_consents'),
     ]);
   if (where.ids) {
     if (where.ids.length === 0) return [];

@@ -15,7 +15,8 @@ export async function listTestSummaries(db: Db, where: TestFilter): Promise<Patc
 
 async function summariesOf(db: Db, rows: readonly TestRow[]): Promise<PatchTestSummary[]> {
   if (rows.length === 0) return [];
-  // Counts-only lists brought the gate's consents along; a single test read whole asks for them.
+  // Counts-only lists across performers brought the gate's consents along; one performer's list, or a single
+  // test read whole, asks for them.
   const brought = rows.every((r) => r.gateConsents !== null);
   const consents = brought ? gateConsentsFromJson(rows.map((r) => r.gateConsents!)) : await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
   const missing = sessionsMissingConsent(
