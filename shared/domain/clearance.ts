@@ -116,6 +116,8 @@ export interface PerformerClearanceInput {
   testedFormulations: readonly FormulationFacts[];
   /** Every tested product of this performer, any product, any status. */
   tests: readonly TestedProduct[];
+  /** `prepareTests(tests)`, when the caller keeps it for tests that have not changed; worked out here otherwise. */
+  prepared?: PreparedTests;
   declaredAllergies: readonly DeclaredAllergy[];
   /** The overrides in force for this performer; the latest per formulation counts. */
   overrides: readonly ClearanceOverride[];
@@ -154,7 +156,8 @@ export function addMonths(at: Date, months: number): Date {
   return d;
 }
 
-interface TestFacts {
+/** What one tested product says on its own, whatever is asked: its graded codes in order and how far it got. */
+export interface TestFacts {
   t: TestedProduct;
   codes: GradedCode[];
   start: number;
@@ -191,9 +194,25 @@ function reason(code: ClearanceReasonCode): ClearanceReason {
   return { code, text: CLEARANCE_REASON_TEXTS[code] };
 }
 
-interface Prepared {
-  testsByFormulation: Map<string, TestFacts[]>;
-  testedProducts: Set<string>;
+/** The part of clearance that depends on the tests alone: read-only, shared by every call given it. */
+export interface PreparedTests {
+  testsByFormulation: ReadonlyMap<string, readonly TestFacts[]>;
+  testedProducts: ReadonlySet<string>;
+}
+
+/** Each tested product's facts, by formulation, and the products tested: the tests' part of every answer. */
+export function prepareTests(tests: readonly TestedProduct[]): PreparedTests {
+  const testsByFormulation = new Map<string, TestFacts[]>();
+  const testedProducts = new Set<string>();
+  for (const t of tests) {
+    const list = testsByFormulation.get(t.formulationId) ?? testsByFormulation.set(t.formulationId, []).get(t.formulationId)!;
+    list.push(factsOf(t));
+    testedProducts.add(t.productId);
+  }
+  return { testsByFormulation, testedProducts };
+}
+
+interface Prepared extends PreparedTests {
   /** For each non-trivial ingredient key, the formulations that reacted and list it. */
   reactedByKey: Map<string, Set<string>>;
   overrides: Map<string, ClearanceOverride>;
@@ -203,13 +222,7 @@ interface Prepared {
 }
 
 function prepare(input: PerformerClearanceInput): Prepared {
-  const testsByFormulation = new Map<string, TestFacts[]>();
-  const testedProducts = new Set<string>();
-  for (const t of input.tests) {
-    const list = testsByFormulation.get(t.formulationId) ?? testsByFormulation.set(t.formulationId, []).get(t.formulationId)!;
-    list.push(factsOf(t));
-    testedProducts.add(t.productId);
-  }
+  const { testsByFormulation, testedProducts } = input.prepared ?? prepareTests(input.tests);
   const known = new Map<string, FormulationFacts>();
   for (const f of [...input.testedFormulations, ...input.formulations]) if (!known.has(f.formulationId)) known.set(f.formulationId, f);
   const reacted = [...testsByFormulation]

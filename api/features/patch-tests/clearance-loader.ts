@@ -1,10 +1,10 @@
-import { performerClearance, type ClearanceResult, type FormulationFacts, type TestedProduct } from '#shared/domain/clearance.ts';
+import { performerClearance, prepareTests, type ClearanceResult, type FormulationFacts, type TestedProduct } from '#shared/domain/clearance.ts';
 import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.ts';
 import type { DeclaredAllergy } from '#shared/domain/ingredients.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationIds } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { formulationFactsOf, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
+import { formulationFactsOf, keptTestFacts, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
 import { listOverrides, type OverrideRow, type TestedProductRow } from './clearance-repo.ts';
 
 export interface PerformerClearancesQuery {
@@ -49,7 +49,7 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
     formulationFactsOf(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)], stamps),
   ]);
   const declaredAllergies = answers.length > 0 ? declaredAllergiesFromAnswers(answers, vocabulary.index) : [];
-  return decide({ tested, overrides, declaredAllergies, requiredPoints, current, facts, extraFormulationIds: q.formulationIds, now: q.now });
+  return decide({ tested, overrides, declaredAllergies, requiredPoints, current, facts, extraFormulationIds: q.formulationIds, now: q.now, catalogueStamp: stamps.catalogue });
 }
 
 /** A performer's clearance for each product asked for (all products when none are named), from a fixed number of queries. */
@@ -69,13 +69,15 @@ interface Gathered {
   /** Formulations asked for beyond the current ones (the exact formulation an appliance piece was made with). */
   extraFormulationIds?: readonly string[];
   now: Date;
+  /** The catalogue stamp `requiredPoints` was read under: with kept `tested` rows, the tests' facts are kept too. */
+  catalogueStamp?: string | null;
 }
 
 /** The clearance rule over what was read, in the order of `current`. */
-export function decide({ tested, overrides, declaredAllergies, requiredPoints, current, facts, extraFormulationIds = [], now }: Gathered): ClearanceFacts {
+export function decide({ tested, overrides, declaredAllergies, requiredPoints, current, facts, extraFormulationIds = [], now, catalogueStamp = null }: Gathered): ClearanceFacts {
   const formulations = new Map(facts.map((f) => [f.formulationId, f]));
-  const tests: TestedProduct[] = tested.map((t) => {
-    return {
+  const { tests, prepared } = keptTestFacts(tested, catalogueStamp, () => {
+    const list: TestedProduct[] = tested.map((t) => ({
       testId: t.testId,
       productId: t.productId,
       formulationId: t.formulationId,
@@ -84,13 +86,15 @@ export function decide({ tested, overrides, declaredAllergies, requiredPoints, c
       appliedAt: t.appliedAt,
       requiredPointIds: requiredPoints.get(t.protocolVersionId) ?? [],
       readings: t.readings,
-    };
+    }));
+    return { tests: list, prepared: prepareTests(list) };
   });
   const testedIds = new Set(tested.map((t) => t.formulationId));
   const results = performerClearance({
     formulations: [...new Set([...current.map((c) => c.formulationId), ...extraFormulationIds])].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     testedFormulations: [...testedIds].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     tests,
+    prepared,
     declaredAllergies,
     overrides: overrides.map((o) => ({ formulationId: o.formulationId, state: o.state, by: o.by, at: o.at, expiresAt: o.expiresAt, note: '' })),
     now,

@@ -73,7 +73,7 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
     current.map((c) => c.formulationId).filter((id) => !known.has(id)),
     stamps,
   );
-  const facts = decide({ tested, overrides, declaredAllergies: allergies, requiredPoints, current, facts: [...testedFacts, ...more], now: q.now });
+  const facts = decide({ tested, overrides, declaredAllergies: allergies, requiredPoints, current, facts: [...testedFacts, ...more], now: q.now, catalogueStamp: stamps.catalogue });
   const paged = new Set(page.map((c) => c.productId));
   return { ...facts, results: facts.results.filter((r) => !paged.has(r.productId)), shared: { total: sharedOnly.length, results: facts.results.filter((r) => paged.has(r.productId)) } };
 }

@@ -2,7 +2,7 @@ import { Kysely, PostgresDialect } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sealJson } from '../../../api/crypto/medical.ts';
 import type { Database } from '../../../api/db/schema.ts';
-import { forgetClearanceKept, readClearanceStamps } from '../../../api/features/patch-tests/clearance-cache.ts';
+import { forgetClearanceKept, keptTestFacts, readClearanceStamps } from '../../../api/features/patch-tests/clearance-cache.ts';
 import { loadClearanceFacts } from '../../../api/features/patch-tests/clearance-loader.ts';
 import { loadTableFacts } from '../../../api/features/patch-tests/clearance-scope.ts';
 import { createTestApp, type TestApp } from '../../support/app.ts';
@@ -195,6 +195,25 @@ describe('what clearance keeps', () => {
     const second = await clearanceOf(oswin, ['Mistral setting powder']);
     expect(readsTests(first.ran)).toBe(true);
     expect(readsTests(second.ran)).toBe(true);
+  });
+
+  it("keeps the tests' facts beside kept rows only, worked out again under a new catalogue stamp", async () => {
+    forgetClearanceKept(kept);
+    await clearanceOf(juno, ['Quayside acrylic emulsion adhesive']);
+    const { tested } = await clearanceOf(juno, ['Quayside acrylic emulsion adhesive']);
+    expect(Object.isFrozen(tested)).toBe(true);
+    let built = 0;
+    const build = () => ({ n: ++built });
+    const first = keptTestFacts(tested, '41', build);
+    expect(keptTestFacts(tested, '41', build)).toBe(first);
+    expect(built).toBe(1);
+    expect(keptTestFacts(tested, '42', build)).toEqual({ n: 2 });
+    // Rows nobody keeps (a key without a stamp), or no catalogue stamp: worked out every time.
+    const loose = [...tested];
+    keptTestFacts(loose, '42', build);
+    keptTestFacts(loose, '42', build);
+    keptTestFacts(tested, null, build);
+    expect(built).toBe(5);
   });
 
   it('hands out frozen rows, so no caller can change what the next request gets', async () => {

@@ -7,6 +7,7 @@ import {
   CLEARANCE_STATES,
   formulationClearance,
   performerClearance,
+  prepareTests,
   type ClearanceOverride,
   type ClearanceResult,
   type FormulationFacts,
@@ -61,7 +62,11 @@ const EMPTY = formulation('fe', 'pe', null);
 
 function run(over: Partial<PerformerClearanceInput> & { formulations?: FormulationFacts[] }): ClearanceResult[] {
   const formulations = over.formulations ?? [A];
-  return performerClearance({ testedFormulations: formulations, tests: [], declaredAllergies: [], overrides: [], now: NOW, ...over, formulations });
+  const input: PerformerClearanceInput = { testedFormulations: formulations, tests: [], declaredAllergies: [], overrides: [], now: NOW, ...over, formulations };
+  const results = performerClearance(input);
+  // Every case also runs with the tests' part worked out beforehand, as a caller that keeps it passes it.
+  expect(performerClearance({ ...input, prepared: prepareTests(input.tests) })).toEqual(results);
+  return results;
 }
 const one = (over: Partial<PerformerClearanceInput> & { formulations?: FormulationFacts[] }) => run(over)[0]!;
 const codes = (r: ClearanceResult) => r.reasons.map((x) => x.code);
