@@ -248,17 +248,28 @@ export function parseInciList(text: string): string[] {
 /** A declared allergy as the lead links it: to one ingredient, or to a whole allergen group ("fragrance"). */
 export type DeclaredAllergy = { kind: 'ingredient'; key: string; name: string } | { kind: 'group'; group: AllergenGroup };
 
+let groupWords: Map<string, AllergenGroup> | null = null;
+
+/** Each allergen group (but "other") by its id and its label, normalised; in group order, the first claim wins. */
+function groupByWord(): ReadonlyMap<string, AllergenGroup> {
+  if (!groupWords) {
+    groupWords = new Map();
+    for (const g of ALLERGEN_GROUPS) {
+      if (g === 'other') continue;
+      for (const word of [normaliseInciName(g), normaliseInciName(ALLERGEN_GROUP_LABELS[g])]) if (!groupWords.has(word)) groupWords.set(word, g);
+    }
+  }
+  return groupWords;
+}
+
 /**
  * The vocabulary link for an allergy typed in words: an allergen group by its id or label first, since
  * "fragrance" or "latex" in a performer's words means the family, then a known ingredient. "Other" is no
  * group anyone is allergic to, so it never matches.
  */
 export function resolveDeclaredAllergy(text: string, vocabulary: IngredientVocabulary): DeclaredAllergy | null {
-  const key = normaliseInciName(text);
-  for (const g of ALLERGEN_GROUPS) {
-    if (g === 'other') continue;
-    if (normaliseInciName(g) === key || normaliseInciName(ALLERGEN_GROUP_LABELS[g]) === key) return { kind: 'group', group: g };
-  }
+  const group = groupByWord().get(normaliseInciName(text));
+  if (group) return { kind: 'group', group };
   const hit = resolveIngredient(text, vocabulary);
   return hit ? { kind: 'ingredient', key: normaliseInciName(hit.inci), name: hit.inci } : null;
 }
