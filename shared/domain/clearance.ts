@@ -251,7 +251,9 @@ function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; re
 
   // A doubtful or irritant result stands until a later complete test of the same formulation is negative throughout.
   const cleanRuns = tests.filter((x) => x.complete && x.allNegative);
-  const standing = tests.filter((x) => !x.positive && !cleanRuns.some((c) => c.start > x.start));
+  // No clean run started after it: at or after the latest clean run's start.
+  const lastCleanStart = cleanRuns.reduce((m, c) => Math.max(m, c.start), Number.NEGATIVE_INFINITY);
+  const standing = tests.filter((x) => !x.positive && x.start >= lastCleanStart);
   const retestAdvised = standing.some((x) => x.finished && x.final === '?+');
   const caution: ClearanceReason[] = [];
   // A non-trivial ingredient that another formulation which reacted also lists (looked up by key, not pair by pair).

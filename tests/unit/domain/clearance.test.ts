@@ -155,6 +155,12 @@ describe('Caution', () => {
     expect(r.state).toBe('cleared');
     expect(r.retestAdvised).toBe(false);
   });
+  it('is not settled by a clear test that came before the doubtful one', () => {
+    const later = d('2026-10-05T09:00:00Z');
+    const r = one({ tests: [tested('fa', 'pa', { d2: '-', d4: '-' }), tested('fa', 'pa', { d2: '?+', d4: '-' }, { appliedAt: later })] });
+    expect(r.state).toBe('caution');
+    expect(codes(r)).toEqual(['doubtful_reading']);
+  });
   it('follows a non-trivial ingredient shared with a product that reacted', () => {
     // common practice, no published source: a shared non-trivial ingredient with a + or stronger product is a Caution
     const [b, c] = run({ formulations: [B, C], testedFormulations: [A], tests: [tested('fa', 'pa', { d2: '+', d4: '++' })] });
