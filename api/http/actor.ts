@@ -13,9 +13,18 @@ export interface StampedActor {
   accessVersion: string;
   /** ISO time of the earliest future lead appointment start or end; null when there is none. */
   validUntil: string | null;
+  /** What the session screen shows of the user, under the same stamp (their name, address or a production's name moves it). */
+  profile: SessionProfile;
 }
 
-/** Reads the actor in one statement, so the stamp and the roles come from the same snapshot. */
+export interface SessionProfile {
+  email: string;
+  displayName: string;
+  /** Names of every production the user has a membership or a lead appointment on, by id. */
+  productionNames: Record<string, string>;
+}
+
+/** Reads the actor in one statement, so the stamp, the roles and the profile come from the same snapshot. */
 export async function loadActor(db: Db, userId: string): Promise<StampedActor | null> {
   const row = await db
     .selectFrom('users as u')
@@ -24,6 +33,8 @@ export async function loadActor(db: Db, userId: string): Promise<StampedActor | 
       'u.id',
       'u.is_admin',
       'u.access_version',
+      'u.email',
+      'u.display_name',
       jsonArrayFrom(eb.selectFrom('memberships as m').select(['m.production_id', 'm.role']).whereRef('m.user_id', '=', 'u.id')).as('memberships'),
       jsonArrayFrom(
         eb
@@ -34,6 +45,17 @@ export async function loadActor(db: Db, userId: string): Promise<StampedActor | 
           .where((w) => w.or([w('l.ends_at', 'is', null), w('l.ends_at', '>', sql<Date>`now()`)])),
       ).as('leads'),
       jsonArrayFrom(eb.selectFrom('performers as p').select('p.id').whereRef('p.user_id', '=', 'u.id')).as('performers'),
+      jsonArrayFrom(
+        eb
+          .selectFrom('productions as pr')
+          .select(['pr.id', 'pr.name'])
+          .where((w) =>
+            w.or([
+              w.exists(w.selectFrom('memberships as m2').select('m2.user_id').whereRef('m2.production_id', '=', 'pr.id').whereRef('m2.user_id', '=', 'u.id')),
+              w.exists(w.selectFrom('lead_appointments as l2').select('l2.user_id').whereRef('l2.production_id', '=', 'pr.id').whereRef('l2.user_id', '=', 'u.id')),
+            ]),
+          ),
+      ).as('production_names'),
       sql<Date | null>`(
         select min(b.at) from lead_appointments la
         cross join lateral (values (la.starts_at), (la.ends_at)) as b(at)
@@ -52,5 +74,6 @@ export async function loadActor(db: Db, userId: string): Promise<StampedActor | 
     },
     accessVersion: row.access_version,
     validUntil: row.valid_until ? new Date(row.valid_until).toISOString() : null,
+    profile: { email: row.email, displayName: row.display_name, productionNames: Object.fromEntries(row.production_names.map((p) => [p.id, p.name])) },
   };
 }

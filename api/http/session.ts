@@ -6,7 +6,7 @@ import type pg from 'pg';
 import type { Actor } from '#shared/policy.ts';
 import type { Config } from '../config.ts';
 import type { Db } from '../db/index.ts';
-import { loadActor, type StampedActor } from './actor.ts';
+import { loadActor, type SessionProfile, type StampedActor } from './actor.ts';
 
 declare module 'express-session' {
   interface SessionData {
@@ -94,6 +94,8 @@ export class SessionStore extends PgStore {
           row.access_version !== null &&
           access?.accessVersion === row.access_version &&
           access.actor?.userId === data.userId &&
+          // Kept before the profile was kept with it: read again once.
+          access.profile !== undefined &&
           (access.validUntil === null || Date.parse(access.validUntil) > row.now.getTime());
         keep(data, { access: current ? access : null, storedExpireMs: Number(row.expire_ms) });
         fn(null, data);
@@ -153,6 +155,15 @@ export async function sessionActor(req: Request, db: Db, maxMs: number): Promise
   else keep(sess, { access: loaded, storedExpireMs: null });
   if (req.sessionStore instanceof SessionStore) await req.sessionStore.keepAccess(req.sessionID, userId, loaded);
   return loaded.actor;
+}
+
+/**
+ * The profile kept with the actor `sessionActor` answered for this request (read in the same statement,
+ * under the same stamp), or null when none is kept.
+ */
+export function sessionProfile(req: Request): SessionProfile | null {
+  const access = req.session ? keptOf(req.session)?.access : null;
+  return access && access.actor.userId === req.session.userId ? (access.profile ?? null) : null;
 }
 
 /** Ends every session of a user at once (the tablet a user lent is locked already and stays so). */

@@ -74,7 +74,7 @@ afterEach(() => {
 });
 
 describe('round trips of a signed-in read', () => {
-  it('GET /api/session: one statement for the session with its actor, one for the data', async () => {
+  it('GET /api/session: one statement, the session with its actor and profile', async () => {
     const cookie = await t.sessionFor('head@plinth.test');
     expect((await request(t.app).get('/api/session').set('Cookie', cookie)).status).toBe(200);
     let status = 0;
@@ -82,7 +82,7 @@ describe('round trips of a signed-in read', () => {
       status = (await request(t.app).get('/api/session').set('Cookie', cookie)).status;
     });
     expect(status).toBe(200);
-    expect(statements.length).toBeLessThanOrEqual(2);
+    expect(statements).toHaveLength(1);
     expect(statements.filter(touchesSessions)).toHaveLength(1);
     expect(statements.filter(writes)).toEqual([]);
   });
@@ -148,9 +148,44 @@ describe('round trips of a signed-in read', () => {
   it('the first request reads the actor in one statement and keeps it with the session', async () => {
     const cookie = await t.sessionFor('lead@plinth.test');
     const first = await counter.during(() => request(t.app).get('/api/session').set('Cookie', cookie).expect(200));
-    // session read, actor read, actor kept, the session's own data
-    expect(first).toHaveLength(4);
+    // session read, actor read (with the profile), actor kept
+    expect(first).toHaveLength(3);
     expect(first.filter((s) => touchesSessions(s) && writes(s))).toHaveLength(1);
+  });
+});
+
+describe('the session screen shows a changed name on the very next request', () => {
+  it("the user's own name and address, changed by any path", async () => {
+    const cookie = await t.sessionFor('archivist@plinth.test');
+    const id = await t.userId('archivist@plinth.test');
+    const before = (await request(t.app).get('/api/session').set('Cookie', cookie).expect(200)).body as { user: { displayName: string; email: string } };
+    await request(t.app).get('/api/session').set('Cookie', cookie).expect(200);
+    await t.db.db.updateTable('users').set({ display_name: 'Marisol Vantongeren', email: 'archive.desk@plinth.test' }).where('id', '=', id).execute();
+    const after = (await request(t.app).get('/api/session').set('Cookie', cookie).expect(200)).body as { user: { displayName: string; email: string } };
+    expect(after.user).toMatchObject({ displayName: 'Marisol Vantongeren', email: 'archive.desk@plinth.test' });
+    await t.db.db.updateTable('users').set({ display_name: before.user.displayName, email: before.user.email }).where('id', '=', id).execute();
+    expect(((await request(t.app).get('/api/session').set('Cookie', cookie).expect(200)).body as typeof before).user).toMatchObject(before.user);
+  });
+
+  it("a production's name, for its members and its lead, and no one else's stamp moves", async () => {
+    const lantern = await productionId('The Lantern Keeper');
+    const artist = await t.sessionFor('artist@plinth.test');
+    const lead = await t.sessionFor('lead@plinth.test');
+    const nameIn = async (cookie: string) => ((await request(t.app).get('/api/session').set('Cookie', cookie).expect(200)).body as { seats: { productionId: string | null; productionName: string | null }[] }).seats.find((x) => x.productionId === lantern)?.productionName;
+    const old = await nameIn(artist);
+    expect(old).toBe('The Lantern Keeper');
+    expect(await nameIn(lead)).toBe(old);
+    const stampOf = async (email: string) => (await t.db.db.selectFrom('users').select('access_version').where('email', '=', email).executeTakeFirstOrThrow()).access_version;
+    const outsider = await stampOf('admin@plinth.test');
+    await t.db.db.updateTable('productions').set({ name: 'The Lantern Keeper (second unit)' }).where('id', '=', lantern).execute();
+    try {
+      expect(await nameIn(artist)).toBe('The Lantern Keeper (second unit)');
+      expect(await nameIn(lead)).toBe('The Lantern Keeper (second unit)');
+      expect(await stampOf('admin@plinth.test')).toBe(outsider);
+    } finally {
+      await t.db.db.updateTable('productions').set({ name: 'The Lantern Keeper' }).where('id', '=', lantern).execute();
+    }
+    expect(await nameIn(artist)).toBe('The Lantern Keeper');
   });
 });
 

@@ -4,6 +4,7 @@ import { HomeSchema, SelectSeatInputSchema, SessionSchema } from '#shared/schema
 import { chooseSeat, chooseSeatByRoles, seatsFor } from '#shared/domain/seats.ts';
 import type { AppContext } from '../../context.ts';
 import { invalid, notFound } from '../../http/errors.ts';
+import { sessionProfile } from '../../http/session.ts';
 import { type AnyRoute, defineRoute } from '../../http/route.ts';
 import { findUserWithProductionNames } from '../users/index.ts';
 import { homeTasks } from './home.ts';
@@ -11,8 +12,11 @@ import { saveLastSeat } from './repo.ts';
 
 async function buildSession(ctx: AppContext, actor: Actor, req: Request) {
   const ids = [...new Set([...actor.memberships.map((m) => m.productionId), ...actor.leadOf])];
-  // One statement: the user and the names of their productions.
-  const found = await findUserWithProductionNames(ctx.db, actor.userId, ids);
+  // Kept with the actor under its stamp; otherwise one statement: the user and the names of their productions.
+  const kept = sessionProfile(req);
+  const found = kept
+    ? { id: actor.userId, email: kept.email, displayName: kept.displayName, isAdmin: actor.isAdmin, productions: new Map(ids.flatMap((id) => (kept.productionNames[id] === undefined ? [] : [[id, kept.productionNames[id]!] as const]))) }
+    : await findUserWithProductionNames(ctx.db, actor.userId, ids);
   if (!found) throw notFound('Your user record');
   const { productions, ...user } = found;
   const seats = seatsFor(actor, productions);
