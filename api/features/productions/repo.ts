@@ -211,14 +211,12 @@ export async function insertLeadAppointment(db: Db, productionId: string, userId
   await db.insertInto('lead_appointments').values({ production_id: productionId, user_id: userId, appointed_by: appointedBy }).execute();
 }
 
-/** Productions with no lead now (the administrator's home). */
-export async function countProductionsWithoutLead(db: Db): Promise<number> {
-  const row = await db
+/** Productions with no lead now (the administrator's home), as a one-column query (`n`) for its counts statement. */
+export function productionsWithoutLeadCount(db: Db) {
+  return db
     .selectFrom('productions')
     .select((eb) => eb.fn.countAll<string>().as('n'))
-    .where((eb) => eb.not(eb.exists(eb.selectFrom('lead_appointments').select('id').whereRef('lead_appointments.production_id', '=', 'productions.id').where('ends_at', 'is', null))))
-    .executeTakeFirstOrThrow();
-  return Number(row.n);
+    .where((eb) => eb.not(eb.exists(eb.selectFrom('lead_appointments').select('id').whereRef('lead_appointments.production_id', '=', 'productions.id').where('ends_at', 'is', null))));
 }
 
 // ---- the performer role, which follows a linked performer's engagements

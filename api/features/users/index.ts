@@ -1,3 +1,3 @@
 // What other features may use of users.
-export { userSummaryJsonSql, countUsersWithoutAccess, findUserSummary, findUserWithProductionNames, isStaffAddress, staffAddressesAmong } from './repo.ts';
+export { userSummaryJsonSql, usersWithoutAccessCount, findUserSummary, findUserWithProductionNames, isStaffAddress, staffAddressesAmong } from './repo.ts';
 export { findUserById } from './repo.ts';

@@ -109,15 +109,13 @@ export async function findUserSummary(db: Db, id: string): Promise<{ id: string;
   return r ? { id: r.id, email: r.email, displayName: r.display_name, isAdmin: r.is_admin } : undefined;
 }
 
-/** Signed-in people given no role anywhere yet (the administrator's home). */
-export async function countUsersWithoutAccess(db: Db): Promise<number> {
-  const r = await db
+/** Signed-in people given no role anywhere yet (the administrator's home), as a one-column query (`n`) for its counts statement. */
+export function usersWithoutAccessCount(db: Db) {
+  return db
     .selectFrom('users')
     .select((eb) => eb.fn.countAll<string>().as('n'))
     .where('is_admin', '=', false)
-    .where((eb) => eb.not(eb.exists(eb.selectFrom('memberships').select('id').whereRef('memberships.user_id', '=', 'users.id'))))
-    .executeTakeFirstOrThrow();
-  return Number(r.n);
+    .where((eb) => eb.not(eb.exists(eb.selectFrom('memberships').select('id').whereRef('memberships.user_id', '=', 'users.id'))));
 }
 
 /** Whether an address is the sign-in of an administrator, a lead or anyone with a staff role. */
