@@ -170,14 +170,19 @@ export async function listConsentAnswers(db: Db, consentId: string): Promise<{ q
 export async function listConsentsForGate(db: Db, performerIds: readonly string[]): Promise<ConsentForGate[]> {
   if (performerIds.length === 0) return [];
   const rows = await db.selectFrom('consents').select(['performer_id', 'production_id', 'kind', 'signed_at', 'expires_at', 'withdrawn_at']).where('performer_id', 'in', [...performerIds]).execute();
-  return rows.map((c) => ({
+  return rows.map(gateConsentOf);
+}
+
+/** A consent row (or its JSON) in the shape the session gates read. */
+function gateConsentOf(c: Omit<GateConsentJson, 'id' | 'signed_at' | 'expires_at' | 'withdrawn_at'> & { signed_at: string | Date; expires_at: string | Date | null; withdrawn_at: string | Date | null }): ConsentForGate {
+  return {
     performerId: c.performer_id,
     productionId: c.production_id,
     kind: c.kind,
     signedAt: new Date(c.signed_at),
     expiresAt: c.expires_at ? new Date(c.expires_at) : null,
     withdrawnAt: c.withdrawn_at ? new Date(c.withdrawn_at) : null,
-  }));
+  };
 }
 
 /**
@@ -368,15 +373,7 @@ export function gateConsentsFromJson(lists: readonly (readonly GateConsentJson[]
   const byId = new Map<string, ConsentForGate>();
   for (const list of lists) {
     for (const c of list) {
-      if (byId.has(c.id)) continue;
-      byId.set(c.id, {
-        performerId: c.performer_id,
-        productionId: c.production_id,
-        kind: c.kind,
-        signedAt: new Date(c.signed_at),
-        expiresAt: c.expires_at ? new Date(c.expires_at) : null,
-        withdrawnAt: c.withdrawn_at ? new Date(c.withdrawn_at) : null,
-      });
+      if (!byId.has(c.id)) byId.set(c.id, gateConsentOf(c));
     }
   }
   return [...byId.values()];
