@@ -1,7 +1,7 @@
 import { type RawBuilder, sql } from 'kysely';
 import type { BookingPurpose } from '#shared/domain/bookings.ts';
 import type { Db } from '../../db/index.ts';
-import { type GateConsentJson, gateConsentsJsonSql } from '../consents/index.ts';
+import { bringsGateConsents, type GateConsentJson, gateConsentsJsonSql } from '../consents/index.ts';
 
 export interface BookingRow {
   id: string;
@@ -16,8 +16,8 @@ export interface BookingRow {
   sequence: number;
   endsAt?: Date | null;
   artist?: { id: string; name: string } | null;
-  /** The consents that can cover it, for the session gate (read in the same statement). */
-  gateConsents: GateConsentJson[];
+  /** The consents that can cover it, for the session gate, when the list brings them (`bringsGateConsents`); null otherwise. */
+  gateConsents: GateConsentJson[] | null;
 }
 
 export interface BookingFilter {
@@ -50,7 +50,7 @@ export async function listBookingRows(db: Db, where: BookingFilter): Promise<Boo
       'a.id as artist_id',
       'a.display_name as artist_name',
       'b.invitation_sequence',
-      gateConsentsJsonSql(sql.ref('b.performer_id'), sql.ref('b.production_id')).as('gate_consents'),
+      (bringsGateConsents(where) ? gateConsentsJsonSql(sql.ref('b.performer_id'), sql.ref('b.production_id')) : sql<GateConsentJson[] | null>`null`).as('gate_consents'),
     ]);
   if (where.productionId) q = q.where('b.production_id', '=', where.productionId);
   if (where.productionIds) {

@@ -7,7 +7,7 @@ import type { Db } from '../../db/index.ts';
 import { writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
 import { conflict, invalid, notFound } from '../../http/errors.ts';
-import { gateConsentsFromJson, listConsentsForGate } from '../consents/index.ts';
+import { gateConsentsOfRows, listConsentsForGate } from '../consents/index.ts';
 import { isEngagedOn } from '../performers/index.ts';
 import { staffOf } from '../productions/index.ts';
 import { sendSessionInvitations } from './invitations.ts';
@@ -16,10 +16,10 @@ import { type BookingFilter, type BookingJsonRow, bumpInvitationSequence, findBo
 /** Longer than a working day is a typing slip, not a session. */
 const MAX_SESSION_MS = 16 * 3_600_000;
 
-/** Sessions with, for each, whether its consent will be in force when it starts: one query for the sessions, one for the consents. */
+/** Sessions with, for each, whether its consent will be in force when it starts: one query across performers, two for one performer's. */
 export async function listBookings(db: Db, where: BookingFilter): Promise<Booking[]> {
   const rows = await listBookingRows(db, where);
-  const consents = gateConsentsFromJson(rows.map((r) => r.gateConsents));
+  const consents = await gateConsentsOfRows(db, rows);
   const missing = sessionsMissingConsent(rows, consents);
   const withdrawn = sessionsWithWithdrawnConsent(rows, consents);
   return rows.map(({ gateConsents: _, ...r }) => ({ ...r, startsAt: r.startsAt.toISOString(), endsAt: r.endsAt?.toISOString() ?? null, consentMissing: missing.has(r.id), consentWithdrawn: withdrawn.has(r.id) }));

@@ -87,7 +87,6 @@ export async function setPieceStatusAtVersion(
   return Number(res.numUpdatedRows) === 1;
 }
 
-/** Pieces made, used and spoiled per mold on a production, across all its builds, and how many builds. */
 /** Builds and pieces per mold of a production: made, used and spoiled across its builds. */
 function tallyQuery(db: Db, productionId: string) {
   return db
@@ -111,6 +110,7 @@ export interface MoldTally {
   spoiled: number;
 }
 
+/** Pieces made, used and spoiled per mold on a production, across all its builds, and how many builds. */
 export async function tallyByMold(db: Db, productionId: string, moldIds?: readonly string[]): Promise<Map<string, MoldTally>> {
   if (moldIds && moldIds.length === 0) return new Map();
   let q = tallyQuery(db, productionId);

@@ -368,11 +368,24 @@ export function gateConsentsJsonSql(performerId: RawBuilder<string>, productionI
   ), '[]'::json)`;
 }
 
-/** The gate's consents from listed rows' JSON columns, each consent once. */
-export function gateConsentsFromJson(lists: readonly (readonly GateConsentJson[])[]): ConsentForGate[] {
+/**
+ * Whether a list of sessions brings the gate's consents along (`gateConsentsJsonSql`): a list across
+ * performers does; one performer's list reads that performer's consents once instead, since a copy on
+ * each of their rows costs more than the read.
+ */
+export function bringsGateConsents(where: { performerId?: string }): boolean {
+  return !where.performerId;
+}
+
+/**
+ * The gate's consents for listed rows: from their JSON columns, each consent once, when every row brought
+ * them; otherwise one read for the rows' performers.
+ */
+export async function gateConsentsOfRows(db: Db, rows: readonly { performerId: string; gateConsents: readonly GateConsentJson[] | null }[]): Promise<ConsentForGate[]> {
+  if (!rows.every((r) => r.gateConsents !== null)) return listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
   const byId = new Map<string, ConsentForGate>();
-  for (const list of lists) {
-    for (const c of list) {
+  for (const r of rows) {
+    for (const c of r.gateConsents!) {
       if (!byId.has(c.id)) byId.set(c.id, gateConsentOf(c));
     }
   }

@@ -1,5 +1,5 @@
 // What other features may use of consents; everything else here is the feature's own.
-export { consentFromJson, consentsJsonSql, gateConsentsFromJson, gateConsentsJsonSql, type GateConsentJson, consentCoversSql, consentStateSql, countActiveConsents, expiringForProductionCount, listConsentSummaries, listConsentsForGate, storageConsentTimes } from './consent-repo.ts';
+export { bringsGateConsents, consentFromJson, consentsJsonSql, gateConsentsJsonSql, gateConsentsOfRows, type GateConsentJson, consentCoversSql, consentStateSql, countActiveConsents, expiringForProductionCount, listConsentSummaries, listConsentsForGate, storageConsentTimes } from './consent-repo.ts';
 export { listOpenRequestsForPerformer, openLinkRequestsCount } from './request-repo.ts';
 export { writeSignedConsent } from './signing-service.ts';
 export { findCurrentTemplateVersion } from './template-repo.ts';

@@ -133,8 +133,8 @@ const testFacts = new WeakMap<readonly TestedProductRow[], { catalogue: string; 
  * The tests' part of a clearance answer (`prepareTests` over the tested products with their protocols'
  * points), worked out once for tested rows this module keeps and reused while the catalogue's stamp, under
  * which the points were read, stands. Kept beside the rows themselves (a weak map on the kept array), so
- * it goes when they do: about 0.3 kB more a tested product (the readings are the kept rows' own). Rows not kept, or no catalogue stamp: built
- * every time. Never change what it hands back.
+ * it goes when they do: about 0.3 kB more a tested product (the readings are the kept rows' own). Rows
+ * not kept, or no catalogue stamp: built every time. Never change what it hands back.
  */
 export function keptTestFacts<T>(tested: readonly TestedProductRow[], catalogueStamp: string | null, build: () => T): T {
   if (catalogueStamp === null || !Object.isFrozen(tested)) return build();

@@ -5,7 +5,7 @@ import type { TestStatus } from '#shared/domain/reading-schedule.ts';
 import { openJson, sealJson } from '../../crypto/medical.ts';
 import type { Db } from '../../db/index.ts';
 import { protocolOfRow } from '../protocols/index.ts';
-import { type GateConsentJson, gateConsentsJsonSql } from '../consents/index.ts';
+import { bringsGateConsents, type GateConsentJson, gateConsentsJsonSql } from '../consents/index.ts';
 
 /** A booked test whose session was cancelled (from the sessions list) is cancelled too. */
 const STATUS = sql<TestStatus>`case when t.status = 'booked' and b.status = 'cancelled' then 'cancelled' else t.status end`;
@@ -93,9 +93,9 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
             having count(*) >= (select count(*) from patch_test_products tp2 where tp2.test_id = t.booking_id)
             order by r.point_id)`
       ).as('taken'),
-      // Lists (counts only) across performers say whether each test waits for a consent: its consents come
-      // along. One performer's list reads that performer's consents once instead (summariesOf).
-      (where.countsOnly && !where.performerId ? gateConsentsJsonSql(sql.ref('t.performer_id'), sql.ref('t.production_id')) : sql<GateConsentJson[] | null>`null`).as('gate_consents'),
+      // Counts-only lists say whether each test waits for a consent: its consents come along where the
+      // list brings them (`bringsGateConsents`).
+      (where.countsOnly && bringsGateConsents(where) ? gateConsentsJsonSql(sql.ref('t.performer_id'), sql.ref('t.production_id')) : sql<GateConsentJson[] | null>`null`).as('gate_consents'),
     ]);
   if (where.ids) {
     if (where.ids.length === 0) return [];

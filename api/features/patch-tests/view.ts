@@ -3,10 +3,10 @@ import { readingSchedule } from '#shared/domain/reading-schedule.ts';
 import { productOutcome } from '#shared/domain/test-outcome.ts';
 import type { PatchTestDetail, PatchTestSummary } from '#shared/schemas/patch-test-log.ts';
 import type { Db } from '../../db/index.ts';
-import { gateConsentsFromJson, listConsentsForGate } from '../consents/index.ts';
+import { gateConsentsOfRows } from '../consents/index.ts';
 import { listReadPoints, listTestProducts, listTestReadings, listTestRows, type TestFilter, type TestRow } from './repo.ts';
 
-/** Tests as lists show them, each with whether it waits for a consent: one query, tests with their protocols and consents. */
+/** Tests as lists show them, each with whether it waits for a consent: one query across performers (tests with their protocols and consents), two for one performer's. */
 export async function listTestSummaries(db: Db, where: TestFilter): Promise<PatchTestSummary[]> {
   // A summary shows how many products, not where they went or which points were read.
   const rows = await listTestRows(db, { ...where, countsOnly: true });
@@ -15,10 +15,7 @@ export async function listTestSummaries(db: Db, where: TestFilter): Promise<Patc
 
 async function summariesOf(db: Db, rows: readonly TestRow[]): Promise<PatchTestSummary[]> {
   if (rows.length === 0) return [];
-  // Counts-only lists across performers brought the gate's consents along; one performer's list, or a single
-  // test read whole, asks for them.
-  const brought = rows.every((r) => r.gateConsents !== null);
-  const consents = brought ? gateConsentsFromJson(rows.map((r) => r.gateConsents!)) : await listConsentsForGate(db, [...new Set(rows.map((r) => r.performerId))]);
+  const consents = await gateConsentsOfRows(db, rows);
   const missing = sessionsMissingConsent(
     rows.map((r) => ({ id: r.id, performerId: r.performerId, productionId: r.productionId, purpose: 'patch_test' as const, startsAt: r.startsAt, status: r.status })),
     consents,
