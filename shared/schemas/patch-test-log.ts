@@ -153,13 +153,18 @@ export type ClearanceRow = z.infer<typeof ClearanceRowSchema>;
  * by product name, apart from the table of what was tested, decided or declared.
  */
 export const SHARED_CAUTIONS_PAGE_SIZE = 25;
+/** A performer's tests, newest first, come a page at a time: a long-serving performer can have hundreds. */
+export const TEST_TIMELINE_PAGE_SIZE = 20;
+const pageNumber = z.coerce.number({ error: 'Give a page number' }).int('Give a whole page number').min(1, 'Pages start at 1').max(100_000, 'No such page').default(1);
 export const PerformerPatchTestsQuerySchema = z.object({
-  sharedPage: z.coerce.number({ error: 'Give a page number' }).int('Give a whole page number').min(1, 'Pages start at 1').max(100_000, 'No such page').default(1),
+  sharedPage: pageNumber,
+  testsPage: pageNumber,
 });
 export type PerformerPatchTestsQuery = z.infer<typeof PerformerPatchTestsQuerySchema>;
 
 export const PerformerPatchTestsSchema = z.object({
-  tests: z.array(PatchTestSummarySchema),
+  /** The performer's tests, newest first, a page at a time (`TEST_TIMELINE_PAGE_SIZE`). */
+  tests: pagedSchema(PatchTestSummarySchema),
   /** Every product tested on the performer, decided by the lead, or matching a declared allergy. */
   clearances: z.array(ClearanceRowSchema),
   sharedCautions: pagedSchema(ClearanceRowSchema),

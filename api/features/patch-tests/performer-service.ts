@@ -1,7 +1,7 @@
 import type { Request } from 'express';
 import { productOutcome } from '#shared/domain/test-outcome.ts';
 import { type Actor, can } from '#shared/policy.ts';
-import { type ClearanceRow, type OverrideInput, type PerformerPatchTests, SHARED_CAUTIONS_PAGE_SIZE } from '#shared/schemas/patch-test-log.ts';
+import { type ClearanceRow, type OverrideInput, type PerformerPatchTests, SHARED_CAUTIONS_PAGE_SIZE, TEST_TIMELINE_PAGE_SIZE } from '#shared/schemas/patch-test-log.ts';
 import type { AppContext } from '../../context.ts';
 import { recordEvent, writeAudit } from '../../http/audit.ts';
 import { authorize } from '../../http/authorize.ts';
@@ -9,9 +9,12 @@ import { invalid, notFound } from '../../http/errors.ts';
 import { findPerformerScope } from '../performers/index.ts';
 import { formulationKnownFor } from './clearance-repo.ts';
 import { loadTableFacts } from './clearance-scope.ts';
-import { insertOverride, listOverrideNotes, listTestRows } from './repo.ts';
+import { countPerformerTests, insertOverride, listOverrideNotes, listTestRows } from './repo.ts';
 import { renderSummaryPdf } from './summary-pdf.ts';
 import { listTestSummaries, testDetail } from './view.ts';
+
+/** Prints and exports carry every test (PostgreSQL's largest limit). */
+const ALL_TESTS = 2 ** 31 - 1;
 
 async function scopeFor(ctx: AppContext, actor: Actor, performerId: string) {
   const scope = await findPerformerScope(ctx.db, performerId);
@@ -21,20 +24,25 @@ async function scopeFor(ctx: AppContext, actor: Actor, performerId: string) {
   return { scope, resource };
 }
 
+/** Which pages of a performer's tests and shared-ingredient Cautions to give, or all of both (prints, exports). */
+export type PatchTestsView = { testsPage: number; sharedPage: number } | 'all';
+
 /**
- * A performer's tests (timeline) and clearance per product. Staff without medical access get states,
- * reasons and validity only; the lead and the performer also get the latest outcome of each tested
- * product and the override notes, and that read is audited.
+ * A performer's tests (timeline, newest first, a page at a time) and clearance per product. Staff without
+ * medical access get states, reasons and validity only; the lead and the performer also get the latest
+ * outcome of each tested product and the override notes, and that read is audited.
  */
-export async function performerPatchTests(ctx: AppContext, actor: Actor, performerId: string, req: Request, shared: { page: number } | 'all' = { page: 1 }): Promise<PerformerPatchTests> {
+export async function performerPatchTests(ctx: AppContext, actor: Actor, performerId: string, req: Request, view: PatchTestsView = { testsPage: 1, sharedPage: 1 }): Promise<PerformerPatchTests> {
   const { scope, resource } = await scopeFor(ctx, actor, performerId);
   const isSelf = actor.performerIds.includes(performerId);
   const visible = isSelf ? scope.productionIds : scope.productionIds.filter((productionId) => can(actor, 'patchtests.read', { productionId }));
   const medical = can(actor, 'medical.read', resource);
   const now = new Date();
-  const [tests, facts, notes] = await Promise.all([
-    listTestSummaries(ctx.db, { performerId, productionIds: visible }),
-    loadTableFacts(ctx.db, { performerId, now, sharedPage: shared === 'all' ? undefined : { page: shared.page, pageSize: SHARED_CAUTIONS_PAGE_SIZE } }),
+  const testsWhere = { performerId, productionIds: visible };
+  const [tests, testsTotal, facts, notes] = await Promise.all([
+    listTestSummaries(ctx.db, testsWhere, view === 'all' ? { newestFirst: true, offset: 0, limit: ALL_TESTS } : { newestFirst: true, offset: (view.testsPage - 1) * TEST_TIMELINE_PAGE_SIZE, limit: TEST_TIMELINE_PAGE_SIZE }),
+    view === 'all' ? null : countPerformerTests(ctx.db, testsWhere),
+    loadTableFacts(ctx.db, { performerId, now, sharedPage: view === 'all' ? undefined : { page: view.sharedPage, pageSize: SHARED_CAUTIONS_PAGE_SIZE } }),
     medical ? listOverrideNotes(ctx.db, performerId) : Promise.resolve(null),
   ]);
   const tested = new Set(facts.tested.map((t) => t.formulationId));
@@ -70,14 +78,19 @@ export async function performerPatchTests(ctx: AppContext, actor: Actor, perform
   const sharedCautions = {
     items: facts.shared.results.map(toRow),
     total: facts.shared.total,
-    page: shared === 'all' ? 1 : shared.page,
-    pageSize: shared === 'all' ? Math.max(1, facts.shared.total) : SHARED_CAUTIONS_PAGE_SIZE,
+    page: view === 'all' ? 1 : view.sharedPage,
+    pageSize: view === 'all' ? Math.max(1, facts.shared.total) : SHARED_CAUTIONS_PAGE_SIZE,
   };
   if (medical) {
     await recordEvent(ctx.db, { actorUserId: actor.userId, action: 'medical.read', performerId, entityType: 'patch_tests', entityId: performerId, req, details: { performerId, fields: ['outcome', 'overrideNote'] } });
   }
   return {
-    tests: tests.toReversed(),
+    tests: {
+      items: tests,
+      total: testsTotal ?? tests.length,
+      page: view === 'all' ? 1 : view.testsPage,
+      pageSize: view === 'all' ? Math.max(1, tests.length) : TEST_TIMELINE_PAGE_SIZE,
+    },
     clearances,
     sharedCautions,
     medical,
@@ -107,7 +120,7 @@ export async function performerSummaryPdf(ctx: AppContext, actor: Actor, perform
   const { scope, resource } = await scopeFor(ctx, actor, performerId);
   authorize(actor, 'medical.read', resource);
   const data = await performerPatchTests(ctx, actor, performerId, req, 'all');
-  const rows = await listTestRows(ctx.db, { ids: data.tests.filter((t) => t.status !== 'cancelled').map((t) => t.id) });
+  const rows = await listTestRows(ctx.db, { ids: data.tests.items.filter((t) => t.status !== 'cancelled').map((t) => t.id) }, { offset: 0, limit: ALL_TESTS });
   // One detail per test: a print, read once, not a list screen.
   const tests = [];
   for (const row of rows.toReversed()) tests.push(await testDetail(ctx.db, row, { medical: true, now: new Date(), timeZone: ctx.config.timeZone }));

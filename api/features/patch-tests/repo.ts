@@ -52,11 +52,19 @@ export interface TestFilter {
   countsOnly?: boolean;
 }
 
+/** A page of a list: newest first, or in start order (the default), and how many to skip and take. */
+export interface TestPage {
+  newestFirst?: boolean;
+  offset: number;
+  limit: number;
+}
+
 /**
- * Tests in start order (at most 500), each with its protocol, product count, sites and the points read at
- * every site (or, for counts only across performers, the consents the gate reads): one query.
+ * Tests in start order (at most 500 unless a page says otherwise), each with its protocol, product count,
+ * sites and the points read at every site (or, for counts only across performers, the consents the gate
+ * reads): one query.
  */
-export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]> {
+export async function listTestRows(db: Db, where: TestFilter, page: TestPage = { offset: 0, limit: 500 }): Promise<TestRow[]> {
   let q = db
     .selectFrom('patch_tests as t')
     .innerJoin('bookings as b', 'b.id', 't.booking_id')
@@ -115,7 +123,8 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
   }
   if (where.startsFrom) q = q.where('b.starts_at', '>=', where.startsFrom);
   if (where.startsBefore) q = q.where('b.starts_at', '<', where.startsBefore);
-  const rows = await q.orderBy('b.starts_at').orderBy('t.booking_id').limit(500).execute();
+  const dir = page.newestFirst ? 'desc' : 'asc';
+  const rows = await q.orderBy('b.starts_at', dir).orderBy('t.booking_id', dir).offset(page.offset).limit(page.limit).execute();
   return rows.map((r) => ({
     id: r.booking_id,
     performerId: r.performer_id,
@@ -135,6 +144,18 @@ export async function listTestRows(db: Db, where: TestFilter): Promise<TestRow[]
     gateConsents: r.gate_consents,
     version: r.version,
   }));
+}
+
+/** How many tests one performer has in these productions (a page's total). */
+export async function countPerformerTests(db: Db, where: { performerId: string; productionIds: readonly string[] }): Promise<number> {
+  if (where.productionIds.length === 0) return 0;
+  const row = await db
+    .selectFrom('patch_tests')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('performer_id', '=', where.performerId)
+    .where('production_id', 'in', [...where.productionIds])
+    .executeTakeFirstOrThrow();
+  return Number(row.n);
 }
 
 export async function findTestRow(db: Db, id: string): Promise<TestRow | undefined> {

@@ -171,7 +171,7 @@ export const patchTestRoutes: AnyRoute[] = [
     query: PerformerPatchTestsQuerySchema,
     response: PerformerPatchTestsSchema,
     errors: [403, 404],
-    handler: ({ ctx, actor, params, query, req }) => performerPatchTests(ctx, actor, params.id, req, { page: query.sharedPage }),
+    handler: ({ ctx, actor, params, query, req }) => performerPatchTests(ctx, actor, params.id, req, { testsPage: query.testsPage, sharedPage: query.sharedPage }),
   }),
   defineRoute({
     method: 'get',

@@ -4,12 +4,12 @@ import { productOutcome } from '#shared/domain/test-outcome.ts';
 import type { PatchTestDetail, PatchTestSummary } from '#shared/schemas/patch-test-log.ts';
 import type { Db } from '../../db/index.ts';
 import { gateConsentsOfRows } from '../consents/index.ts';
-import { listReadPoints, listTestProducts, listTestReadings, listTestRows, type TestFilter, type TestRow } from './repo.ts';
+import { listReadPoints, listTestProducts, listTestReadings, listTestRows, type TestFilter, type TestPage, type TestRow } from './repo.ts';
 
 /** Tests as lists show them, each with whether it waits for a consent: one query across performers (tests with their protocols and consents), two for one performer's. */
-export async function listTestSummaries(db: Db, where: TestFilter): Promise<PatchTestSummary[]> {
+export async function listTestSummaries(db: Db, where: TestFilter, page?: TestPage): Promise<PatchTestSummary[]> {
   // A summary shows how many products, not where they went or which points were read.
-  const rows = await listTestRows(db, { ...where, countsOnly: true });
+  const rows = await listTestRows(db, { ...where, countsOnly: true }, page);
   return summariesOf(db, rows);
 }
 

@@ -56,7 +56,7 @@ export async function performerRecordsZip(ctx: AppContext, actor: Actor, perform
   // The patch-test log, the application log and appliance builds: what touched their skin, and how it answered.
   const patchTests = await performerPatchTests(ctx, actor, performerId, req, 'all');
   const tests = [];
-  for (const t of patchTests.tests) tests.push(await patchTestDetail(ctx, actor, t.id, req));
+  for (const t of patchTests.tests.items) tests.push(await patchTestDetail(ctx, actor, t.id, req));
   // The reading photos, opened: the performer's own copy is the picture, not its sealed bytes.
   const photos: { name: string; bytes: Buffer }[] = [];
   const photoNames = new Map<string, string>();

@@ -20,10 +20,18 @@ export function productionTestsQueryOptions(productionId: string) {
 }
 
 /** A performer's tests and clearances, with one page of the products that are Caution for a shared ingredient. */
-export function performerPatchTestsQueryOptions(performerId: string, sharedPage = 1) {
+/** A performer's tests and clearances: the page of the timeline and of the shared-ingredient Cautions shown (first pages by default). */
+export function performerPatchTestsQueryOptions(performerId: string, pages: { testsPage?: number; sharedPage?: number } = {}) {
+  const testsPage = pages.testsPage ?? 1;
+  const sharedPage = pages.sharedPage ?? 1;
   return queryOptions({
-    queryKey: [...patchTestsKey, 'performer', performerId, sharedPage] as const,
-    queryFn: ({ signal }) => api.get(withQuery(`/api/performers/${encodeURIComponent(performerId)}/patch-tests`, sharedPage > 1 ? { sharedPage } : {}), PerformerPatchTestsSchema, signal),
+    queryKey: [...patchTestsKey, 'performer', performerId, testsPage, sharedPage] as const,
+    queryFn: ({ signal }) =>
+      api.get(
+        withQuery(`/api/performers/${encodeURIComponent(performerId)}/patch-tests`, { ...(testsPage > 1 ? { testsPage } : {}), ...(sharedPage > 1 ? { sharedPage } : {}) }),
+        PerformerPatchTestsSchema,
+        signal,
+      ),
   });
 }
 

@@ -231,7 +231,7 @@ describe('application, removal and readings (lead)', () => {
     expect(head.body.sharedCautions.total).toBe(head.body.sharedCautions.items.length);
     expect(head.body.clearances.map((c: { productName: string }) => c.productName)).not.toContain('Breakwater acrylic sealer');
     expect(head.text).not.toContain('"++"');
-    expect(head.body.tests.find((x: { id: string }) => x.id === testId)).toMatchObject({ status: 'applied' });
+    expect(head.body.tests.items.find((x: { id: string }) => x.id === testId)).toMatchObject({ status: 'applied' });
     const lead = await w.api().get(`/api/performers/${w.juno}/patch-tests`).set('Cookie', w.as.lead);
     const leadRow = lead.body.clearances.find((c: { productName: string }) => c.productName === 'Quayside acrylic emulsion adhesive');
     // + then ++: strongest ++, final ++, rising (crescendo, MSD Manual via check-values.md §1.4).

@@ -20,9 +20,10 @@ import { ClearanceTable } from './clearance-table.tsx';
  * and the clearance of each product that matters for this performer.
  */
 export function PerformerPatchTests({ performerId, isSelf }: { performerId: string; isSelf: boolean }) {
-  // The page of shared-ingredient Cautions shown; the rest of the answer is the same on every page.
+  // The pages of the timeline and of the shared-ingredient Cautions shown; the rest of the answer is the same on every page.
+  const [testsPage, setTestsPage] = useState(1);
   const [sharedPage, setSharedPage] = useState(1);
-  const query = useQuery({ ...performerPatchTestsQueryOptions(performerId, sharedPage), placeholderData: keepPreviousData });
+  const query = useQuery({ ...performerPatchTestsQueryOptions(performerId, { testsPage, sharedPage }), placeholderData: keepPreviousData });
   return (
     <QueryView query={query} loadingLabel="Loading patch tests…">
       {(data) => (
@@ -38,16 +39,16 @@ export function PerformerPatchTests({ performerId, isSelf }: { performerId: stri
           }
         >
           <ScreeningLabel />
-          {data.medical && data.tests.length > 0 ? (
+          {data.medical && data.tests.total > 0 ? (
             <a href={`/api/performers/${encodeURIComponent(performerId)}/patch-tests/summary.pdf`} className="inline-flex min-h-11 w-fit items-center font-semibold">
               Printable result summary (PDF)
             </a>
           ) : null}
-          {data.tests.length === 0 ? (
+          {data.tests.total === 0 ? (
             <EmptyState title={isSelf ? 'You have not been patch tested yet.' : 'No patch test booked yet.'}>Tests and what they clear appear here.</EmptyState>
           ) : (
             <ol className="flex flex-col divide-y divide-sand-200" aria-label="Patch tests, newest first">
-              {data.tests.map((t) => (
+              {data.tests.items.map((t) => (
                 <li key={t.id} className="flex flex-wrap items-center gap-3 py-2">
                   <Link to={paths.patchTest.href(t.id)} className="inline-flex min-h-11 items-center font-semibold">
                     {t.protocolName}, {formatDateTime(t.appliedAt ?? t.startsAt)}
@@ -62,6 +63,7 @@ export function PerformerPatchTests({ performerId, isSelf }: { performerId: stri
               ))}
             </ol>
           )}
+          {data.tests.total > data.tests.pageSize ? <Pager page={data.tests.page} pageSize={data.tests.pageSize} total={data.tests.total} noun="patch tests" onPage={setTestsPage} /> : null}
           {data.clearances.length > 0 ? (
             <ClearanceTable rows={data.clearances} medical={data.medical} performerId={performerId} canOverride={data.canOverride} />
           ) : null}
