@@ -120,9 +120,9 @@ export async function performerSummaryPdf(ctx: AppContext, actor: Actor, perform
   const { scope, resource } = await scopeFor(ctx, actor, performerId);
   authorize(actor, 'medical.read', resource);
   const data = await performerPatchTests(ctx, actor, performerId, req, 'all');
-  const rows = await listTestRows(ctx.db, { ids: data.tests.items.filter((t) => t.status !== 'cancelled').map((t) => t.id) }, { offset: 0, limit: ALL_TESTS });
+  const rows = await listTestRows(ctx.db, { ids: data.tests.items.filter((t) => t.status !== 'cancelled').map((t) => t.id) }, { newestFirst: true, offset: 0, limit: ALL_TESTS });
   // One detail per test: a print, read once, not a list screen.
   const tests = [];
-  for (const row of rows.toReversed()) tests.push(await testDetail(ctx.db, row, { medical: true, now: new Date(), timeZone: ctx.config.timeZone }));
+  for (const row of rows) tests.push(await testDetail(ctx.db, row, { medical: true, now: new Date(), timeZone: ctx.config.timeZone }));
   return renderSummaryPdf({ performerName: scope.name, printedAt: new Date(), timeZone: ctx.config.timeZone, clearances: data.clearances, sharedCautions: data.sharedCautions.items, tests });
 }

@@ -19,7 +19,6 @@ export function productionTestsQueryOptions(productionId: string) {
   });
 }
 
-/** A performer's tests and clearances, with one page of the products that are Caution for a shared ingredient. */
 /** A performer's tests and clearances: the page of the timeline and of the shared-ingredient Cautions shown (first pages by default). */
 export function performerPatchTestsQueryOptions(performerId: string, pages: { testsPage?: number; sharedPage?: number } = {}) {
   const testsPage = pages.testsPage ?? 1;
