@@ -154,7 +154,10 @@ describe('the header names the production the page shows', () => {
 
       await page.goto(`${appUrl}/archive/casts/${cast.id}`);
       await page.getByTestId('acting-context').getByText('The Lantern Keeper · Archivist').waitFor();
-      expect(await page.locator('main').textContent()).toContain('from The Lantern Keeper');
+      // The seat can switch before the cast itself has loaded; wait for the cast's line, not the loading note.
+      const origin = page.locator('main').getByText(/ · from The Lantern Keeper · /);
+      await origin.waitFor();
+      expect(await origin.textContent()).toContain('from The Lantern Keeper');
     });
   });
 });
