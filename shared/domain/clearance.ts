@@ -162,6 +162,8 @@ export interface TestFacts {
   codes: GradedCode[];
   start: number;
   finalAt: number | null;
+  /** When any reading was last made, not-tested ones included (-Infinity before the first). */
+  lastReadAt: number;
   final: GradedCode | null;
   complete: boolean;
   finished: boolean;
@@ -181,6 +183,7 @@ function factsOf(t: TestedProduct): TestFacts {
     codes,
     start: t.appliedAt?.getTime() ?? graded[0]?.readAt.getTime() ?? Number.POSITIVE_INFINITY,
     finalAt: last?.readAt.getTime() ?? null,
+    lastReadAt: t.readings.reduce((m, r) => Math.max(m, r.readAt.getTime()), Number.NEGATIVE_INFINITY),
     final: (last?.code as GradedCode | undefined) ?? null,
     complete,
     finished: complete || t.status === 'closed' || t.status === 'cancelled',
@@ -301,7 +304,7 @@ function clearanceOf(f: FormulationFacts, p: Prepared): ClearanceResult {
   const c = computed(f, p);
   const head = { productId: f.productId, formulationId: f.formulationId, productName: f.productName };
   const o = p.overrides.get(f.formulationId);
-  const readLater = o !== undefined && (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.t.readings.some((r) => r.readAt.getTime() > (o?.at.getTime() ?? Infinity)));
+  const readLater = o !== undefined && (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.lastReadAt > o.at.getTime());
   const ended = o?.expiresAt != null && o.expiresAt.getTime() <= p.now.getTime();
   if (o && !readLater && !ended) {
     return {

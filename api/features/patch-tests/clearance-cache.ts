@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import { LRUCache } from 'lru-cache';
 import type { FormulationFacts } from '#shared/domain/clearance.ts';
 import { buildVocabulary, normaliseInciName, type Ingredient, type IngredientVocabulary } from '#shared/domain/ingredients.ts';
+import { isPositive } from '#shared/domain/icdrg.ts';
 import { requiredPointIds } from '#shared/domain/protocols.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationsListing, listVocabularyWithIds, loadFormulationsWithIngredients } from '../catalogue/index.ts';
@@ -54,12 +55,43 @@ export interface KeptVocabulary {
   /** `normaliseInciName(rows[i].inci)`. */
   keys: readonly string[];
   index: IngredientVocabulary;
+  /** The ids of the rows by their normalised INCI name, and of the non-trivial ones alone. */
+  idsByKey: ReadonlyMap<string, readonly string[]>;
+  nonTrivialIdsByKey: ReadonlyMap<string, readonly string[]>;
+  /** The ids of the rows by allergen group. */
+  idsByGroup: ReadonlyMap<string, readonly string[]>;
+}
+
+function groupIds<T>(rows: readonly T[], keyOf: (row: T, i: number) => string | null, idOf: (row: T) => string): ReadonlyMap<string, readonly string[]> {
+  const out = new Map<string, string[]>();
+  rows.forEach((row, i) => {
+    const key = keyOf(row, i);
+    if (key === null) return;
+    const list = out.get(key);
+    if (list) list.push(idOf(row));
+    else out.set(key, [idOf(row)]);
+  });
+  return out;
+}
+
+/** The vocabulary as a loader keeps it: each row's key, and the ids by key and by group. */
+export function keepVocabulary(rows: readonly (Ingredient & { id: string })[]): KeptVocabulary {
+  const keys = rows.map((r) => normaliseInciName(r.inci));
+  return deepFreeze({
+    rows,
+    keys,
+    index: buildVocabulary(rows),
+    idsByKey: groupIds(rows, (_, i) => keys[i]!, (r) => r.id),
+    nonTrivialIdsByKey: groupIds(rows, (r, i) => (r.trivial ? null : keys[i]!), (r) => r.id),
+    idsByGroup: groupIds(rows, (r) => r.group, (r) => r.id),
+  });
 }
 
 /** What a loader uses when it needs no vocabulary (no declared allergy, nothing reacted). */
-export const NO_VOCABULARY: KeptVocabulary = Object.freeze({ rows: [], keys: [], index: buildVocabulary([]) });
+export const NO_VOCABULARY: KeptVocabulary = keepVocabulary([]);
 
-type Listing = Awaited<ReturnType<typeof currentFormulationsListing>>[number];
+/** A listing row with its unlinked label names normalised (`normaliseInciName`), once, as it is kept. */
+type Listing = Awaited<ReturnType<typeof currentFormulationsListing>>[number] & { unlinkedKeys: readonly string[] };
 type ListingQuery = Parameters<typeof currentFormulationsListing>[1];
 
 /**
@@ -127,22 +159,83 @@ export async function testedProductsOf(db: Db, performerId: string, stamps: Clea
   return rows;
 }
 
-const testFacts = new WeakMap<readonly TestedProductRow[], { catalogue: string; value: unknown }>();
+/**
+ * A value worked out from an array this module keeps (frozen), kept beside it in a weak map so it goes
+ * when the array does, and reused while `sig` (what else the value was worked out from) is the same.
+ * One value an array: a different `sig` replaces it. An array not kept, or a null `sig`: built every time.
+ * Never change what it hands back.
+ */
+function keptBeside<T>(): (owner: readonly unknown[], sig: string | null, build: () => T) => T {
+  const beside = new WeakMap<readonly unknown[], { sig: string; value: T }>();
+  return (owner, sig, build) => {
+    if (sig === null || !Object.isFrozen(owner)) return build();
+    const hit = beside.get(owner);
+    if (hit && hit.sig === sig) return hit.value;
+    const value = build();
+    beside.set(owner, { sig, value });
+    return value;
+  };
+}
+
+const testFacts = keptBeside<unknown>();
 
 /**
  * The tests' part of a clearance answer (`prepareTests` over the tested products with their protocols'
  * points), worked out once for tested rows this module keeps and reused while the catalogue's stamp, under
- * which the points were read, stands. Kept beside the rows themselves (a weak map on the kept array), so
- * it goes when they do: about 0.3 kB more a tested product (the readings are the kept rows' own). Rows
- * not kept, or no catalogue stamp: built every time. Never change what it hands back.
+ * which the points were read, stands: about 0.3 kB more a tested product (the readings are the kept rows'
+ * own). Rows not kept, or no catalogue stamp: built every time. Never change what it hands back.
  */
 export function keptTestFacts<T>(tested: readonly TestedProductRow[], catalogueStamp: string | null, build: () => T): T {
-  if (catalogueStamp === null || !Object.isFrozen(tested)) return build();
-  const hit = testFacts.get(tested);
-  if (hit && hit.catalogue === catalogueStamp) return hit.value as T;
-  const value = build();
-  testFacts.set(tested, { catalogue: catalogueStamp, value });
-  return value;
+  return testFacts(tested, catalogueStamp, build) as T;
+}
+
+/** What the clearance table reads off a performer's tested products, whatever else it is asked. */
+export interface TestedSummary {
+  formulationIds: readonly string[];
+  productIds: readonly string[];
+  protocolVersionIds: readonly string[];
+  /** The formulations with a positive reading in any test. */
+  reactedFormulationIds: ReadonlySet<string>;
+}
+
+const testedSummaries = keptBeside<TestedSummary>();
+
+/** The ids the clearance table needs from the tested products, worked out once while they are kept. */
+export function keptTestedSummary(tested: readonly TestedProductRow[]): TestedSummary {
+  return testedSummaries(tested, '', () => ({
+    formulationIds: [...new Set(tested.map((t) => t.formulationId))],
+    productIds: [...new Set(tested.map((t) => t.productId))],
+    protocolVersionIds: [...new Set(tested.map((t) => t.protocolVersionId))],
+    reactedFormulationIds: new Set(tested.filter((t) => t.readings.some((r) => isPositive(r.code))).map((t) => t.formulationId)),
+  }));
+}
+
+/** A listing sorted for the clearance table: the products it adds to the table, and those sharing an ingredient. */
+export interface ListingSplit {
+  /** Products listing an ingredient of a declared allergy (which outranks sharing). */
+  allergyProductIds: readonly string[];
+  /** The rest of the rows listing a non-trivial ingredient of a formulation that reacted, in the listing's order. */
+  sharing: readonly Listing[];
+}
+
+const listingSplits = keptBeside<ListingSplit>();
+
+/**
+ * Splits a listing by what its rows match: a declared allergy (by ingredient, or an unlinked label name
+ * with an allergy's key) or else an ingredient shared with what reacted (likewise). Kept beside a kept
+ * listing for the keys it was split by.
+ */
+export function splitListing(listing: readonly Listing[], keys: { allergy: ReadonlySet<string>; reacted: ReadonlySet<string> }): ListingSplit {
+  const sig = JSON.stringify([[...keys.allergy].sort(), [...keys.reacted].sort()]);
+  return listingSplits(listing, sig, () => {
+    const allergyProductIds: string[] = [];
+    const sharing: Listing[] = [];
+    for (const r of listing) {
+      if (r.allergy || r.unlinkedKeys.some((k) => keys.allergy.has(k))) allergyProductIds.push(r.productId);
+      else if (r.shares || r.unlinkedKeys.some((k) => keys.reacted.has(k))) sharing.push(r);
+    }
+    return { allergyProductIds, sharing };
+  });
 }
 
 /** `loadFormulationsWithIngredients`, reading only those not kept under the catalogue's stamp. */
@@ -163,8 +256,7 @@ export async function formulationFactsOf(db: Db, formulationIds: readonly string
 export async function vocabularyOf(db: Db, stamps: ClearanceStamps): Promise<KeptVocabulary> {
   const c = catalogueFor(db, stamps.catalogue);
   if (c.vocabulary) return c.vocabulary;
-  const rows = await listVocabularyWithIds(db);
-  const kept: KeptVocabulary = { rows: deepFreeze(rows), keys: Object.freeze(rows.map((r) => normaliseInciName(r.inci))), index: buildVocabulary(rows) };
+  const kept = keepVocabulary(await listVocabularyWithIds(db));
   if (stamps.catalogue !== null) c.vocabulary = kept;
   return kept;
 }
@@ -194,7 +286,7 @@ export async function listingOf(db: Db, q: ListingQuery, stamps: ClearanceStamps
     .digest('base64');
   const hit = c.listings.get(key);
   if (hit) return hit;
-  const rows = await currentFormulationsListing(db, q);
+  const rows = (await currentFormulationsListing(db, q)).map((r) => ({ ...r, unlinkedKeys: r.unlinkedNames.map(normaliseInciName) }));
   if (stamps.catalogue !== null) c.listings.set(key, deepFreeze(rows));
   return rows;
 }

@@ -1,10 +1,8 @@
 import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.ts';
-import { isPositive } from '#shared/domain/icdrg.ts';
-import { normaliseInciName } from '#shared/domain/ingredients.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationIds, productsWithCurrentFormulation } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { formulationFactsOf, listingOf, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
+import { formulationFactsOf, keptTestedSummary, listingOf, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, splitListing, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
 import { decide, type ClearanceFacts } from './clearance-loader.ts';
 import { listOverrides } from './clearance-repo.ts';
 
@@ -29,15 +27,11 @@ export interface TableFacts extends ClearanceFacts {
 export async function loadTableFacts(db: Db, q: { performerId: string; now: Date; sharedPage?: { page: number; pageSize: number } }): Promise<TableFacts> {
   const [stamps, overrides, answers] = await Promise.all([readClearanceStamps(db, q.performerId), listOverrides(db, q.performerId), listDeclaredAllergyAnswers(db, q.performerId)]);
   const tested = await testedProductsOf(db, q.performerId, stamps);
-  const testedIds = [...new Set(tested.map((t) => t.formulationId))];
-  const reactedIds = new Set(tested.filter((t) => t.readings.some((r) => isPositive(r.code))).map((t) => t.formulationId));
+  const summary = keptTestedSummary(tested);
+  const reactedIds = summary.reactedFormulationIds;
   const [requiredPoints, testedFacts, vocabulary] = await Promise.all([
-    requiredPointsOf(
-      db,
-      tested.map((t) => t.protocolVersionId),
-      stamps,
-    ),
-    formulationFactsOf(db, testedIds, stamps),
+    requiredPointsOf(db, summary.protocolVersionIds, stamps),
+    formulationFactsOf(db, summary.formulationIds, stamps),
     answers.length > 0 || reactedIds.size > 0 ? vocabularyOf(db, stamps) : Promise.resolve(NO_VOCABULARY),
   ]);
 
@@ -46,28 +40,24 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   const allergies = answers.length > 0 ? declaredAllergiesFromAnswers(answers, vocabulary.index) : [];
   const allergyKeys = new Set(allergies.flatMap((a) => (a.kind === 'ingredient' ? [a.key] : [])));
   const allergyGroups = new Set(allergies.flatMap((a) => (a.kind === 'group' ? [a.group] : [])));
-  const sharedIngredientIds = new Set(vocabulary.rows.filter((v, i) => !v.trivial && reactedKeys.has(vocabulary.keys[i]!)).map((v) => v.id));
-  const allergyIngredientIds = new Set(vocabulary.rows.filter((v, i) => allergyKeys.has(vocabulary.keys[i]!) || allergyGroups.has(v.group)).map((v) => v.id));
+  const idsOf = (index: ReadonlyMap<string, readonly string[]>, keys: ReadonlySet<string>) => [...keys].flatMap((k) => index.get(k) ?? []);
+  const sharedIngredientIds = idsOf(vocabulary.nonTrivialIdsByKey, reactedKeys);
+  const allergyIngredientIds = [...idsOf(vocabulary.idsByKey, allergyKeys), ...idsOf(vocabulary.idsByGroup, allergyGroups)];
   const [listing, overridden] = await Promise.all([
-    listingOf(db, { allergyIds: [...allergyIngredientIds], sharedIds: [...sharedIngredientIds], unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }, stamps),
+    listingOf(db, { allergyIds: allergyIngredientIds, sharedIds: sharedIngredientIds, unlinked: reactedKeys.size > 0 || allergyKeys.size > 0 }, stamps),
     productsWithCurrentFormulation(
       db,
       overrides.map((o) => o.formulationId),
     ),
   ]);
   // The table proper: what was tested, decided, or matches a declared allergy (which outranks sharing).
-  const core = new Set([...tested.map((t) => t.productId), ...overridden]);
-  const sharing: (typeof listing)[number][] = [];
-  for (const r of listing) {
-    const names = r.unlinkedNames.map(normaliseInciName);
-    if (r.allergy || names.some((k) => allergyKeys.has(k))) core.add(r.productId);
-    else if (r.shares || names.some((k) => reactedKeys.has(k))) sharing.push(r);
-  }
+  const split = splitListing(listing, { allergy: allergyKeys, reacted: reactedKeys });
+  const core = new Set([...summary.productIds, ...overridden, ...split.allergyProductIds]);
   // The listing comes in the catalogue's order (by name), so a page is the same slice however it is asked for.
-  const sharedOnly = sharing.filter((r) => !core.has(r.productId));
+  const sharedOnly = split.sharing.filter((r) => !core.has(r.productId));
   const page = q.sharedPage ? sharedOnly.slice((q.sharedPage.page - 1) * q.sharedPage.pageSize, q.sharedPage.page * q.sharedPage.pageSize) : sharedOnly;
   const current = [...(await currentFormulationIds(db, [...core])), ...page.map((r) => ({ productId: r.productId, formulationId: r.formulationId }))];
-  const known = new Set(testedIds);
+  const known = new Set(summary.formulationIds);
   const more = await formulationFactsOf(
     db,
     current.map((c) => c.formulationId).filter((id) => !known.has(id)),

@@ -2,7 +2,7 @@ import { Kysely, PostgresDialect } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sealJson } from '../../../api/crypto/medical.ts';
 import type { Database } from '../../../api/db/schema.ts';
-import { forgetClearanceKept, keptTestFacts, readClearanceStamps } from '../../../api/features/patch-tests/clearance-cache.ts';
+import { forgetClearanceKept, keptTestedSummary, keptTestFacts, readClearanceStamps, splitListing } from '../../../api/features/patch-tests/clearance-cache.ts';
 import { loadClearanceFacts } from '../../../api/features/patch-tests/clearance-loader.ts';
 import { loadTableFacts } from '../../../api/features/patch-tests/clearance-scope.ts';
 import { createTestApp, type TestApp } from '../../support/app.ts';
@@ -214,6 +214,52 @@ describe('what clearance keeps', () => {
     keptTestFacts(loose, '42', build);
     keptTestFacts(tested, null, build);
     expect(built).toBe(5);
+  });
+
+  it('sorts a kept listing once for the keys it was split by, and again for other keys', async () => {
+    const row = (productId: string, o: { allergy?: boolean; shares?: boolean; unlinked?: string[] }) => ({
+      productId,
+      formulationId: `f-${productId}`,
+      allergy: o.allergy ?? false,
+      shares: o.shares ?? false,
+      unlinkedNames: o.unlinked ?? [],
+      unlinkedKeys: o.unlinked ?? [],
+    });
+    const listing = Object.freeze([
+      row('p1', { allergy: true, shares: true }),
+      row('p2', { shares: true }),
+      row('p3', { unlinked: ['colophonium'] }),
+      row('p4', { unlinked: ['lanolin'] }),
+      row('p5', {}),
+    ]);
+    const keys = { allergy: new Set(['colophonium']), reacted: new Set(['lanolin', 'beeswax']) };
+    const first = splitListing(listing, keys);
+    // A declared allergy outranks sharing; an unlinked label name counts by its key; the listing's order stays.
+    expect(first.allergyProductIds).toEqual(['p1', 'p3']);
+    expect(first.sharing.map((r) => r.productId)).toEqual(['p2', 'p4']);
+    // The same keys in another order: the kept split. Other keys: split again.
+    expect(splitListing(listing, { allergy: new Set(['colophonium']), reacted: new Set(['beeswax', 'lanolin']) })).toBe(first);
+    const other = splitListing(listing, { allergy: new Set(), reacted: new Set(['lanolin']) });
+    expect(other).not.toBe(first);
+    expect(other.allergyProductIds).toEqual(['p1']);
+    expect(other.sharing.map((r) => r.productId)).toEqual(['p2', 'p4']);
+    // A listing nobody keeps is split every time.
+    const loose = [...listing];
+    expect(splitListing(loose, keys)).not.toBe(splitListing(loose, keys));
+  });
+
+  it("works out the tested products' ids once while the rows are kept", async () => {
+    forgetClearanceKept(kept);
+    await clearanceOf(juno, ['Quayside acrylic emulsion adhesive']);
+    const { tested } = await clearanceOf(juno, ['Quayside acrylic emulsion adhesive']);
+    const summary = keptTestedSummary(tested);
+    expect(tested.length).toBeGreaterThan(1);
+    expect(summary.reactedFormulationIds.size).toBeGreaterThan(0);
+    expect(keptTestedSummary(tested)).toBe(summary);
+    expect([...summary.formulationIds].sort()).toEqual([...new Set(tested.map((r) => r.formulationId))].sort());
+    expect([...summary.productIds].sort()).toEqual([...new Set(tested.map((r) => r.productId))].sort());
+    expect([...summary.reactedFormulationIds].sort()).toEqual([...new Set(tested.filter((r) => r.readings.some((x) => ['+', '++', '+++'].includes(x.code))).map((r) => r.formulationId))].sort());
+    expect(keptTestedSummary([...tested])).not.toBe(summary);
   });
 
   it('hands out frozen rows, so no caller can change what the next request gets', async () => {
