@@ -162,8 +162,6 @@ export interface TestFacts {
   codes: GradedCode[];
   start: number;
   finalAt: number | null;
-  /** When any reading was last made, not-tested ones included (-Infinity before the first). */
-  lastReadAt: number;
   final: GradedCode | null;
   complete: boolean;
   finished: boolean;
@@ -183,7 +181,6 @@ function factsOf(t: TestedProduct): TestFacts {
     codes,
     start: t.appliedAt?.getTime() ?? graded[0]?.readAt.getTime() ?? Number.POSITIVE_INFINITY,
     finalAt: last?.readAt.getTime() ?? null,
-    lastReadAt: t.readings.reduce((m, r) => Math.max(m, r.readAt.getTime()), Number.NEGATIVE_INFINITY),
     final: (last?.code as GradedCode | undefined) ?? null,
     complete,
     finished: complete || t.status === 'closed' || t.status === 'cancelled',
@@ -197,22 +194,76 @@ function reason(code: ClearanceReasonCode): ClearanceReason {
   return { code, text: CLEARANCE_REASON_TEXTS[code] };
 }
 
+/** What all the tests of one formulation say together: everything clearance asks of them but the date. */
+interface FormulationTests {
+  count: number;
+  /** Any `+` or stronger. */
+  positive: boolean;
+  /** A clean run: complete and negative throughout. The latest one's final reading (ms), or null without one. */
+  latestCleanFinalAt: number | null;
+  /** In the tests a later clean run has not set aside (none positive): a doubtful final reading, any doubtful reading, any irritant one. */
+  retestAdvised: boolean;
+  doubtful: boolean;
+  irritation: boolean;
+  /** Readings outstanding on a test still booked, or applied. */
+  booked: boolean;
+  applied: boolean;
+  /** A test that ended without every reading. */
+  finishedIncomplete: boolean;
+  /** When any reading was last made, not-tested ones included (-Infinity before the first). */
+  lastReadAt: number;
+}
+
+const NO_TESTS: FormulationTests = Object.freeze({
+  count: 0,
+  positive: false,
+  latestCleanFinalAt: null,
+  retestAdvised: false,
+  doubtful: false,
+  irritation: false,
+  booked: false,
+  applied: false,
+  finishedIncomplete: false,
+  lastReadAt: Number.NEGATIVE_INFINITY,
+});
+
+function formulationTests(tests: readonly TestFacts[]): FormulationTests {
+  // A doubtful or irritant result stands until a later complete test of the same formulation is negative throughout.
+  const cleanRuns = tests.filter((x) => x.complete && x.allNegative);
+  // No clean run started after it: at or after the latest clean run's start.
+  const lastCleanStart = cleanRuns.reduce((m, c) => Math.max(m, c.start), Number.NEGATIVE_INFINITY);
+  const standing = tests.filter((x) => !x.positive && x.start >= lastCleanStart);
+  return {
+    count: tests.length,
+    positive: tests.some((x) => x.positive),
+    // Every clean run has a final reading (it is complete and negative throughout).
+    latestCleanFinalAt: cleanRuns.length > 0 ? cleanRuns.reduce((m, x) => Math.max(m, x.finalAt ?? 0), Number.NEGATIVE_INFINITY) : null,
+    retestAdvised: standing.some((x) => x.finished && x.final === '?+'),
+    doubtful: standing.some((x) => x.codes.includes('?+')),
+    irritation: standing.some((x) => x.codes.includes('IR')),
+    booked: tests.some((x) => x.pending && x.t.status === 'booked'),
+    applied: tests.some((x) => x.pending && x.t.status === 'applied'),
+    finishedIncomplete: tests.some((x) => x.finished && !x.complete),
+    lastReadAt: tests.reduce((m, x) => x.t.readings.reduce((n, r) => Math.max(n, r.readAt.getTime()), m), Number.NEGATIVE_INFINITY),
+  };
+}
+
 /** The part of clearance that depends on the tests alone: read-only, shared by every call given it. */
 export interface PreparedTests {
-  testsByFormulation: ReadonlyMap<string, readonly TestFacts[]>;
+  testsByFormulation: ReadonlyMap<string, FormulationTests>;
   testedProducts: ReadonlySet<string>;
 }
 
-/** Each tested product's facts, by formulation, and the products tested: the tests' part of every answer. */
+/** What the tests of each formulation say, and the products tested: the tests' part of every answer. */
 export function prepareTests(tests: readonly TestedProduct[]): PreparedTests {
-  const testsByFormulation = new Map<string, TestFacts[]>();
+  const facts = new Map<string, TestFacts[]>();
   const testedProducts = new Set<string>();
   for (const t of tests) {
-    const list = testsByFormulation.get(t.formulationId) ?? testsByFormulation.set(t.formulationId, []).get(t.formulationId)!;
+    const list = facts.get(t.formulationId) ?? facts.set(t.formulationId, []).get(t.formulationId)!;
     list.push(factsOf(t));
     testedProducts.add(t.productId);
   }
-  return { testsByFormulation, testedProducts };
+  return { testsByFormulation: new Map([...facts].map(([id, list]) => [id, formulationTests(list)])), testedProducts };
 }
 
 interface Prepared extends PreparedTests {
@@ -229,7 +280,7 @@ function prepare(input: PerformerClearanceInput): Prepared {
   const known = new Map<string, FormulationFacts>();
   for (const f of [...input.testedFormulations, ...input.formulations]) if (!known.has(f.formulationId)) known.set(f.formulationId, f);
   const reacted = [...testsByFormulation]
-    .filter(([, facts]) => facts.some((x) => x.positive))
+    .filter(([, tests]) => tests.positive)
     .flatMap(([id]) => (known.get(id)?.ingredients?.length ? [known.get(id)!] : []));
   const reactedByKey = new Map<string, Set<string>>();
   for (const g of reacted) {
@@ -244,20 +295,15 @@ function prepare(input: PerformerClearanceInput): Prepared {
 }
 
 function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; reasons: ClearanceReason[]; validUntil: Date | null; retestAdvised: boolean } {
-  const tests = p.testsByFormulation.get(f.formulationId) ?? [];
+  const tests = p.testsByFormulation.get(f.formulationId) ?? NO_TESTS;
   const ingredients = f.ingredients ?? [];
   const recorded = ingredients.length > 0;
 
   const stop: ClearanceReason[] = [];
-  if (tests.some((x) => x.positive)) stop.push(reason('reacted'));
+  if (tests.positive) stop.push(reason('reacted'));
   if (ingredients.some((ing) => p.allergies.some((a) => matchesAllergy(ing, a)))) stop.push(reason('declared_allergy'));
 
-  // A doubtful or irritant result stands until a later complete test of the same formulation is negative throughout.
-  const cleanRuns = tests.filter((x) => x.complete && x.allNegative);
-  // No clean run started after it: at or after the latest clean run's start.
-  const lastCleanStart = cleanRuns.reduce((m, c) => Math.max(m, c.start), Number.NEGATIVE_INFINITY);
-  const standing = tests.filter((x) => !x.positive && x.start >= lastCleanStart);
-  const retestAdvised = standing.some((x) => x.finished && x.final === '?+');
+  const retestAdvised = tests.retestAdvised;
   const caution: ClearanceReason[] = [];
   // A non-trivial ingredient that another formulation which reacted also lists (looked up by key, not pair by pair).
   const sharesReacted = ingredients.some((ing) => {
@@ -268,21 +314,20 @@ function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; re
     caution.push(reason('shared_ingredient'));
   }
   if (retestAdvised) caution.push(reason('doubtful_final'));
-  else if (standing.some((x) => x.codes.includes('?+'))) caution.push(reason('doubtful_reading'));
-  if (standing.some((x) => x.codes.includes('IR'))) caution.push(reason('irritation'));
+  else if (tests.doubtful) caution.push(reason('doubtful_reading'));
+  if (tests.irritation) caution.push(reason('irritation'));
 
   const pending: ClearanceReason[] = [];
-  if (tests.some((x) => x.pending && x.t.status === 'booked')) pending.push(reason('test_booked'));
-  if (tests.some((x) => x.pending && x.t.status === 'applied')) pending.push(reason('readings_outstanding'));
+  if (tests.booked) pending.push(reason('test_booked'));
+  if (tests.applied) pending.push(reason('readings_outstanding'));
 
-  const latestClean = cleanRuns.reduce<TestFacts | null>((best, x) => (best === null || (x.finalAt ?? 0) > (best.finalAt ?? 0) ? x : best), null);
-  const validUntil = latestClean?.finalAt != null ? addMonths(new Date(latestClean.finalAt), p.months) : null;
+  const validUntil = tests.latestCleanFinalAt !== null ? addMonths(new Date(tests.latestCleanFinalAt), p.months) : null;
   const valid = validUntil !== null && validUntil.getTime() > p.now.getTime();
 
   const base: ClearanceReason[] = [];
-  if (tests.length === 0) base.push(reason(p.testedProducts.has(f.productId) ? 'new_formulation' : 'not_tested'));
-  else if (latestClean && !valid) base.push(reason('last_test_expired'));
-  else if (!latestClean && pending.length === 0 && caution.length === 0 && tests.some((x) => x.finished && !x.complete)) base.push(reason('test_incomplete'));
+  if (tests.count === 0) base.push(reason(p.testedProducts.has(f.productId) ? 'new_formulation' : 'not_tested'));
+  else if (tests.latestCleanFinalAt !== null && !valid) base.push(reason('last_test_expired'));
+  else if (tests.latestCleanFinalAt === null && pending.length === 0 && caution.length === 0 && tests.finishedIncomplete) base.push(reason('test_incomplete'));
   const records = recorded ? [] : [reason('ingredients_not_recorded')];
 
   if (stop.length > 0) return { state: 'do_not_use', reasons: [...stop, ...records], validUntil: null, retestAdvised };
@@ -304,7 +349,7 @@ function clearanceOf(f: FormulationFacts, p: Prepared): ClearanceResult {
   const c = computed(f, p);
   const head = { productId: f.productId, formulationId: f.formulationId, productName: f.productName };
   const o = p.overrides.get(f.formulationId);
-  const readLater = o !== undefined && (p.testsByFormulation.get(f.formulationId) ?? []).some((x) => x.lastReadAt > o.at.getTime());
+  const readLater = o !== undefined && (p.testsByFormulation.get(f.formulationId) ?? NO_TESTS).lastReadAt > o.at.getTime();
   const ended = o?.expiresAt != null && o.expiresAt.getTime() <= p.now.getTime();
   if (o && !readLater && !ended) {
     return {
