@@ -8,6 +8,7 @@ import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
 import type express from 'express';
 import pg from 'pg';
+import { WORD_SIMILARITY_INDEX_CUTOFF_TEXT } from '../api/db/index.ts';
 
 export interface Row {
   label: string;
@@ -119,7 +120,7 @@ function seqScansOf(node: Record<string, unknown>, out: string[] = []): string[]
 
 /** EXPLAIN (ANALYZE, FORMAT JSON) of each read a route made, on a client of its own; writes are left alone. */
 export async function explainStatements(connectionString: string, route: string, statements: Statement[]): Promise<PlanReport[]> {
-  const client = new pg.Client({ connectionString, options: '-c pg_trgm.word_similarity_threshold=0.3 -c jit=off' });
+  const client = new pg.Client({ connectionString, options: `-c pg_trgm.word_similarity_threshold=${WORD_SIMILARITY_INDEX_CUTOFF_TEXT} -c jit=off` });
   await client.connect();
   try {
     const sizes = new Map((await client.query<{ relname: string; n: number }>(`select relname, reltuples::float8 as n from pg_class where relkind = 'r'`)).rows.map((r) => [r.relname, r.n]));

@@ -10,11 +10,27 @@ pg.types.setTypeParser(20, (v) => v);
 
 export type Db = Kysely<Database>;
 
-/**
- * Fuzzy-match cut-off for pg_trgm's word similarity, set on every connection so the index-backed
- * `<%` operator and an explicit word_similarity() comparison agree without a transaction per search.
- */
+/** Fuzzy-match cut-off of name search: a name matches when pg_trgm's word_similarity() is above it. */
 export const WORD_SIMILARITY_THRESHOLD = 0.3;
+
+/** The least float4 above `x` (as a float4): one unit in the last place up, for a positive `x`. */
+function nextFloat4Above(x: number): number {
+  const f = new Float32Array([x]);
+  const bits = new Uint32Array(f.buffer);
+  bits[0] = bits[0]! + 1;
+  return f[0]!;
+}
+
+/**
+ * The cut-off every connection gives pg_trgm (`pg_trgm.word_similarity_threshold`), so the index-backed
+ * `<%` operator means exactly `word_similarity() > WORD_SIMILARITY_THRESHOLD` without a transaction per
+ * search. word_similarity() is a float4 and `<%` tests `>=`, so the cut-off is the least float4 above the
+ * threshold: with 0.3 itself, every name sharing three of a ten-trigram term's trigrams (similarity 0.3
+ * exactly) passes the index and is only dropped by the explicit comparison, hundreds of rows read in vain.
+ */
+export const WORD_SIMILARITY_INDEX_CUTOFF = nextFloat4Above(WORD_SIMILARITY_THRESHOLD);
+/** The cut-off as PostgreSQL reads it back to the same double (17 significant digits). */
+export const WORD_SIMILARITY_INDEX_CUTOFF_TEXT = WORD_SIMILARITY_INDEX_CUTOFF.toPrecision(17);
 
 /**
  * Ids as one uuid[] parameter, for `column = any(...)`: PostgreSQL plans one array far better than a
@@ -68,7 +84,7 @@ export function createDb(databaseUrl: string, opts: { max?: number; log?: (msg: 
     connectionString: databaseUrl,
     // The trigram cut-off of name search, and no JIT: Plinth's queries are short and index-backed, and
     // compiling one to machine code costs more than it saves.
-    options: `-c pg_trgm.word_similarity_threshold=${WORD_SIMILARITY_THRESHOLD} -c jit=off`,
+    options: `-c pg_trgm.word_similarity_threshold=${WORD_SIMILARITY_INDEX_CUTOFF_TEXT} -c jit=off`,
     Client: PreparingClient,
     max: opts.max ?? 10,
     connectionTimeoutMillis: 5000,

@@ -5,7 +5,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest
 import { loadActor } from '../../api/http/actor.ts';
 import { SessionStore } from '../../api/http/session.ts';
 import { PREPARE_MAX_PARAMS } from '../../api/db/index.ts';
-import { WORD_SIMILARITY_THRESHOLD } from '../../api/features/performers/list-repo.ts';
+import { WORD_SIMILARITY_INDEX_CUTOFF, WORD_SIMILARITY_THRESHOLD } from '../../api/db/index.ts';
 import { allRoutes } from '../../api/routes.ts';
 import { createTestApp, type TestApp } from '../support/app.ts';
 
@@ -369,7 +369,24 @@ describe('the lent tablet', () => {
 describe('what every connection starts with', () => {
   it('JIT off and the name search’s trigram cut-off, so no search needs a transaction to set them', async () => {
     const { rows } = await t.db.pool.query<{ jit: string; cutoff: string }>("select current_setting('jit') as jit, current_setting('pg_trgm.word_similarity_threshold') as cutoff");
-    expect(rows[0]).toEqual({ jit: 'off', cutoff: String(WORD_SIMILARITY_THRESHOLD) });
+    // PostgreSQL shows a loaded extension's real setting to six digits; the next test pins its exact effect.
+    expect(rows[0]!.jit).toBe('off');
+    expect(Number(rows[0]!.cutoff)).toBeCloseTo(WORD_SIMILARITY_INDEX_CUTOFF, 6);
+  });
+
+  it('`<%` at that cut-off is exactly word_similarity() above the threshold, a similarity of the threshold itself passing neither', async () => {
+    const names = ['Juno Castellane', 'Cassian Drumdlewood', 'Mireille Cassian Lincombe', 'Castor Wend', 'Orla Quillfeather', 'Thistle Thorpe', 'Bram Thistlethorpe-Vey'];
+    const terms = ['castelane', 'castellane', 'thistlethorpe', 'cassian', 'quilfeather'];
+    const { rows } = await t.db.pool.query<{ term: string; name: string; op: boolean; above: boolean; at: boolean }>(
+      `select term, name, term <% name as op, word_similarity(term, name) > $3::real as above, word_similarity(term, name) = $3::real as at
+       from unnest($1::text[]) term cross join unnest($2::text[]) name`,
+      [terms, names, WORD_SIMILARITY_THRESHOLD],
+    );
+    expect(rows).toHaveLength(terms.length * names.length);
+    for (const r of rows) expect({ term: r.term, name: r.name, op: r.op }).toEqual({ term: r.term, name: r.name, op: r.above });
+    // The edge is there to be tested: pairs at exactly the threshold (as a float4) and pairs above it.
+    expect(rows.some((r) => r.at)).toBe(true);
+    expect(rows.some((r) => r.op)).toBe(true);
   });
 
   it('a cast search by name is its statements alone: no begin, set or commit around them', async () => {
