@@ -84,6 +84,14 @@ describe('GET /api/casts: one search box', () => {
     expect(p1.total).toBe(20);
     expect(p1.items).toHaveLength(7);
     expect(p3.items).toHaveLength(6);
+    // The last, partial page carries the total as well as a full one; so does a page past the end.
+    expect(p3.total).toBe(20);
+    const past = CastPageSchema.parse((await find('archivist', { pageSize: '7', page: '4', sort: 'labelCode' })).body);
+    expect(past.items).toHaveLength(0);
+    expect(past.total).toBe(20);
+    const exact = CastPageSchema.parse((await find('archivist', { pageSize: '10', page: '2', sort: 'labelCode' })).body);
+    expect(exact.items).toHaveLength(10);
+    expect(exact.total).toBe(20);
     expect(p1.items.map((i) => i.labelCode)).toEqual(keysToLabels(ARCHIVE_KEYS).slice(0, 7));
   });
   it('is open to staff who read casts; the performer and the administrator get 403', async () => {

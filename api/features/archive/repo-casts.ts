@@ -279,6 +279,10 @@ export async function searchCasts(db: Db, scope: CastScope, s: CastSearch, now: 
       .limit(s.filters.pageSize)
       .offset((s.filters.page - 1) * s.filters.pageSize)
       .execute();
+    // A page that is not full is the last one (or the first, empty), so it says the total itself; only a
+    // full page, or one past the end, is counted.
+    const offset = (s.filters.page - 1) * s.filters.pageSize;
+    if (rows.length < s.filters.pageSize && (rows.length > 0 || offset === 0)) return { items: rows.map(toRecord), total: offset + rows.length };
     const count = await trx.selectFrom('casts').select((eb) => eb.fn.countAll<string>().as('n')).where(where).executeTakeFirstOrThrow();
     return { items: rows.map(toRecord), total: Number(count.n) };
   });
