@@ -104,11 +104,37 @@ function toRecord(r: Row): CastRecord {
   };
 }
 
-function inScope(db: Db, scope: CastScope): Expression<SqlBool> {
+/** The two ways a cast is in scope: from one of the productions, or of a performer engaged on one. */
+function scopeArms(db: Db, scope: CastScope) {
   const ids = scope.productionIds.length ? [...scope.productionIds] : ['00000000-0000-0000-0000-000000000000'];
-  // The performers as one array (not a subquery to hash against every cast), so both arms are index lookups
-  // PostgreSQL ORs as bitmaps rather than a scan of the whole archive.
-  return sql<SqlBool>`(casts.production_id = any(${idArray(ids)}) or casts.performer_id = any(array(${performersEngagedOn(db, ids)})))`;
+  return {
+    own: sql<SqlBool>`casts.production_id = any(${idArray(ids)})`,
+    // The performers as one array (not a subquery to hash against every cast): one index lookup each.
+    engaged: sql<SqlBool>`casts.performer_id = any(array(${performersEngagedOn(db, ids)}))`,
+    notOwn: sql<SqlBool>`casts.production_id <> all(${idArray(ids)})`,
+  };
+}
+
+function inScope(db: Db, scope: CastScope): Expression<SqlBool> {
+  const arms = scopeArms(db, scope);
+  // Both arms are index lookups PostgreSQL ORs as bitmaps rather than a scan of the whole archive.
+  return sql<SqlBool>`(${arms.own} or ${arms.engaged})`;
+}
+
+/**
+ * How many casts in scope pass `rest`: the productions' own, plus the engaged performers' from other
+ * productions (the two never overlap), each counted off its covering index (casts_production_scope_idx,
+ * casts_performer_scope_idx) without reading the casts themselves when `rest` asks only what they carry.
+ */
+async function countInScope(db: Db, scope: CastScope, rest: readonly Expression<SqlBool>[]): Promise<number> {
+  const arms = scopeArms(db, scope);
+  const count = (conds: Expression<SqlBool>[]) =>
+    db
+      .selectFrom('casts')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .where((eb) => eb.and(conds));
+  const row = await sql<{ n: string }>`select (${count([arms.own, ...rest])}) + (${count([arms.engaged, arms.notOwn, ...rest])}) as n`.execute(db);
+  return Number(row.rows[0]!.n);
 }
 
 export async function findCast(db: Db, id: string): Promise<CastRecord | undefined> {
@@ -213,8 +239,9 @@ interface TermHits {
 
 const uuids = idArray;
 
-function searchConditions(db: Db, scope: CastScope, s: CastSearch, hits: readonly TermHits[], now: Date): Expression<SqlBool>[] {
-  const conds: Expression<SqlBool>[] = [inScope(db, scope)];
+/** The search's conditions besides the scope. */
+function searchConditions(s: CastSearch, hits: readonly TermHits[], now: Date): Expression<SqlBool>[] {
+  const conds: Expression<SqlBool>[] = [];
   const f = s.filters;
   if (f.region) conds.push(sql<SqlBool>`casts.region = ${f.region}`);
   if (f.kind) conds.push(sql<SqlBool>`casts.kind = ${f.kind}`);
@@ -264,8 +291,8 @@ export async function searchCasts(db: Db, scope: CastScope, s: CastSearch, now: 
       for (const p of performers) score.set(p.id, (score.get(p.id) ?? 0) + p.score);
       hits.push({ performerIds: performers.map((p) => p.id), productionIds: await productionIdsMatchingName(trx, t.term) });
     }
-    const conds = searchConditions(trx, scope, s, hits, now);
-    const where = (eb: { and: (e: Expression<SqlBool>[]) => Expression<SqlBool> }) => eb.and(conds);
+    const rest = searchConditions(s, hits, now);
+    const where = (eb: { and: (e: Expression<SqlBool>[]) => Expression<SqlBool> }) => eb.and([inScope(trx, scope), ...rest]);
     const ranked = s.filters.sort === 'relevance' && score.size > 0;
     const byScore = [...score].sort((a, b) => b[1] - a[1]).map(([id]) => id);
     const page = baseQuery(trx);
@@ -283,8 +310,7 @@ export async function searchCasts(db: Db, scope: CastScope, s: CastSearch, now: 
     // full page, or one past the end, is counted.
     const offset = (s.filters.page - 1) * s.filters.pageSize;
     if (rows.length < s.filters.pageSize && (rows.length > 0 || offset === 0)) return { items: rows.map(toRecord), total: offset + rows.length };
-    const count = await trx.selectFrom('casts').select((eb) => eb.fn.countAll<string>().as('n')).where(where).executeTakeFirstOrThrow();
-    return { items: rows.map(toRecord), total: Number(count.n) };
+    return { items: rows.map(toRecord), total: await countInScope(trx, scope, rest) };
   });
 }
 
