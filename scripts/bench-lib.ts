@@ -1,5 +1,7 @@
 // Pieces of `npm run bench`: autocannon runs, the statements a request makes and their plans, and
 // the size of the client's initial JavaScript.
+import { execFileSync } from 'node:child_process';
+import { readdirSync, readFileSync } from 'node:fs';
 import { readFile } from 'node:fs/promises';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
@@ -18,6 +20,66 @@ export interface Row {
   p975: number;
   p99: number;
   failed: number;
+  /**
+   * CPU a request cost, in ms: the API's (this process's main thread, where the app and its pg clients
+   * run; autocannon has a thread of its own) and PostgreSQL's (every process of the cluster). Unlike
+   * req/s it hardly moves when something else on the machine takes a core. Null without /proc.
+   */
+  cpu: { app: number; db: number } | null;
+}
+
+/** What a CPU sampler reads: clock ticks so far of this process's main thread and of the cluster. */
+interface CpuTicks {
+  app: number;
+  db: number;
+}
+
+const TICKS_PER_SECOND = (() => {
+  try {
+    return Number(execFileSync('getconf', ['CLK_TCK'], { encoding: 'utf8' }).trim()) || 100;
+  } catch {
+    return 100;
+  }
+})();
+
+/** utime + stime of one /proc stat file, and the parent's pid (the fields after the command's closing bracket). */
+function statOf(file: string): { ticks: number; ppid: number } | null {
+  try {
+    const text = readFileSync(file, 'utf8');
+    const fields = text.slice(text.lastIndexOf(')') + 2).split(' ');
+    return { ticks: Number(fields[11]) + Number(fields[12]), ppid: Number(fields[1]) };
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Reads the CPU used so far by this process's main thread and by the PostgreSQL cluster whose server
+ * process is `postmasterPid` (it and its children), or null where there is no /proc to read.
+ */
+export function cpuSampler(postmasterPid: number | null): (() => CpuTicks) | null {
+  if (postmasterPid === null || statOf(`/proc/${process.pid}/task/${process.pid}/stat`) === null) return null;
+  return () => {
+    let db = 0;
+    for (const entry of readdirSync('/proc')) {
+      if (!/^\d+$/.test(entry)) continue;
+      const st = statOf(`/proc/${entry}/stat`);
+      if (st && (Number(entry) === postmasterPid || st.ppid === postmasterPid)) db += st.ticks;
+    }
+    return { app: statOf(`/proc/${process.pid}/task/${process.pid}/stat`)!.ticks, db };
+  };
+}
+
+/** The server process of the cluster `connectionString` names, found from one of its backends; null when not on this machine. */
+export async function postmasterPidOf(connectionString: string): Promise<number | null> {
+  const client = new pg.Client({ connectionString });
+  await client.connect();
+  try {
+    const { rows } = await client.query<{ pid: number }>('select pg_backend_pid() as pid');
+    return statOf(`/proc/${rows[0]!.pid}/stat`)?.ppid ?? null;
+  } finally {
+    await client.end();
+  }
 }
 
 export interface Target {
@@ -30,15 +92,27 @@ export interface Target {
 }
 
 /** autocannon in a worker thread, so the load generator does not share the server's event loop. */
-export async function measure(t: Target, connections: number, seconds: number): Promise<Row> {
+export async function measure(t: Target, connections: number, seconds: number, cpu: (() => CpuTicks) | null = null): Promise<Row> {
   const headers: Record<string, string> = {};
   if (t.cookie) headers.cookie = t.cookie;
   if (t.body !== undefined) headers['content-type'] = 'application/json';
   if (t.origin) headers.origin = t.origin;
   const opts = { url: t.url, connections, headers, workers: 1, method: t.method ?? 'GET', ...(t.body !== undefined ? { body: JSON.stringify(t.body) } : {}) };
   await autocannon({ ...opts, duration: 1 });
+  const before = cpu?.();
   const r = await autocannon({ ...opts, duration: seconds });
-  return { label: t.label, connections, rps: r.requests.average, p50: r.latency.p50, p975: r.latency.p97_5, p99: r.latency.p99, failed: r.non2xx + r.errors + r.timeouts };
+  const after = cpu?.();
+  const perRequest = (ticks: number) => (ticks * 1000) / TICKS_PER_SECOND / Math.max(1, r.requests.total);
+  return {
+    label: t.label,
+    connections,
+    rps: r.requests.average,
+    p50: r.latency.p50,
+    p975: r.latency.p97_5,
+    p99: r.latency.p99,
+    failed: r.non2xx + r.errors + r.timeouts,
+    cpu: before && after ? { app: perRequest(after.app - before.app), db: perRequest(after.db - before.db) } : null,
+  };
 }
 
 export function listen(app: express.Express): Promise<{ server: Server; base: string }> {
@@ -48,7 +122,7 @@ export function listen(app: express.Express): Promise<{ server: Server; base: st
 }
 
 export function formatTable(rows: Row[], baselineRps: (connections: number) => number): string {
-  const head = ['route', 'conns', 'req/s', 'p50 ms', 'p97.5 ms', 'p99 ms', '× baseline'];
+  const head = ['route', 'conns', 'req/s', 'p50 ms', 'p97.5 ms', 'p99 ms', '× baseline', 'CPU ms/req app + db'];
   const body = rows.map((r) => [
     r.label + (r.failed ? `  (${r.failed} failed)` : ''),
     String(r.connections),
@@ -57,6 +131,7 @@ export function formatTable(rows: Row[], baselineRps: (connections: number) => n
     r.p975.toFixed(1),
     r.p99.toFixed(1),
     (r.rps / baselineRps(r.connections)).toFixed(2),
+    r.cpu ? `${r.cpu.app.toFixed(2)} + ${r.cpu.db.toFixed(2)}` : 'n/a',
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i]!.length)));
   const line = (cells: string[]) => `| ${cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join(' | ')} |`;

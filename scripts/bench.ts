@@ -22,7 +22,7 @@ import { localFileStore } from '../api/files/drivers.ts';
 import { SESSION_COOKIE } from '../api/http/session.ts';
 import { allRoutes } from '../api/routes.ts';
 import { CASTS, loadQuickData, PERFORMERS, USERS } from './bench-load.ts';
-import { explainStatements, formatTable, initialJsGzipBytes, LARGE_TABLE_ROWS, listen, measure, type PlanReport, type Row, statementRecorder, type Target } from './bench-lib.ts';
+import { cpuSampler, explainStatements, formatTable, initialJsGzipBytes, LARGE_TABLE_ROWS, listen, measure, type PlanReport, postmasterPidOf, type Row, statementRecorder, type Target } from './bench-lib.ts';
 import { createThrowawayCluster, ensureDatabase } from './pg.ts';
 import { openScaleDatabase, SCALE_MEDICAL_KEY } from './scale-db.ts';
 
@@ -186,14 +186,16 @@ try {
   const mode = SCALE ? 'the seed:scale studio' : `the quick data set (${PERFORMERS} performers, ${USERS} users, ${CASTS} casts)`;
   console.log(`\nautocannon on ${mode}, ${SECONDS} s per route after a 1 s warm-up, ${os.cpus().length} CPUs:\n`);
   const bareUrl = `${bare.base}/performers/${juno.id}`;
+  // CPU a request costs, the API's and PostgreSQL's, where /proc shows them (see Row.cpu).
+  const cpu = cpuSampler(await postmasterPidOf(databaseUrl).catch(() => null));
   const rows: Row[] = [];
   const baselines = new Map<number, number[]>();
   for (const [i, conns] of CONNECTIONS.entries()) {
-    const first = await measure({ label: 'baseline: bare Express 5 + pg primary key (first)', url: bareUrl }, conns, SECONDS);
+    const first = await measure({ label: 'baseline: bare Express 5 + pg primary key (first)', url: bareUrl }, conns, SECONDS, cpu);
     rows.push(first);
-    for (const t of [...hot, ...(i === 0 ? others : [])].filter((x) => wanted(x.label))) rows.push(await measure(t, conns, SECONDS));
+    for (const t of [...hot, ...(i === 0 ? others : [])].filter((x) => wanted(x.label))) rows.push(await measure(t, conns, SECONDS, cpu));
     // Measured again last: the ratio is to the mean of both, so a machine that slows part-way shows as two baselines.
-    const last = await measure({ label: 'baseline: bare Express 5 + pg primary key (last)', url: bareUrl }, conns, SECONDS);
+    const last = await measure({ label: 'baseline: bare Express 5 + pg primary key (last)', url: bareUrl }, conns, SECONDS, cpu);
     rows.push(last);
     baselines.set(conns, [first.rps, last.rps]);
   }
