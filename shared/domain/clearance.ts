@@ -347,13 +347,16 @@ function computed(f: FormulationFacts, p: Prepared): { state: ClearanceState; re
  */
 function clearanceOf(f: FormulationFacts, p: Prepared): ClearanceResult {
   const c = computed(f, p);
-  const head = { productId: f.productId, formulationId: f.formulationId, productName: f.productName };
   const o = p.overrides.get(f.formulationId);
   const readLater = o !== undefined && (p.testsByFormulation.get(f.formulationId) ?? NO_TESTS).lastReadAt > o.at.getTime();
   const ended = o?.expiresAt != null && o.expiresAt.getTime() <= p.now.getTime();
+  // Each answer is written out field by field: spreading objects of several shapes here cost more than
+  // everything else the rule does (measured on a 30-product check).
   if (o && !readLater && !ended) {
     return {
-      ...head,
+      productId: f.productId,
+      formulationId: f.formulationId,
+      productName: f.productName,
       state: o.state,
       reasons: [reason('lead_decision'), ...c.reasons],
       validUntil: o.state === 'cleared' ? (o.expiresAt ?? null) : null,
@@ -363,8 +366,18 @@ function clearanceOf(f: FormulationFacts, p: Prepared): ClearanceResult {
       computedState: c.state,
     };
   }
-  const reasons = o ? [...c.reasons, reason('override_lapsed')] : c.reasons;
-  return { ...head, ...c, reasons, overridden: false, override: null, computedState: c.state };
+  return {
+    productId: f.productId,
+    formulationId: f.formulationId,
+    productName: f.productName,
+    state: c.state,
+    reasons: o ? [...c.reasons, reason('override_lapsed')] : c.reasons,
+    validUntil: c.validUntil,
+    retestAdvised: c.retestAdvised,
+    overridden: false,
+    override: null,
+    computedState: c.state,
+  };
 }
 
 /** A performer's clearance for every formulation asked about, in the order given, from one set of list queries. */

@@ -4,7 +4,7 @@ import type { DeclaredAllergy } from '#shared/domain/ingredients.ts';
 import type { Db } from '../../db/index.ts';
 import { currentFormulationIds } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { formulationFactsOf, keptTestFacts, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
+import { formulationFactsOf, keptTestedSummary, keptTestFacts, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
 import { listOverrides, type OverrideRow, type TestedProductRow } from './clearance-repo.ts';
 
 export interface PerformerClearancesQuery {
@@ -39,14 +39,11 @@ export async function loadClearanceFacts(db: Db, q: PerformerClearancesQuery): P
     currentFormulationIds(db, q.productIds),
   ]);
   const tested = await testedProductsOf(db, q.performerId, stamps);
+  const summary = keptTestedSummary(tested);
   const [vocabulary, requiredPoints, facts] = await Promise.all([
     answers.length > 0 ? vocabularyOf(db, stamps) : Promise.resolve(NO_VOCABULARY),
-    requiredPointsOf(
-      db,
-      tested.map((t) => t.protocolVersionId),
-      stamps,
-    ),
-    formulationFactsOf(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...tested.map((t) => t.formulationId)], stamps),
+    requiredPointsOf(db, summary.protocolVersionIds, stamps),
+    formulationFactsOf(db, [...current.map((c) => c.formulationId), ...(q.formulationIds ?? []), ...summary.formulationIds], stamps),
   ]);
   const declaredAllergies = answers.length > 0 ? declaredAllergiesFromAnswers(answers, vocabulary.index) : [];
   return decide({ tested, overrides, declaredAllergies, requiredPoints, current, facts, extraFormulationIds: q.formulationIds, now: q.now, catalogueStamp: stamps.catalogue });
@@ -89,10 +86,10 @@ export function decide({ tested, overrides, declaredAllergies, requiredPoints, c
     }));
     return { tests: list, prepared: prepareTests(list) };
   });
-  const testedIds = new Set(tested.map((t) => t.formulationId));
+  const testedIds = keptTestedSummary(tested).formulationIds;
   const results = performerClearance({
     formulations: [...new Set([...current.map((c) => c.formulationId), ...extraFormulationIds])].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
-    testedFormulations: [...testedIds].flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
+    testedFormulations: testedIds.flatMap((id) => (formulations.has(id) ? [formulations.get(id)!] : [])),
     tests,
     prepared,
     declaredAllergies,
