@@ -216,9 +216,33 @@ export interface ListingSplit {
   allergyProductIds: readonly string[];
   /** The rest of the rows listing a non-trivial ingredient of a formulation that reacted, in the listing's order. */
   sharing: readonly Listing[];
+  /** How many rows of `sharing` each product has. */
+  sharingRowsOf: ReadonlyMap<string, number>;
 }
 
 const listingSplits = keptBeside<ListingSplit>();
+
+/**
+ * The rows of `split.sharing` whose product is not in `core`, in order: how many, and those from the
+ * `from`-th to before the `to`-th (all when no range is given). Counted from the products in `core`
+ * and walked only as far as the range, so the first page of thousands costs a few dozen steps.
+ */
+export function sharedOnlyRows(split: ListingSplit, core: ReadonlySet<string>, range?: { from: number; to: number }): { total: number; rows: Listing[] } {
+  let hidden = 0;
+  for (const id of core) hidden += split.sharingRowsOf.get(id) ?? 0;
+  const total = split.sharing.length - hidden;
+  const from = range?.from ?? 0;
+  const to = range?.to ?? total;
+  const rows: Listing[] = [];
+  let seen = 0;
+  for (const r of split.sharing) {
+    if (seen >= to) break;
+    if (core.has(r.productId)) continue;
+    if (seen >= from) rows.push(r);
+    seen++;
+  }
+  return { total, rows };
+}
 
 /**
  * Splits a listing by what its rows match: a declared allergy (by ingredient, or an unlinked label name
@@ -234,7 +258,9 @@ export function splitListing(listing: readonly Listing[], keys: { allergy: Reado
       if (r.allergy || r.unlinkedKeys.some((k) => keys.allergy.has(k))) allergyProductIds.push(r.productId);
       else if (r.shares || r.unlinkedKeys.some((k) => keys.reacted.has(k))) sharing.push(r);
     }
-    return { allergyProductIds, sharing };
+    const sharingRowsOf = new Map<string, number>();
+    for (const r of sharing) sharingRowsOf.set(r.productId, (sharingRowsOf.get(r.productId) ?? 0) + 1);
+    return { allergyProductIds, sharing, sharingRowsOf };
   });
 }
 

@@ -2,7 +2,7 @@ import { declaredAllergiesFromAnswers } from '#shared/domain/declared-allergies.
 import type { Db } from '../../db/index.ts';
 import { currentFormulationIds, productsWithCurrentFormulation } from '../catalogue/index.ts';
 import { listDeclaredAllergyAnswers } from '../consents/index.ts';
-import { formulationFactsOf, keptTestedSummary, listingOf, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, splitListing, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
+import { formulationFactsOf, keptTestedSummary, listingOf, NO_VOCABULARY, readClearanceStamps, requiredPointsOf, sharedOnlyRows, splitListing, testedProductsOf, vocabularyOf } from './clearance-cache.ts';
 import { decide, type ClearanceFacts } from './clearance-loader.ts';
 import { listOverrides } from './clearance-repo.ts';
 
@@ -54,8 +54,8 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   const split = splitListing(listing, { allergy: allergyKeys, reacted: reactedKeys });
   const core = new Set([...summary.productIds, ...overridden, ...split.allergyProductIds]);
   // The listing comes in the catalogue's order (by name), so a page is the same slice however it is asked for.
-  const sharedOnly = split.sharing.filter((r) => !core.has(r.productId));
-  const page = q.sharedPage ? sharedOnly.slice((q.sharedPage.page - 1) * q.sharedPage.pageSize, q.sharedPage.page * q.sharedPage.pageSize) : sharedOnly;
+  const sharedOnly = sharedOnlyRows(split, core, q.sharedPage ? { from: (q.sharedPage.page - 1) * q.sharedPage.pageSize, to: q.sharedPage.page * q.sharedPage.pageSize } : undefined);
+  const page = sharedOnly.rows;
   const current = [...(await currentFormulationIds(db, [...core])), ...page.map((r) => ({ productId: r.productId, formulationId: r.formulationId }))];
   const known = new Set(summary.formulationIds);
   const more = await formulationFactsOf(
@@ -65,5 +65,5 @@ export async function loadTableFacts(db: Db, q: { performerId: string; now: Date
   );
   const facts = decide({ tested, overrides, declaredAllergies: allergies, requiredPoints, current, facts: [...testedFacts, ...more], now: q.now, catalogueStamp: stamps.catalogue });
   const paged = new Set(page.map((c) => c.productId));
-  return { ...facts, results: facts.results.filter((r) => !paged.has(r.productId)), shared: { total: sharedOnly.length, results: facts.results.filter((r) => paged.has(r.productId)) } };
+  return { ...facts, results: facts.results.filter((r) => !paged.has(r.productId)), shared: { total: sharedOnly.total, results: facts.results.filter((r) => paged.has(r.productId)) } };
 }

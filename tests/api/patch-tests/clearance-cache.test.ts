@@ -2,7 +2,7 @@ import { Kysely, PostgresDialect } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sealJson } from '../../../api/crypto/medical.ts';
 import type { Database } from '../../../api/db/schema.ts';
-import { forgetClearanceKept, keptTestedSummary, keptTestFacts, readClearanceStamps, splitListing } from '../../../api/features/patch-tests/clearance-cache.ts';
+import { forgetClearanceKept, keptTestedSummary, keptTestFacts, readClearanceStamps, sharedOnlyRows, splitListing } from '../../../api/features/patch-tests/clearance-cache.ts';
 import { loadClearanceFacts } from '../../../api/features/patch-tests/clearance-loader.ts';
 import { loadTableFacts } from '../../../api/features/patch-tests/clearance-scope.ts';
 import { createTestApp, type TestApp } from '../../support/app.ts';
@@ -246,6 +246,17 @@ describe('what clearance keeps', () => {
     // A listing nobody keeps is split every time.
     const loose = [...listing];
     expect(splitListing(loose, keys)).not.toBe(splitListing(loose, keys));
+  });
+
+  it('pages the shared-only rows as filtering then slicing would, whatever the page', () => {
+    const many = Object.freeze(Array.from({ length: 60 }, (_, i) => ({ productId: `p${i % 50}`, formulationId: `f${i}`, allergy: false, shares: true, unlinkedNames: [], unlinkedKeys: [] })));
+    const split = splitListing(many, { allergy: new Set(), reacted: new Set(['lanolin']) });
+    const core = new Set(['p0', 'p3', 'p7', 'p49', 'not-listed']);
+    const expected = many.filter((r) => !core.has(r.productId));
+    expect(sharedOnlyRows(split, core)).toEqual({ total: expected.length, rows: expected });
+    for (const [from, to] of [[0, 25], [25, 50], [50, 75], [75, 100], [3, 4]] as const) {
+      expect(sharedOnlyRows(split, core, { from, to })).toEqual({ total: expected.length, rows: expected.slice(from, to) });
+    }
   });
 
   it("works out the tested products' ids once while the rows are kept", async () => {
