@@ -49,11 +49,8 @@ interface Kept {
   };
 }
 
-/** The ingredient vocabulary with ids, each row's INCI name normalised, and the index by every name. */
+/** The ingredient vocabulary as clearance reads it: the index by every name, and the ids by key and by group. */
 export interface KeptVocabulary {
-  rows: readonly (Ingredient & { id: string })[];
-  /** `normaliseInciName(rows[i].inci)`. */
-  keys: readonly string[];
   index: IngredientVocabulary;
   /** The ids of the rows by their normalised INCI name, and of the non-trivial ones alone. */
   idsByKey: ReadonlyMap<string, readonly string[]>;
@@ -74,12 +71,11 @@ function groupIds<T>(rows: readonly T[], keyOf: (row: T, i: number) => string | 
   return out;
 }
 
-/** The vocabulary as a loader keeps it: each row's key, and the ids by key and by group. */
-export function keepVocabulary(rows: readonly (Ingredient & { id: string })[]): KeptVocabulary {
+/** The vocabulary as a loader keeps it, its rows frozen (the index hands them out). */
+function keepVocabulary(rows: readonly (Ingredient & { id: string })[]): KeptVocabulary {
+  deepFreeze(rows);
   const keys = rows.map((r) => normaliseInciName(r.inci));
-  return deepFreeze({
-    rows,
-    keys,
+  return Object.freeze({
     index: buildVocabulary(rows),
     idsByKey: groupIds(rows, (_, i) => keys[i]!, (r) => r.id),
     nonTrivialIdsByKey: groupIds(rows, (r, i) => (r.trivial ? null : keys[i]!), (r) => r.id),
